@@ -1,0 +1,42 @@
+// Plain Node on purpose: it runs before any npm package is installed. It installs what is
+// missing (npm packages, Debian's MariaDB server and Chromium when root), then hands over to
+// the TypeScript task runner in scripts/tasks.ts.
+import { spawnSync } from 'node:child_process';
+import { existsSync, statSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
+import { dirname, join } from 'node:path';
+
+const root = join(dirname(fileURLToPath(import.meta.url)), '..');
+const task = process.argv[2] ?? 'start';
+const run = (cmd, args, opts = {}) => spawnSync(cmd, args, { stdio: 'inherit', cwd: root, ...opts });
+const has = (cmd) => spawnSync('sh', ['-c', `command -v ${cmd}`], { stdio: 'ignore' }).status === 0;
+const isRoot = typeof process.getuid === 'function' && process.getuid() === 0;
+
+function npmPackagesStale() {
+  const marker = join(root, 'node_modules', '.package-lock.json');
+  if (!existsSync(marker)) return true;
+  return statSync(join(root, 'package-lock.json')).mtimeMs > statSync(marker).mtimeMs;
+}
+
+function aptInstall(packages, why) {
+  if (!isRoot) {
+    console.error(`Brimstock needs ${why}. Install it with: sudo apt-get install -y ${packages.join(' ')}`);
+    process.exit(1);
+  }
+  console.log(`Installing ${packages.join(', ')} from Debian's packages (${why})…`);
+  const env = { ...process.env, DEBIAN_FRONTEND: 'noninteractive' };
+  if (run('apt-get', ['update', '-qq'], { env }).status !== 0) process.exit(1);
+  if (run('apt-get', ['install', '-y', '-qq', ...packages], { env }).status !== 0) process.exit(1);
+}
+
+if (npmPackagesStale()) {
+  console.log('Installing npm packages (npm ci)…');
+  if (run('npm', ['ci', '--no-audit', '--no-fund']).status !== 0) process.exit(1);
+}
+const needed = [];
+if (!has('mariadbd') && !existsSync('/usr/sbin/mariadbd')) needed.push('mariadb-server');
+if ((task === 'test' || task === 'bench') && !existsSync('/usr/bin/chromium')) needed.push('chromium');
+if (needed.length) aptInstall(needed, needed.includes('chromium') ? 'a database server and a browser for tests' : 'a MariaDB server');
+
+const result = run(process.execPath, ['--import', 'tsx', join(root, 'scripts', 'tasks.ts'), task, ...process.argv.slice(3)]);
+process.exit(result.status ?? 1);

@@ -1,0 +1,69 @@
+// Builds the Express app (no listening here: tests drive it with supertest).
+import { existsSync } from 'node:fs';
+import { join, resolve } from 'node:path';
+import express, { type ErrorRequestHandler } from 'express';
+import { pinoHttp } from 'pino-http';
+import type { AppContext } from './context';
+import { AppError } from './errors';
+import { loadActor } from './middleware/access';
+import { csrfProtection, csrfTools, securityHeaders, sessions } from './middleware/security';
+import { authRouter } from './routes/auth';
+import { devRouter } from './routes/dev';
+import { farmsRouter } from './routes/farms';
+import { healthRouter } from './routes/health';
+import { peopleRouter } from './routes/people';
+
+export function createApp(ctx: AppContext, opts: { staticDir?: string } = {}) {
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', ctx.config.session.secureCookie ? 1 : false);
+  app.use(securityHeaders());
+  app.use(pinoHttp({ logger: ctx.logger, autoLogging: { ignore: (req) => req.url === '/api/health' } }));
+
+  const api = express.Router();
+  const csrf = csrfTools();
+  api.use('/health', healthRouter(ctx));
+  api.use(express.json({ limit: '1mb' }));
+  api.use(sessions(ctx));
+  api.use(csrfProtection(csrf));
+  api.use(loadActor(ctx));
+  api.use('/auth', authRouter(ctx, csrf));
+  api.use('/farms', farmsRouter(ctx));
+  api.use('/', peopleRouter(ctx));
+  if (ctx.config.devOutbox) api.use('/dev', devRouter(ctx));
+  api.use((_req, _res, next) => next(new AppError(404, 'not_found', 'No such API route')));
+  app.use('/api', api);
+
+  const staticDir = opts.staticDir ?? resolve('dist');
+  if (existsSync(join(staticDir, 'index.html'))) {
+    app.use(express.static(staticDir, { index: false, maxAge: '1h' }));
+    app.get(/^\/(?!api\/|socket\.io\/).*/, (_req, res) => res.sendFile(join(staticDir, 'index.html')));
+  }
+
+  app.use(errorHandler(ctx));
+  return app;
+}
+
+function errorHandler(ctx: AppContext): ErrorRequestHandler {
+  return (err, req, res, _next) => {
+    let status = 500;
+    let body: { code: string; message: string; field?: string };
+    if (err instanceof AppError) {
+      status = err.status;
+      body = { code: err.code, message: err.message, ...(err.field ? { field: err.field } : {}) };
+    } else if (err?.type === 'entity.parse.failed') {
+      status = 400;
+      body = { code: 'invalid_json', message: 'The request body is not valid JSON' };
+    } else if (err?.type === 'entity.too.large') {
+      status = 413;
+      body = { code: 'too_large', message: 'The request body is too large' };
+    } else if (err?.name === 'SequelizeConnectionError' || err?.name === 'SequelizeConnectionRefusedError' || err?.name === 'SequelizeConnectionAcquireTimeoutError') {
+      status = 503;
+      body = { code: 'database_down', message: 'The database is not reachable right now; try again shortly' };
+    } else {
+      body = { code: 'internal', message: 'Something went wrong on the server; it has been logged' };
+    }
+    if (status >= 500) (req.log ?? ctx.logger).error({ err }, 'request failed');
+    res.status(status).json({ error: body });
+  };
+}

@@ -1,0 +1,77 @@
+// The only module that reads the environment: parsed once, typed, defaulted, failing fast.
+import { resolve } from 'node:path';
+import { z } from 'zod';
+
+const bool = z
+  .enum(['true', 'false', '1', '0', 'yes', 'no'])
+  .transform((v) => v === 'true' || v === '1' || v === 'yes');
+
+const schema = z.object({
+  NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
+  HOST: z.string().default('127.0.0.1'),
+  PORT: z.coerce.number().int().min(1).max(65535).default(5180),
+  PUBLIC_URL: z.string().url().optional(),
+  DATA_DIR: z.string().default('.data'),
+  DB_HOST: z.string().default('127.0.0.1'),
+  DB_PORT: z.coerce.number().int().min(1).max(65535).default(3407),
+  DB_NAME: z.string().regex(/^[A-Za-z0-9_]+$/).default('brimstock'),
+  DB_USER: z.string().default('brimstock'),
+  DB_PASSWORD: z.string().default('brimstock-dev'),
+  DB_POOL_MAX: z.coerce.number().int().min(1).max(200).default(10),
+  SESSION_SECRET: z.string().min(16).default('development-only-session-secret'),
+  SESSION_IDLE_MINUTES: z.coerce.number().positive().default(60 * 12),
+  SESSION_ABSOLUTE_HOURS: z.coerce.number().positive().default(24 * 14),
+  COOKIE_SECURE: bool.default(false),
+  SMTP_HOST: z.string().default('127.0.0.1'),
+  SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(2525),
+  SMTP_USER: z.string().optional(),
+  SMTP_PASSWORD: z.string().optional(),
+  MAIL_FROM: z.string().default('Brimstock <no-reply@brimstock.invalid>'),
+  DEV_OUTBOX: bool.default(true),
+  LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
+  SIGN_IN_LIMIT_PER_IP: z.coerce.number().int().positive().default(30),
+  SIGN_IN_LIMIT_PER_ACCOUNT: z.coerce.number().int().positive().default(8),
+  SIGN_IN_WINDOW_MINUTES: z.coerce.number().positive().default(15),
+  INVITE_TTL_HOURS: z.coerce.number().positive().default(72),
+  RESET_TTL_HOURS: z.coerce.number().positive().default(2),
+  UPLOAD_MAX_MB: z.coerce.number().positive().max(1024).default(200),
+});
+
+export type Config = ReturnType<typeof loadConfig>;
+
+/** Parses the environment once; throws with every bad key named. */
+export function loadConfig(env: Record<string, string | undefined> = process.env) {
+  const parsed = schema.safeParse(env);
+  if (!parsed.success) {
+    const lines = parsed.error.issues.map((i) => `  ${i.path.join('.')}: ${i.message}`);
+    throw new Error(`Bad settings in the environment:\n${lines.join('\n')}`);
+  }
+  const c = parsed.data;
+  if (c.NODE_ENV === 'production' && c.SESSION_SECRET === 'development-only-session-secret') {
+    throw new Error('SESSION_SECRET must be set in production');
+  }
+  const dataDir = resolve(c.DATA_DIR);
+  return {
+    env: c.NODE_ENV,
+    host: c.HOST,
+    port: c.PORT,
+    publicUrl: (c.PUBLIC_URL ?? `http://${c.HOST}:${c.PORT}`).replace(/\/$/, ''),
+    dataDir,
+    uploadDir: resolve(dataDir, 'uploads'),
+    outboxDir: resolve(dataDir, 'outbox'),
+    db: { host: c.DB_HOST, port: c.DB_PORT, name: c.DB_NAME, user: c.DB_USER, password: c.DB_PASSWORD, poolMax: c.DB_POOL_MAX },
+    session: {
+      secret: c.SESSION_SECRET,
+      cookieName: 'brimstock.sid',
+      idleMs: c.SESSION_IDLE_MINUTES * 60_000,
+      absoluteMs: c.SESSION_ABSOLUTE_HOURS * 3_600_000,
+      secureCookie: c.COOKIE_SECURE,
+    },
+    mail: { host: c.SMTP_HOST, port: c.SMTP_PORT, user: c.SMTP_USER, password: c.SMTP_PASSWORD, from: c.MAIL_FROM },
+    devOutbox: c.DEV_OUTBOX && c.NODE_ENV !== 'production',
+    logLevel: c.LOG_LEVEL,
+    signInLimits: { perIp: c.SIGN_IN_LIMIT_PER_IP, perAccount: c.SIGN_IN_LIMIT_PER_ACCOUNT, windowMs: c.SIGN_IN_WINDOW_MINUTES * 60_000 },
+    tokenTtlMs: { invite: c.INVITE_TTL_HOURS * 3_600_000, reset: c.RESET_TTL_HOURS * 3_600_000 },
+    uploadMaxBytes: Math.round(c.UPLOAD_MAX_MB * 1024 * 1024),
+  };
+}

@@ -1,0 +1,12 @@
+import type { Logger } from 'pino';
+import type { Config } from './config';
+import type { Database } from './db';
+import type { Mailer } from './mail/mailer';
+
+/** What every route and service needs, built once at start-up and passed in (no globals). */
+export interface AppContext {
+  config: Config;
+  db: Database;
+  mailer: Mailer;
+  logger: Logger;
+}

@@ -1,0 +1,47 @@
+// The database handle: one Sequelize instance over the mariadb connector, its models, and
+// umzug migrations from server/migrations (numbered files, run in order).
+import { Sequelize, type QueryInterface } from 'sequelize';
+import { Umzug, SequelizeStorage } from 'umzug';
+import type { Config } from './config';
+import { initModels, type Models } from './models';
+import * as m0001 from './migrations/0001-foundation';
+
+/** Migrations in order; add a new numbered file and list it here. */
+const MIGRATIONS = [{ name: '0001-foundation', module: m0001 }];
+
+export interface Database {
+  sequelize: Sequelize;
+  models: Models;
+}
+
+export function createDatabase(config: Pick<Config, 'db'>, opts: { logging?: false | ((sql: string) => void) } = {}): Database {
+  const sequelize = new Sequelize(config.db.name, config.db.user, config.db.password, {
+    host: config.db.host,
+    port: config.db.port,
+    dialect: 'mariadb',
+    logging: opts.logging ?? false,
+    pool: { max: config.db.poolMax, min: 0, acquire: 20_000, idle: 10_000 },
+    dialectOptions: { connectTimeout: 5_000 },
+    timezone: '+00:00',
+  });
+  return { sequelize, models: initModels(sequelize) };
+}
+
+export function migrator(sequelize: Sequelize) {
+  return new Umzug<QueryInterface>({
+    migrations: MIGRATIONS.map(({ name, module }) => ({
+      name,
+      up: ({ context }: { context: QueryInterface }) => module.up({ context }),
+      down: ({ context }: { context: QueryInterface }) => module.down({ context }),
+    })),
+    context: sequelize.getQueryInterface(),
+    storage: new SequelizeStorage({ sequelize, tableName: 'schema_migrations' }),
+    logger: undefined,
+  });
+}
+
+/** Applies every pending migration; returns their names. */
+export async function migrate(sequelize: Sequelize): Promise<string[]> {
+  const done = await migrator(sequelize).up();
+  return done.map((m) => m.name);
+}

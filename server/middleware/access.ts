@@ -1,0 +1,72 @@
+// Access control in one place: who is signed in (loaded fresh on every request, so role changes
+// and deactivation apply at once), role gates, and the farm scope every query goes through.
+import type { NextFunction, Request, Response } from 'express';
+import type { Role, SessionUser } from '@shared/schemas';
+import type { AppContext } from '../context';
+import { AppError, forbidden } from '../errors';
+import { sessionUserFor } from '../services/auth';
+
+declare module 'express-session' {
+  interface SessionData {
+    userId?: number;
+    signedInAt?: number;
+  }
+}
+declare module 'express-serve-static-core' {
+  interface Request {
+    actor?: SessionUser;
+  }
+}
+
+/** Loads `req.actor` from the session; ends sessions of deactivated users and those past the absolute timeout. */
+export function loadActor(ctx: AppContext) {
+  return async (req: Request, _res: Response, next: NextFunction) => {
+    const { userId, signedInAt } = req.session ?? {};
+    if (!userId) return next();
+    const expired = !signedInAt || Date.now() - signedInAt > ctx.config.session.absoluteMs;
+    const actor = expired ? null : await sessionUserFor(ctx, userId);
+    if (!actor) {
+      await new Promise<void>((r) => req.session.destroy(() => r()));
+      return next();
+    }
+    req.actor = actor;
+    next();
+  };
+}
+
+/** The signed-in user, or a 401. */
+export function actorOf(req: Request): SessionUser {
+  if (!req.actor) throw new AppError(401, 'unauthenticated', 'Sign in first');
+  return req.actor;
+}
+
+/** Middleware: only signed-in users with one of these roles pass (401 / 403 otherwise). */
+export function requireRole(...roles: Role[]) {
+  return (req: Request, _res: Response, next: NextFunction) => {
+    const actor = actorOf(req);
+    if (roles.length && !roles.includes(actor.role)) throw forbidden(`This needs the ${roles.join(' or ')} role`);
+    next();
+  };
+}
+
+/** Middleware: any signed-in user. */
+export const requireSignIn = requireRole();
+
+/** True when the role sees every farm of its organisation. */
+export const seesAllFarms = (role: Role) => role === 'owner' || role === 'manager';
+
+/**
+ * Checks that the actor may see a farm: 404 when it does not exist in the actor's organisation
+ * (other organisations' rows are never confirmed to exist), 403 when it exists but is not granted.
+ */
+export async function assertFarmAccess(ctx: AppContext, actor: SessionUser, farmId: number) {
+  const farm = await ctx.db.models.Farm.findOne({ where: { id: farmId, organisationId: actor.organisationId } });
+  if (!farm) throw new AppError(404, 'not_found', 'Farm not found');
+  if (!actor.farmIds.includes(farm.id)) throw forbidden('You do not have access to this farm');
+  return farm;
+}
+
+/** A Sequelize `where` that limits rows to the actor's organisation and visible farms. */
+export function farmScope(actor: SessionUser, farmColumn = 'farmId') {
+  return { organisationId: actor.organisationId, [farmColumn]: actor.farmIds };
+}

@@ -1,0 +1,36 @@
+import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import type { Role, UnitSystem } from '@shared/schemas';
+
+export class User extends Model<InferAttributes<User>, InferCreationAttributes<User>> {
+  declare id: CreationOptional<number>;
+  declare organisationId: number;
+  declare email: string;
+  declare name: string;
+  declare role: Role;
+  /** Null until the person takes up their invitation. */
+  declare passwordHash: string | null;
+  declare active: CreationOptional<boolean>;
+  declare unitSystem: CreationOptional<UnitSystem>;
+  declare lastSignInAt: Date | null;
+  declare createdAt: CreationOptional<Date>;
+  declare updatedAt: CreationOptional<Date>;
+
+  static initModel(sequelize: Sequelize) {
+    User.init(
+      {
+        id: { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true },
+        organisationId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
+        email: { type: DataTypes.STRING(254), allowNull: false, unique: true },
+        name: { type: DataTypes.STRING(120), allowNull: false },
+        role: { type: DataTypes.ENUM('owner', 'manager', 'worker', 'buyer'), allowNull: false },
+        passwordHash: { type: DataTypes.STRING(100), allowNull: true },
+        active: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
+        unitSystem: { type: DataTypes.ENUM('metric', 'us'), allowNull: false, defaultValue: 'metric' },
+        lastSignInAt: { type: DataTypes.DATE, allowNull: true },
+        createdAt: DataTypes.DATE,
+        updatedAt: DataTypes.DATE,
+      },
+      { sequelize, tableName: 'users' },
+    );
+  }
+}

@@ -1,0 +1,85 @@
+import { Router, type Request } from 'express';
+import rateLimit, { ipKeyGenerator } from 'express-rate-limit';
+import { passwordResetSchema, profileSchema, setPasswordSchema, signInSchema, type SessionState } from '@shared/schemas';
+import type { AppContext } from '../context';
+import { actorOf, requireSignIn } from '../middleware/access';
+import { describeToken, requestPasswordReset, sessionUserFor, setPasswordWithToken, verifySignIn } from '../services/auth';
+import { AppError } from '../errors';
+import { parse } from '../validate';
+import type { CsrfTools } from '../middleware/security';
+
+function regenerate(req: Request): Promise<void> {
+  return new Promise((resolve, reject) => req.session.regenerate((err) => (err ? reject(err) : resolve())));
+}
+
+async function startSession(ctx: AppContext, req: Request, csrf: CsrfTools, userId: number): Promise<SessionState> {
+  await regenerate(req);
+  req.session.userId = userId;
+  req.session.signedInAt = Date.now();
+  const user = await sessionUserFor(ctx, userId);
+  return { user, csrfToken: csrf.generateToken(req, true) };
+}
+
+export function authRouter(ctx: AppContext, csrf: CsrfTools) {
+  const router = Router();
+  const limited = (limit: number, key: (req: Request) => string) =>
+    rateLimit({
+      windowMs: ctx.config.signInLimits.windowMs,
+      limit,
+      keyGenerator: key,
+      skipSuccessfulRequests: true,
+      standardHeaders: 'draft-8',
+      legacyHeaders: false,
+      handler: () => {
+        throw new AppError(429, 'rate_limited', 'Too many sign-in attempts; wait a few minutes and try again');
+      },
+    });
+  const perIp = limited(ctx.config.signInLimits.perIp, (req) => `ip:${ipKeyGenerator(req.ip ?? '')}`);
+  const perAccount = limited(ctx.config.signInLimits.perAccount, (req) => `acct:${String(req.body?.email ?? '').trim().toLowerCase()}`);
+
+  router.get('/session', async (req, res) => {
+    const body: SessionState = { user: req.actor ?? null, csrfToken: csrf.generateToken(req) };
+    res.json(body);
+  });
+
+  router.get('/me', requireSignIn, (req, res) => {
+    res.json(actorOf(req));
+  });
+
+  router.post('/sign-in', perIp, perAccount, async (req, res) => {
+    const input = parse(signInSchema, req.body);
+    const user = await verifySignIn(ctx, input.email, input.password);
+    res.json(await startSession(ctx, req, csrf, user.id));
+  });
+
+  router.post('/sign-out', async (req, res) => {
+    await new Promise<void>((r) => req.session.destroy(() => r()));
+    res.clearCookie(ctx.config.session.cookieName);
+    res.status(204).end();
+  });
+
+  router.patch('/me', requireSignIn, async (req, res) => {
+    const actor = actorOf(req);
+    const input = parse(profileSchema, req.body);
+    await ctx.db.models.User.update(input, { where: { id: actor.id } });
+    res.json(await sessionUserFor(ctx, actor.id));
+  });
+
+  router.post('/password-reset', perIp, async (req, res) => {
+    const { email } = parse(passwordResetSchema, req.body);
+    await requestPasswordReset(ctx, email);
+    res.status(202).json({});
+  });
+
+  router.get('/tokens/:token', async (req, res) => {
+    res.json(await describeToken(ctx, String(req.params.token)));
+  });
+
+  router.post('/set-password', perIp, async (req, res) => {
+    const input = parse(setPasswordSchema, req.body);
+    const user = await setPasswordWithToken(ctx, input.token, input.password, input.name);
+    res.json(await startSession(ctx, req, csrf, user.id));
+  });
+
+  return router;
+}

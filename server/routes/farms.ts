@@ -1,0 +1,23 @@
+import { Router } from 'express';
+import { farmCreateSchema, farmUpdateSchema } from '@shared/schemas';
+import type { AppContext } from '../context';
+import { actorOf, requireRole, requireSignIn } from '../middleware/access';
+import { createFarm, getFarm, listFarms, updateFarm } from '../services/farms';
+import { idParam, parse } from '../validate';
+
+export function farmsRouter(ctx: AppContext) {
+  const router = Router();
+  router.get('/', requireSignIn, async (req, res) => {
+    res.json(await listFarms(ctx, actorOf(req), { includeArchived: req.query.includeArchived === 'true' }));
+  });
+  router.get('/:id', requireSignIn, async (req, res) => {
+    res.json(await getFarm(ctx, actorOf(req), idParam(req.params.id, 'Farm')));
+  });
+  router.post('/', requireRole('owner', 'manager'), async (req, res) => {
+    res.status(201).json(await createFarm(ctx, actorOf(req), parse(farmCreateSchema, req.body)));
+  });
+  router.patch('/:id', requireRole('owner', 'manager'), async (req, res) => {
+    res.json(await updateFarm(ctx, actorOf(req), idParam(req.params.id, 'Farm'), parse(farmUpdateSchema, req.body)));
+  });
+  return router;
+}

@@ -1,0 +1,110 @@
+// Sign-in, the session user, and single-use invitation / reset links.
+import { Op } from 'sequelize';
+import type { SessionUser, TokenInfo } from '@shared/schemas';
+import type { AppContext } from '../context';
+import { AppError } from '../errors';
+import type { User } from '../models';
+import { burnPasswordCheck, checkPassword, hashPassword, hashToken, newToken } from './passwords';
+import { escapeHtml } from '../mail/mailer';
+
+/** The session view of a user, or null when the user is gone or inactive. */
+export async function sessionUserFor(ctx: AppContext, userId: number): Promise<SessionUser | null> {
+  const { User, Organisation, Farm, FarmAccess } = ctx.db.models;
+  const user = await User.findByPk(userId);
+  if (!user || !user.active || !user.passwordHash) return null;
+  const org = await Organisation.findByPk(user.organisationId);
+  const farmIds =
+    user.role === 'owner' || user.role === 'manager'
+      ? (await Farm.findAll({ where: { organisationId: user.organisationId }, attributes: ['id'] })).map((f) => f.id)
+      : (await FarmAccess.findAll({ where: { userId: user.id, organisationId: user.organisationId }, attributes: ['farmId'] })).map((a) => a.farmId);
+  return {
+    id: user.id,
+    email: user.email,
+    name: user.name,
+    role: user.role,
+    organisationId: user.organisationId,
+    organisationName: org?.name ?? '',
+    unitSystem: user.unitSystem,
+    farmIds: farmIds.sort((a, b) => a - b),
+  };
+}
+
+/** Checks e-mail and password; returns the user or throws 401 / 403. */
+export async function verifySignIn(ctx: AppContext, email: string, password: string): Promise<User> {
+  const user = await ctx.db.models.User.findOne({ where: { email } });
+  if (!user || !user.passwordHash) {
+    await burnPasswordCheck(password);
+    throw new AppError(401, 'invalid_credentials', 'E-mail or password is wrong');
+  }
+  if (!(await checkPassword(password, user.passwordHash))) throw new AppError(401, 'invalid_credentials', 'E-mail or password is wrong');
+  if (!user.active) throw new AppError(403, 'account_inactive', 'This account has been deactivated; ask the owner of your organisation');
+  await user.update({ lastSignInAt: new Date() });
+  return user;
+}
+
+/** Ends every session of a user at once (deactivation, password change). */
+export async function endSessionsOf(ctx: AppContext, userId: number): Promise<void> {
+  await ctx.db.models.Session.destroy({ where: { userId } });
+}
+
+/** Makes a single-use link token for a user and mails it. */
+export async function sendTokenMail(ctx: AppContext, user: User, purpose: 'invite' | 'reset', invitedBy?: string): Promise<void> {
+  const { AuthToken, Organisation } = ctx.db.models;
+  // A newer link replaces any older unused one of the same purpose.
+  await AuthToken.update({ usedAt: new Date() }, { where: { userId: user.id, purpose, usedAt: null } });
+  const { token, hash } = newToken();
+  const ttl = ctx.config.tokenTtlMs[purpose];
+  await AuthToken.create({ organisationId: user.organisationId, userId: user.id, purpose, tokenHash: hash, expiresAt: new Date(Date.now() + ttl), usedAt: null });
+  const org = await Organisation.findByPk(user.organisationId);
+  const link = `${ctx.config.publicUrl}/set-password?token=${token}`;
+  const hours = Math.round(ttl / 3_600_000);
+  const orgName = org?.name ?? 'your organisation';
+  const subject = purpose === 'invite' ? `You are invited to ${orgName} on Brimstock` : 'Set a new Brimstock password';
+  const lead =
+    purpose === 'invite'
+      ? `${invitedBy ?? 'The owner'} has invited you to ${orgName} on Brimstock as ${user.role}.`
+      : 'Someone (hopefully you) asked to set a new password for your Brimstock account.';
+  const text = `Hello ${user.name},\n\n${lead}\n\nOpen this link to set your password (it works once, for ${hours} hours):\n${link}\n\nIf you did not expect this message, ignore it.\n`;
+  const html = `<p>Hello ${escapeHtml(user.name)},</p><p>${escapeHtml(lead)}</p><p><a href="${escapeHtml(link)}">Set your password</a> — the link works once, for ${hours} hours.</p><p>If you did not expect this message, ignore it.</p>`;
+  await ctx.mailer.send({ to: user.email, subject, text, html });
+}
+
+async function liveToken(ctx: AppContext, token: string) {
+  const row = await ctx.db.models.AuthToken.findOne({
+    where: { tokenHash: hashToken(token), usedAt: null, expiresAt: { [Op.gt]: new Date() } },
+  });
+  if (!row) throw new AppError(404, 'token_invalid', 'This link is unknown, already used or expired; ask for a new one');
+  return row;
+}
+
+/** What a link is for, without using it up. */
+export async function describeToken(ctx: AppContext, token: string): Promise<TokenInfo> {
+  const row = await liveToken(ctx, token);
+  const user = await ctx.db.models.User.findByPk(row.userId);
+  if (!user) throw new AppError(404, 'token_invalid', 'This link is unknown, already used or expired; ask for a new one');
+  return { purpose: row.purpose, email: user.email, name: user.name };
+}
+
+/** Uses a link: sets the password (and name for invitations); returns the user. */
+export async function setPasswordWithToken(ctx: AppContext, token: string, password: string, name?: string): Promise<User> {
+  const { AuthToken, User } = ctx.db.models;
+  const hash = await hashPassword(password);
+  return ctx.db.sequelize.transaction(async (transaction) => {
+    const row = await liveToken(ctx, token);
+    // Claim the token atomically so two clicks cannot both use it.
+    const [claimed] = await AuthToken.update({ usedAt: new Date() }, { where: { id: row.id, usedAt: null }, transaction });
+    if (claimed !== 1) throw new AppError(404, 'token_invalid', 'This link has just been used');
+    const user = await User.findByPk(row.userId, { transaction });
+    if (!user) throw new AppError(404, 'token_invalid', 'This link is unknown, already used or expired; ask for a new one');
+    if (!user.active) throw new AppError(403, 'account_inactive', 'This account has been deactivated; ask the owner of your organisation');
+    await user.update({ passwordHash: hash, ...(row.purpose === 'invite' && name ? { name } : {}), lastSignInAt: new Date() }, { transaction });
+    await ctx.db.models.Session.destroy({ where: { userId: user.id }, transaction });
+    return user;
+  });
+}
+
+/** Starts a reset for an address if it belongs to an active account; silent otherwise. */
+export async function requestPasswordReset(ctx: AppContext, email: string): Promise<void> {
+  const user = await ctx.db.models.User.findOne({ where: { email, active: true } });
+  if (user && user.passwordHash) await sendTokenMail(ctx, user, 'reset');
+}

@@ -1,0 +1,45 @@
+// Wires a running server: context, app, HTTP server; used by server/index.ts and by tests
+// that need a real listening server (browser tests, sockets).
+import { createServer, type Server } from 'node:http';
+import type { Config } from './config';
+import type { AppContext } from './context';
+import { createApp } from './app';
+import { createDatabase, migrate } from './db';
+import { createLogger } from './logger';
+import { createMailer } from './mail/mailer';
+
+export interface RunningServer {
+  ctx: AppContext;
+  http: Server;
+  port: number;
+  close(): Promise<void>;
+}
+
+export function createContext(config: Config): AppContext {
+  const logger = createLogger(config);
+  return { config, logger, db: createDatabase(config), mailer: createMailer(config) };
+}
+
+/** Migrates, builds the app and listens on config.host:config.port (0 picks a free port). */
+export async function startServer(config: Config, opts: { staticDir?: string } = {}): Promise<RunningServer> {
+  const ctx = createContext(config);
+  await migrate(ctx.db.sequelize);
+  const http = createServer(createApp(ctx, opts));
+  await new Promise<void>((resolve, reject) => {
+    http.once('error', reject);
+    http.listen(config.port, config.host, () => resolve());
+  });
+  const address = http.address();
+  const port = typeof address === 'object' && address ? address.port : config.port;
+  return {
+    ctx,
+    http,
+    port,
+    async close() {
+      http.closeAllConnections();
+      await new Promise<void>((r) => http.close(() => r()));
+      ctx.mailer.close();
+      await ctx.db.sequelize.close();
+    },
+  };
+}

@@ -1,0 +1,40 @@
+import { z } from 'zod';
+
+/** The four roles of an organisation, most powerful first. */
+export const ROLES = ['owner', 'manager', 'worker', 'buyer'] as const;
+/** A role name. */
+export type Role = (typeof ROLES)[number];
+
+/** Unit systems a user may choose for display; storage stays SI. */
+export const UNIT_SYSTEMS = ['metric', 'us'] as const;
+/** A unit system name. */
+export type UnitSystem = (typeof UNIT_SYSTEMS)[number];
+
+/** Positive integer id from a route parameter or body (accepts "12"). */
+export const idSchema = z.coerce.number().int().positive();
+
+/** Trimmed, non-empty text of at most `max` characters. */
+export const text = (max: number) => z.string().trim().min(1, 'Required').max(max, `At most ${max} characters`);
+
+/** The JSON error body every API failure returns. */
+export interface ApiErrorBody {
+  error: { code: string; message: string; field?: string };
+}
+
+/** The first problem of a failed parse as `{ field, message }`, field a dotted path ("points.3.levelMm"). */
+export function firstIssue(error: z.ZodError): { field?: string; message: string } {
+  const issue = error.issues[0];
+  if (!issue) return { message: 'Invalid input' };
+  const field = issue.path.length ? issue.path.join('.') : undefined;
+  return { field, message: field ? `${field}: ${issue.message}` : issue.message };
+}
+
+/** Every problem of a failed parse, keyed by dotted field path (first message per field). */
+export function fieldErrors(error: z.ZodError): Record<string, string> {
+  const out: Record<string, string> = {};
+  for (const issue of error.issues) {
+    const key = issue.path.join('.') || '_';
+    if (!(key in out)) out[key] = issue.message;
+  }
+  return out;
+}

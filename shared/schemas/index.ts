@@ -1,0 +1,4 @@
+export * from './common';
+export * from './auth';
+export * from './people';
+export * from './farms';
