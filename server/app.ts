@@ -1,7 +1,7 @@
 // Builds the Express app (no listening here: tests drive it with supertest).
 import { existsSync } from 'node:fs';
 import { join, resolve } from 'node:path';
-import express, { type ErrorRequestHandler } from 'express';
+import express, { type ErrorRequestHandler, type Router } from 'express';
 import { pinoHttp } from 'pino-http';
 import type { AppContext } from './context';
 import { AppError } from './errors';
@@ -27,10 +27,14 @@ export function createApp(ctx: AppContext, opts: { staticDir?: string } = {}) {
   api.use(sessions(ctx));
   api.use(csrfProtection(csrf));
   api.use(loadActor(ctx));
-  api.use('/auth', authRouter(ctx, csrf));
-  api.use('/farms', farmsRouter(ctx));
-  api.use('/', peopleRouter(ctx));
-  if (ctx.config.devOutbox) api.use('/dev', devRouter(ctx));
+  const mounts: [string, Router][] = [
+    ['/auth', authRouter(ctx, csrf)],
+    ['/farms', farmsRouter(ctx)],
+    ['', peopleRouter(ctx)],
+  ];
+  if (ctx.config.devOutbox) mounts.push(['/dev', devRouter(ctx)]);
+  for (const [prefix, router] of mounts) api.use(prefix || '/', router);
+  app.locals.apiRoutes = listRoutes(mounts);
   api.use((_req, _res, next) => next(new AppError(404, 'not_found', 'No such API route')));
   app.use('/api', api);
 
@@ -42,6 +46,19 @@ export function createApp(ctx: AppContext, opts: { staticDir?: string } = {}) {
 
   app.use(errorHandler(ctx));
   return app;
+}
+
+/** Every API route as "METHOD /api/path" (the access-matrix test checks each has a row). */
+function listRoutes(mounts: [string, Router][]): string[] {
+  const out = ['GET /api/health'];
+  for (const [prefix, router] of mounts) {
+    for (const layer of router.stack) {
+      const route = layer.route as { path: string; methods: Record<string, boolean> } | undefined;
+      if (!route) continue;
+      for (const method of Object.keys(route.methods)) out.push(`${method.toUpperCase()} /api${prefix}${route.path === '/' ? '' : route.path}`);
+    }
+  }
+  return out;
 }
 
 function errorHandler(ctx: AppContext): ErrorRequestHandler {
