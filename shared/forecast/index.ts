@@ -1,0 +1,4 @@
+export { type LevelReading, type LevelMovement, type MovementKind, MS_PER_DAY, MS_PER_HOUR } from './series';
+export { splitMovements, type SplitOptions } from './movements';
+export { dailyUse, daysOfCover, projectedEmptyDate, type DailyUseOptions, type DailyUse } from './daily';
+export { detectLeak, type QuietHours, type LeakOptions, type LeakWindow } from './leak';
