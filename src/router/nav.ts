@@ -1,0 +1,30 @@
+import { ROLES, type Role } from '@shared/schemas';
+
+/** One entry of the main navigation; a later screen is one more line in NAV_ITEMS. */
+export interface NavItem {
+  /** Route name; also the data-testid suffix (`nav-<name>`). */
+  name: string;
+  to: string;
+  label: string;
+  /** PrimeIcons class. */
+  icon: string;
+  roles: readonly Role[];
+  /** One line for the home page's list of screens. */
+  description: string;
+}
+
+const EVERYONE = ROLES;
+
+export const NAV_ITEMS: readonly NavItem[] = [
+  { name: 'home', to: '/', label: 'Home', icon: 'pi pi-home', roles: EVERYONE, description: 'Your farms at a glance.' },
+  { name: 'farms', to: '/farms', label: 'Farms', icon: 'pi pi-map-marker', roles: EVERYONE, description: 'The farms and sites you work on.' },
+  { name: 'people', to: '/people', label: 'People', icon: 'pi pi-users', roles: ['owner'], description: 'Invite people, set roles and farm access.' },
+  { name: 'outbox', to: '/outbox', label: 'Outbox (dev)', icon: 'pi pi-envelope', roles: ['owner'], description: 'Mail the development server captured.' },
+  { name: 'profile', to: '/profile', label: 'Profile', icon: 'pi pi-user', roles: EVERYONE, description: 'Your name and the units you see.' },
+];
+
+/** The navigation entries a role may use, in menu order. */
+export function navItemsFor(role: Role | null | undefined): NavItem[] {
+  if (!role) return [];
+  return NAV_ITEMS.filter((item) => item.roles.includes(role));
+}

@@ -1,0 +1,97 @@
+import { computed, ref } from 'vue';
+import { defineStore } from 'pinia';
+import type { ProfileInput, Role, SessionState, SetPasswordInput, SignInInput, SessionUser } from '@shared/schemas';
+import * as authApi from '@/api/auth';
+import { registerCsrfSource } from '@/api/http';
+import { useFarmsStore } from './farms';
+import { usePeopleStore } from './people';
+
+/** The signed-in user, the CSRF token for writes, and the actions that change them. */
+export const useSessionStore = defineStore('session', () => {
+  const user = ref<SessionUser | null>(null);
+  const csrfToken = ref('');
+  /** True once GET /api/auth/session has answered at least once. */
+  const loaded = ref(false);
+  /** Why the last load failed (server unreachable…), or null. */
+  const loadError = ref<string | null>(null);
+  let pending: Promise<void> | null = null;
+
+  const isSignedIn = computed(() => user.value !== null);
+  const role = computed<Role | null>(() => user.value?.role ?? null);
+
+  function hasRole(...roles: Role[]): boolean {
+    return role.value !== null && roles.includes(role.value);
+  }
+
+  function adopt(state: SessionState): void {
+    // Lists cached for one person must not show to the next one on this device.
+    if (user.value?.id !== state.user?.id) forgetUserData();
+    user.value = state.user;
+    csrfToken.value = state.csrfToken;
+    loaded.value = true;
+    loadError.value = null;
+  }
+
+  /** Fetches the session once; `force` fetches again (after sign-out, or for a fresh CSRF token). */
+  function load(force = false): Promise<void> {
+    if (loaded.value && !force) return Promise.resolve();
+    // Several callers (router guard, CSRF retry) may ask at once; one request serves them all.
+    pending ??= authApi
+      .fetchSession()
+      .then(adopt)
+      .catch((error: unknown) => {
+        loadError.value = error instanceof Error ? error.message : String(error);
+        throw error;
+      })
+      .finally(() => {
+        pending = null;
+      });
+    return pending;
+  }
+
+  async function signIn(input: SignInInput): Promise<SessionUser> {
+    if (!csrfToken.value) await load(true);
+    const state = await authApi.signIn(input);
+    adopt(state);
+    return state.user;
+  }
+
+  async function setPassword(input: SetPasswordInput): Promise<SessionUser> {
+    if (!csrfToken.value) await load(true);
+    const state = await authApi.setPassword(input);
+    adopt(state);
+    return state.user;
+  }
+
+  /** Signs out on the server, then fetches the new anonymous session so the next sign-in has a token. */
+  async function signOut(): Promise<void> {
+    try {
+      await authApi.signOut();
+    } finally {
+      clear();
+      await load(true).catch(() => undefined);
+    }
+  }
+
+  /** Forgets the user locally (the server already ended the session). */
+  function clear(): void {
+    user.value = null;
+    csrfToken.value = '';
+    forgetUserData();
+  }
+
+  function forgetUserData(): void {
+    useFarmsStore().reset();
+    usePeopleStore().reset();
+  }
+
+  async function updateProfile(input: ProfileInput): Promise<SessionUser> {
+    const updated = await authApi.updateProfile(input);
+    user.value = updated;
+    return updated;
+  }
+
+  registerCsrfSource({ token: () => csrfToken.value, refresh: () => load(true) });
+
+  return { user, csrfToken, loaded, loadError, isSignedIn, role, hasRole, load, signIn, setPassword, signOut, clear, updateProfile };
+});
