@@ -1,6 +1,6 @@
 // Builds the Express app (no listening here: tests drive it with supertest).
 import { existsSync } from 'node:fs';
-import { join, resolve } from 'node:path';
+import { join } from 'node:path';
 import express, { type ErrorRequestHandler, type Router } from 'express';
 import { pinoHttp } from 'pino-http';
 import type { AppContext } from './context';
@@ -12,6 +12,9 @@ import { devRouter } from './routes/dev';
 import { farmsRouter } from './routes/farms';
 import { healthRouter } from './routes/health';
 import { peopleRouter } from './routes/people';
+import { tanksRouter } from './routes/tanks';
+import { readingsRouter } from './routes/readings';
+import { boardRouter } from './routes/board';
 
 export function createApp(ctx: AppContext, opts: { staticDir?: string } = {}) {
   const app = express();
@@ -24,12 +27,17 @@ export function createApp(ctx: AppContext, opts: { staticDir?: string } = {}) {
   const csrf = csrfTools();
   api.use('/health', healthRouter(ctx));
   api.use(express.json({ limit: '1mb' }));
-  api.use(sessions(ctx));
+  const sessionMiddleware = sessions(ctx);
+  app.locals.sessionMiddleware = sessionMiddleware;
+  api.use(sessionMiddleware);
   api.use(csrfProtection(csrf));
   api.use(loadActor(ctx));
   const mounts: [string, Router][] = [
     ['/auth', authRouter(ctx, csrf)],
     ['/farms', farmsRouter(ctx)],
+    ['/tanks', tanksRouter(ctx)],
+    ['', readingsRouter(ctx)],
+    ['/board', boardRouter(ctx)],
     ['', peopleRouter(ctx)],
   ];
   if (ctx.config.devOutbox) mounts.push(['/dev', devRouter(ctx)]);
@@ -38,7 +46,7 @@ export function createApp(ctx: AppContext, opts: { staticDir?: string } = {}) {
   api.use((_req, _res, next) => next(new AppError(404, 'not_found', 'No such API route')));
   app.use('/api', api);
 
-  const staticDir = opts.staticDir ?? resolve('dist');
+  const staticDir = opts.staticDir ?? ctx.config.clientDir;
   if (existsSync(join(staticDir, 'index.html'))) {
     app.use(express.static(staticDir, { index: false, maxAge: '1h' }));
     app.get(/^\/(?!api\/|socket\.io\/).*/, (_req, res) => res.sendFile(join(staticDir, 'index.html')));

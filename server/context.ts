@@ -1,3 +1,4 @@
+import type { EventEmitter } from 'node:events';
 import type { Logger } from 'pino';
 import type { Config } from './config';
 import type { Database } from './db';
@@ -9,4 +10,6 @@ export interface AppContext {
   db: Database;
   mailer: Mailer;
   logger: Logger;
+  /** In-process events: 'readings' { organisationId, farmIds } after each commit that changes stock. */
+  events: EventEmitter;
 }

@@ -5,9 +5,15 @@ import { Umzug, SequelizeStorage } from 'umzug';
 import type { Config } from './config';
 import { initModels, type Models } from './models';
 import * as m0001 from './migrations/0001-foundation';
+import * as m0002 from './migrations/0002-tanks';
+import * as m0003 from './migrations/0003-readings';
 
 /** Migrations in order; add a new numbered file and list it here. */
-const MIGRATIONS = [{ name: '0001-foundation', module: m0001 }];
+const MIGRATIONS = [
+  { name: '0001-foundation', module: m0001 },
+  { name: '0002-tanks', module: m0002 },
+  { name: '0003-readings', module: m0003 },
+];
 
 export interface Database {
   sequelize: Sequelize;

@@ -1,15 +1,19 @@
 // Wires a running server: context, app, HTTP server; used by server/index.ts and by tests
 // that need a real listening server (browser tests, sockets).
+import { EventEmitter } from 'node:events';
 import { createServer, type Server } from 'node:http';
+import type { Server as SocketServer } from 'socket.io';
 import type { Config } from './config';
 import type { AppContext } from './context';
 import { createApp } from './app';
 import { createDatabase, migrate } from './db';
 import { createLogger } from './logger';
 import { createMailer } from './mail/mailer';
+import { attachRealtime } from './realtime';
 
 export interface RunningServer {
   ctx: AppContext;
+  io: SocketServer;
   http: Server;
   port: number;
   close(): Promise<void>;
@@ -17,14 +21,16 @@ export interface RunningServer {
 
 export function createContext(config: Config): AppContext {
   const logger = createLogger(config);
-  return { config, logger, db: createDatabase(config), mailer: createMailer(config) };
+  return { config, logger, db: createDatabase(config), mailer: createMailer(config), events: new EventEmitter() };
 }
 
 /** Migrates, builds the app and listens on config.host:config.port (0 picks a free port). */
 export async function startServer(config: Config, opts: { staticDir?: string } = {}): Promise<RunningServer> {
   const ctx = createContext(config);
   await migrate(ctx.db.sequelize);
-  const http = createServer(createApp(ctx, opts));
+  const app = createApp(ctx, opts);
+  const http = createServer(app);
+  const io = attachRealtime(ctx, http, app.locals.sessionMiddleware);
   await new Promise<void>((resolve, reject) => {
     http.once('error', reject);
     http.listen(config.port, config.host, () => resolve());
@@ -33,9 +39,11 @@ export async function startServer(config: Config, opts: { staticDir?: string } =
   const port = typeof address === 'object' && address ? address.port : config.port;
   return {
     ctx,
+    io,
     http,
     port,
     async close() {
+      await io.close();
       http.closeAllConnections();
       await new Promise<void>((r) => http.close(() => r()));
       ctx.mailer.close();

@@ -5,15 +5,17 @@ import { Farm } from './farm';
 import { FarmAccess } from './farm-access';
 import { Session } from './session';
 import { AuthToken } from './auth-token';
+import { Tank, TankCalibration, TankContentsPeriod } from './tank';
+import { Reading, TankLatest, TankDay } from './reading';
 
-export { Organisation, User, Farm, FarmAccess, Session, AuthToken };
+export { Organisation, User, Farm, FarmAccess, Session, AuthToken, Tank, TankCalibration, TankContentsPeriod, Reading, TankLatest, TankDay };
 
 /** Every model, initialised on one Sequelize instance. */
 export function initModels(sequelize: Sequelize) {
-  for (const m of [Organisation, User, Farm, FarmAccess, Session, AuthToken]) m.initModel(sequelize);
+  for (const m of [Organisation, User, Farm, FarmAccess, Session, AuthToken, Tank, TankCalibration, TankContentsPeriod, Reading, TankLatest, TankDay]) m.initModel(sequelize);
   User.belongsTo(Organisation, { foreignKey: 'organisationId' });
   User.hasMany(FarmAccess, { foreignKey: 'userId', as: 'farmAccess' });
   Farm.belongsTo(Organisation, { foreignKey: 'organisationId' });
-  return { Organisation, User, Farm, FarmAccess, Session, AuthToken };
+  return { Organisation, User, Farm, FarmAccess, Session, AuthToken, Tank, TankCalibration, TankContentsPeriod, Reading, TankLatest, TankDay };
 }
 export type Models = ReturnType<typeof initModels>;

@@ -73,5 +73,7 @@ export async function updatePerson(ctx: AppContext, actor: SessionUser, id: numb
   if (input.farmIds) await setFarmAccess(ctx, actor, user.id, await checkFarmIds(ctx, actor, input.farmIds));
   await user.update({ ...(input.role ? { role: input.role } : {}), ...(input.active !== undefined ? { active: input.active } : {}) });
   if (input.active === false) await endSessionsOf(ctx, user.id);
+  // Open sockets reconnect (or are refused) with the new role and farm access.
+  ctx.events.emit('user-changed', { userId: user.id });
   return toPerson(ctx, user);
 }

@@ -12,11 +12,13 @@ type Method = 'get' | 'post' | 'patch' | 'put' | 'delete';
 interface World {
   a: OrgFixture & { pendingId: number };
   b: OrgFixture & { pendingId: number };
+  /** A tank on each target farm. */
+  tanks: Record<Scope, number>;
 }
 type Expect = number | Partial<Record<Scope, number>>;
 interface Row {
   route: string;
-  url: (w: World, s: Scope) => string;
+  url: (w: World, s: Scope) => string | Promise<string>;
   body?: (w: World, s: Scope, who: Who) => object;
   /** The agent's session changes (sign-in, sign-out): use a fresh one for this row. */
   fresh?: boolean;
@@ -28,6 +30,8 @@ const SCOPES: Scope[] = ['own', 'other-farm', 'other-org'];
 const farm = (w: World, s: Scope) => (s === 'own' ? w.a.farmIds[0] : s === 'other-farm' ? w.a.farmIds[1] : w.b.farmIds[0]);
 const person = (w: World, s: Scope) => (s === 'other-org' ? w.b.users.buyer.id : w.a.users.buyer.id);
 const pending = (w: World, s: Scope) => (s === 'other-org' ? w.b.pendingId : w.a.pendingId);
+const tank = (w: World, s: Scope) => w.tanks[s];
+const TANK_GEOMETRY = { shape: 'vertical-cylinder', diameterMm: 1000, heightMm: 1500 };
 const same = (n: number): Record<Who, Expect> => ({ owner: n, manager: n, worker: n, buyer: n, anonymous: n });
 const signedInOnly = (n: number): Record<Who, Expect> => ({ ...same(n), anonymous: 401 });
 /** Farm-scoped read: owners and managers see every farm of their organisation, workers and buyers only theirs. */
@@ -76,6 +80,34 @@ const ROWS: Row[] = [
     body: (w) => ({ farmIds: [w.a.farmIds[0]] }),
     expect: ownerOnly({ own: 200, 'other-farm': 200, 'other-org': 404 }),
   },
+  { route: 'GET /api/tanks', url: (w, s) => `/api/tanks?farmId=${farm(w, s)}`, expect: farmRead(200) },
+  { route: 'GET /api/tanks/:id', url: (w, s) => `/api/tanks/${tank(w, s)}`, expect: farmRead(200) },
+  {
+    route: 'POST /api/tanks',
+    url: () => '/api/tanks',
+    body: (w, s) => ({ farmId: farm(w, s), name: 'Matrix tank', code: `MX${++seq}`, contents: 'water', geometry: TANK_GEOMETRY }),
+    expect: managersOnly({ own: 201, 'other-farm': 201, 'other-org': 404 }),
+  },
+  { route: 'PATCH /api/tanks/:id', url: (w, s) => `/api/tanks/${tank(w, s)}`, body: () => ({ lowStockL: 100 }), expect: managersOnly({ own: 200, 'other-farm': 200, 'other-org': 404 }) },
+  { route: 'GET /api/tanks/:id/contents', url: (w, s) => `/api/tanks/${tank(w, s)}/contents`, expect: farmRead(200) },
+  { route: 'GET /api/tanks/:id/calibration', url: (w, s) => `/api/tanks/${tank(w, s)}/calibration?step=50`, expect: farmRead(200) },
+  { route: 'GET /api/tanks/:id/gauge-strip.pdf', url: (w, s) => `/api/tanks/${tank(w, s)}/gauge-strip.pdf?every=50&unit=metric&paper=a4`, expect: farmRead(200) },
+  {
+    route: 'POST /api/rounds',
+    url: () => '/api/rounds',
+    body: (w, s) => ({ farmId: farm(w, s), entries: [{ tankId: tank(w, s), readingMm: 400, idempotencyKey: `matrix${++seq}x` }] }),
+    expect: { ...farmRead(201), buyer: 403 },
+  },
+  { route: 'GET /api/tanks/:id/readings', url: (w, s) => `/api/tanks/${tank(w, s)}/readings`, expect: farmRead(200) },
+  { route: 'GET /api/tanks/:id/series', url: (w, s) => `/api/tanks/${tank(w, s)}/series?bucket=day`, expect: farmRead(200) },
+  {
+    route: 'POST /api/readings/:id/correction',
+    url: async (w, s) => `/api/readings/${await freshReading(w, s)}/correction`,
+    body: () => ({ readingMm: 300, note: 'matrix correction' }),
+    expect: { ...farmRead(201), buyer: 403 },
+  },
+  { route: 'GET /api/board', url: () => '/api/board', expect: signedInOnly(200) },
+  { route: 'GET /api/board/history', url: () => '/api/board/history', expect: signedInOnly(200) },
   // Development-only mail outbox; not mounted in production (see the config test).
   { route: 'GET /api/dev/outbox', url: () => '/api/dev/outbox', expect: same(200) },
   { route: 'DELETE /api/dev/outbox', url: () => '/api/dev/outbox', expect: same(204) },
@@ -83,6 +115,13 @@ const ROWS: Row[] = [
 
 const env = useTestApp({ SIGN_IN_LIMIT_PER_IP: '100000', SIGN_IN_LIMIT_PER_ACCOUNT: '100000' });
 const world = {} as World;
+
+/** A new reading on the scope's tank (each correction case needs its own). */
+async function freshReading(w: World, s: Scope): Promise<number> {
+  const t = (await env.ctx.db.models.Tank.findByPk(w.tanks[s]))!;
+  const r = await env.ctx.db.models.Reading.create({ organisationId: t.organisationId, farmId: t.farmId, tankId: t.id, takenAt: new Date(Date.now() - ++seq * 1000), source: 'round', levelMm: 500, grossL: 392.7, usableL: 392.7, temperatureC: null, calibrationVersion: t.calibrationVersion, enteredById: null, importId: null, idempotencyKey: null });
+  return r.id;
+}
 const agents = {} as Record<Who, Agent>;
 
 async function withPending(org: OrgFixture) {
@@ -97,6 +136,10 @@ async function agentFor(who: Who): Promise<Agent> {
 beforeAll(async () => {
   world.a = await withPending(await makeOrganisation(env, { farms: 2 }));
   world.b = await withPending(await makeOrganisation(env, { farms: 1 }));
+  const { Tank } = env.ctx.db.models;
+  const makeTank = async (org: OrgFixture, farmId: number) =>
+    (await Tank.create({ organisationId: org.organisationId, farmId, name: 'Fixture', code: 'FX', contents: 'water', contentsNote: '', geometry: TANK_GEOMETRY as never, datumOffsetMm: 0, outletHeightMm: 0, safeFillLevelMm: 1500, lowStockL: 0, specificGravity: 1, sensorHeightMm: null, walkOrder: 0, calibrationVersion: 'fixture', archivedAt: null })).id;
+  world.tanks = { own: await makeTank(world.a, world.a.farmIds[0]), 'other-farm': await makeTank(world.a, world.a.farmIds[1]), 'other-org': await makeTank(world.b, world.b.farmIds[0]) };
   for (const who of WHO) agents[who] = await agentFor(who);
 });
 
@@ -114,7 +157,7 @@ describe('access matrix', () => {
     const agent = row.fresh ? await agentFor(who) : agents[who];
     const [method, ...rest] = row.route.split(' ');
     void rest;
-    const res = await call(agent, method.toLowerCase() as Method, row.url(world, scope), row.body?.(world, scope, who));
+    const res = await call(agent, method.toLowerCase() as Method, await row.url(world, scope), row.body?.(world, scope, who));
     expect(res.status, JSON.stringify(res.body)).toBe(want);
   });
 

@@ -4,6 +4,7 @@ import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { randomBytes } from 'node:crypto';
+import { EventEmitter } from 'node:events';
 import { afterAll, beforeAll, inject } from 'vitest';
 import mariadb from 'mariadb';
 import { loadConfig, type Config } from '../../server/config';
@@ -51,7 +52,7 @@ export function useTestApp(overrides: Record<string, string> = {}): TestEnv {
     closeMail = (await startMailCapture({ port: smtpPort, outboxDir: config.outboxDir })).close;
     const db = createDatabase(config);
     await migrate(db.sequelize);
-    const ctx: AppContext = { config, db, logger: createLogger(config), mailer: createMailer(config) };
+    const ctx: AppContext = { config, db, logger: createLogger(config), mailer: createMailer(config), events: new EventEmitter() };
     Object.assign(env, { ctx, config, app: createApp(ctx, { staticDir: join(dataDir, 'no-client') }) });
   });
   afterAll(async () => {

@@ -1,0 +1,55 @@
+import { Router } from 'express';
+import Papa from 'papaparse';
+import { z } from 'zod';
+import { calibrationQuerySchema, gaugeStripQuerySchema, idSchema, tankCreateSchema, tankUpdateSchema } from '@shared/schemas';
+import type { AppContext } from '../context';
+import { actorOf, requireRole, requireSignIn } from '../middleware/access';
+import { gaugeStripPdf } from '../services/gauge-strip';
+import { calibrationTable, contentsHistory, createTank, listTanks, tankFor, toTankDto, updateTank } from '../services/tanks';
+import { idParam, parse } from '../validate';
+
+const listQuery = z.object({ farmId: idSchema.optional(), includeArchived: z.enum(['true', 'false']).optional() });
+
+export function tanksRouter(ctx: AppContext) {
+  const router = Router();
+  const managers = requireRole('owner', 'manager');
+
+  router.get('/', requireSignIn, async (req, res) => {
+    const q = parse(listQuery, req.query);
+    res.json(await listTanks(ctx, actorOf(req), { farmId: q.farmId, includeArchived: q.includeArchived === 'true' }));
+  });
+  router.get('/:id', requireSignIn, async (req, res) => {
+    res.json(toTankDto(await tankFor(ctx, actorOf(req), idParam(req.params.id, 'Tank'))));
+  });
+  router.post('/', managers, async (req, res) => {
+    res.status(201).json(await createTank(ctx, actorOf(req), parse(tankCreateSchema, req.body)));
+  });
+  router.patch('/:id', managers, async (req, res) => {
+    res.json(await updateTank(ctx, actorOf(req), idParam(req.params.id, 'Tank'), parse(tankUpdateSchema, req.body)));
+  });
+  router.get('/:id/contents', requireSignIn, async (req, res) => {
+    res.json(await contentsHistory(ctx, actorOf(req), idParam(req.params.id, 'Tank')));
+  });
+  router.get('/:id/calibration', requireSignIn, async (req, res) => {
+    const q = parse(calibrationQuerySchema, req.query);
+    const table = await calibrationTable(ctx, actorOf(req), idParam(req.params.id, 'Tank'), q);
+    if (q.format === 'json') return void res.json(table);
+    const tank = await tankFor(ctx, actorOf(req), table.tankId);
+    // escapeFormulae: a cell that starts with = + - @ is prefixed so spreadsheets never run it.
+    const csv = Papa.unparse(
+      { fields: [`level_${table.lengthUnit}`, `tube_reading_${table.lengthUnit}`, `volume_${table.volumeUnit}`], data: table.rows.map((r) => [round(r.level), round(r.level - table.datumOffset), round(r.volume)]) },
+      { escapeFormulae: true },
+    );
+    const title = Papa.unparse([[`# ${tank.name} (${tank.code})`], [`# calibration ${table.version}`]], { escapeFormulae: true });
+    res.type('text/csv').attachment(`${tank.code}-calibration.csv`).send(`${title}\r\n${csv}\r\n`);
+  });
+  router.get('/:id/gauge-strip.pdf', requireSignIn, async (req, res) => {
+    const q = parse(gaugeStripQuerySchema, req.query);
+    const { filename, pdf } = await gaugeStripPdf(ctx, actorOf(req), idParam(req.params.id, 'Tank'), q);
+    // Tank codes are letters, digits and "-" only, so the name needs no escaping inside the quotes.
+    res.type('application/pdf').set('Content-Disposition', `attachment; filename="${filename}"`).send(Buffer.from(pdf));
+  });
+  return router;
+}
+
+const round = (v: number) => Math.round(v * 1000) / 1000;

@@ -1,0 +1,98 @@
+// The stock board: totals of water, fertilizer, pest solution and culture from each tank's
+// latest reading (tank_latest), across the farms a user may see and per farm.
+import { QueryTypes } from 'sequelize';
+import { capacityL, type TankGeometry } from '@shared/calibration';
+import { totalsOf } from '@shared/board';
+import { TANK_CONTENTS, type BoardHistory, type FarmBoard, type SessionUser, type StockBoard, type TankContents, type TankTile } from '@shared/schemas';
+import type { AppContext } from '../context';
+
+interface Row {
+  tankId: number;
+  farmId: number;
+  farmName: string;
+  name: string;
+  code: string;
+  contents: TankContents;
+  geometry: TankGeometry | string;
+  lowStockL: number;
+  grossL: number | null;
+  usableL: number | null;
+  temperatureC: number | null;
+  takenAt: Date | null;
+}
+
+/** The board for the farms the actor may see. */
+export function stockBoard(ctx: AppContext, actor: SessionUser): Promise<StockBoard> {
+  return boardOf(ctx, actor.organisationId, actor.farmIds);
+}
+
+/** The board of some farms of one organisation (callers check access). */
+export async function boardOf(ctx: AppContext, organisationId: number, farmIds: number[]): Promise<StockBoard> {
+  const rows = farmIds.length
+    ? await ctx.db.sequelize.query<Row>(
+        `SELECT t.id AS tankId, t.farmId, f.name AS farmName, t.name, t.code, t.contents, t.geometry, t.lowStockL,
+                l.grossL, l.usableL, l.temperatureC, l.takenAt
+           FROM tanks t JOIN farms f ON f.id = t.farmId
+           LEFT JOIN tank_latest l ON l.tankId = t.id
+          WHERE t.organisationId = ? AND t.farmId IN (?) AND t.archivedAt IS NULL AND f.archivedAt IS NULL
+          ORDER BY f.name, t.walkOrder, t.name`,
+        { replacements: [organisationId, farmIds], type: QueryTypes.SELECT },
+      )
+    : [];
+  const farms = new Map<number, FarmBoard>();
+  const all: TankTile[] = [];
+  for (const r of rows) {
+    const geometry = typeof r.geometry === 'string' ? (JSON.parse(r.geometry) as TankGeometry) : r.geometry;
+    const cap = capacityL(geometry);
+    const tile: TankTile = {
+      tankId: r.tankId,
+      farmId: r.farmId,
+      name: r.name,
+      code: r.code,
+      contents: r.contents,
+      capacityL: cap,
+      lowStockL: r.lowStockL,
+      grossL: r.grossL,
+      usableL: r.usableL,
+      percentFull: r.grossL === null ? null : (r.grossL / cap) * 100,
+      temperatureC: r.temperatureC,
+      takenAt: r.takenAt ? new Date(r.takenAt).toISOString() : null,
+      low: r.usableL !== null && r.usableL < r.lowStockL,
+    };
+    all.push(tile);
+    if (!farms.has(r.farmId)) farms.set(r.farmId, { farmId: r.farmId, name: r.farmName, totals: [], tanks: [] });
+    farms.get(r.farmId)!.tanks.push(tile);
+  }
+  for (const f of farms.values()) f.totals = totalsOf(f.tanks);
+  return { generatedAt: new Date().toISOString(), totals: totalsOf(all), farms: [...farms.values()] };
+}
+
+/** Usable litres per contents for each of the last `days` days, carrying each tank's last known value forward. */
+export async function boardHistory(ctx: AppContext, actor: SessionUser, days = 14): Promise<BoardHistory> {
+  const dayList: string[] = [];
+  const today = new Date();
+  for (let i = days - 1; i >= 0; i--) dayList.push(new Date(today.getTime() - i * 86_400_000).toISOString().slice(0, 10));
+  if (!actor.farmIds.length) return { days: dayList, series: TANK_CONTENTS.map((contents) => ({ contents, usableL: dayList.map(() => null) })) };
+  const rows = await ctx.db.sequelize.query<{ tankId: number; day: string; usableL: number; contents: TankContents }>(
+    `SELECT d.tankId, DATE_FORMAT(d.day, '%Y-%m-%d') AS day, d.usableL, t.contents
+       FROM tank_days d JOIN tanks t ON t.id = d.tankId
+      WHERE d.organisationId = ? AND d.farmId IN (?) AND t.archivedAt IS NULL
+        AND (d.day >= ? OR d.day = (SELECT MAX(d2.day) FROM tank_days d2 WHERE d2.tankId = d.tankId AND d2.day < ?))
+      ORDER BY d.day`,
+    { replacements: [actor.organisationId, actor.farmIds, dayList[0], dayList[0]], type: QueryTypes.SELECT },
+  );
+  const last = new Map<number, { usableL: number; contents: TankContents }>();
+  const series = TANK_CONTENTS.map((contents) => ({ contents, usableL: [] as (number | null)[] }));
+  let i = 0;
+  for (const day of dayList) {
+    while (i < rows.length && rows[i].day <= day) {
+      last.set(rows[i].tankId, { usableL: rows[i].usableL, contents: rows[i].contents });
+      i++;
+    }
+    for (const s of series) {
+      const vals = [...last.values()].filter((v) => v.contents === s.contents);
+      s.usableL.push(vals.length ? vals.reduce((a, v) => a + v.usableL, 0) : null);
+    }
+  }
+  return { days: dayList, series };
+}

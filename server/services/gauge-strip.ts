@@ -1,0 +1,278 @@
+// The printable gauge strip: the shared layout drawn with pdf-lib at true 1:1 scale.
+//
+// PDF user space is 1/72 inch per unit (ISO 32000-1:2008, §8.3.2.3, default user space), and
+// 1 in = 25.4 mm exactly, so 1 mm = 72/25.4 pt ≈ 2.834646 pt. Every length below is in mm and goes
+// through `pt()` once; the origin is the bottom-left corner of the page, y upward.
+import { degrees, LineCapStyle, PDFDocument, rgb, StandardFonts, closePath, fill, lineTo, moveTo, popGraphicsState, pushGraphicsState, setFillingColor, type Color, type PDFFont, type PDFPage } from 'pdf-lib';
+import { GaugeStripError, gaugePage, gaugeStripLayout, suggestGaugeStep, type GaugePaper, type GaugeStripLayout, type GaugeStripPage } from '@shared/gauge';
+import type { GaugeStripQuery, SessionUser, TankContents } from '@shared/schemas';
+import { formatLength, formatNumberTrimmed, INCH_MM, UNIT_SYMBOLS, type UnitSystem } from '@shared/units';
+import type { AppContext } from '../context';
+import { AppError } from '../errors';
+import { tankFor } from './tanks';
+
+/** Points per millimetre: 72 pt per inch over 25.4 mm per inch. */
+export const PT_PER_MM = 72 / INCH_MM;
+const pt = (mm: number) => mm * PT_PER_MM;
+
+/** Where the drawing puts things, in mm (the strip's left edge is the page margin). */
+export const GAUGE_DRAWING = {
+  stripWidthMm: 62,
+  majorTickMm: 14,
+  minorTickMm: 8,
+  majorTickThicknessMm: 0.35,
+  minorTickThicknessMm: 0.2,
+  scaleTickMm: { small: 2, medium: 3.5, large: 5.5 },
+  scaleThicknessMm: 0.15,
+  checkBarThicknessMm: 0.6,
+  /** 100 mm for metric users, 4 in (101.6 mm) for US users. */
+  checkBarMm: { metric: 100, us: 4 * INCH_MM },
+} as const;
+
+const INK = rgb(0, 0, 0);
+const GREY = rgb(0.45, 0.45, 0.45);
+const CAUTION = 'Read the tube from outside the tank — never enter a tank (confined space).';
+const CONTENTS_NAMES: Record<TankContents, string> = { water: 'Water', fertilizer: 'Fertilizer', 'pest-solution': 'Pest solution', culture: 'Microbial culture' };
+
+/** What the strip prints about its tank. */
+export interface GaugeStripTank {
+  name: string;
+  code: string;
+  contents: TankContents;
+  contentsNote: string;
+}
+
+interface Fonts {
+  regular: PDFFont;
+  bold: PDFFont;
+  /** Code points Helvetica can encode (WinAnsi); anything else prints as "?". */
+  charset: Set<number>;
+}
+
+/** The gauge strip PDF of a tank the actor may see, with its download file name and the layout it draws. */
+export async function gaugeStripPdf(ctx: AppContext, actor: SessionUser, id: number, query: GaugeStripQuery): Promise<{ filename: string; pdf: Uint8Array; layout: GaugeStripLayout }> {
+  const tank = await tankFor(ctx, actor, id);
+  const unitSystem = query.unit ?? actor.unitSystem;
+  const paper: GaugePaper = query.paper ?? (unitSystem === 'us' ? 'letter' : 'a4');
+  const layout = withFieldErrors(() => {
+    const every = query.every === undefined ? suggestGaugeStep(tank.geometry, tank.datumOffsetMm, unitSystem) : { value: query.every, unit: unitSystem === 'us' ? ('usgal' as const) : ('L' as const) };
+    return gaugeStripLayout({ geometry: tank.geometry, datumOffsetMm: tank.datumOffsetMm, everyVolume: every, unitSystem, page: gaugePage(paper) });
+  });
+  const pdf = await renderGaugeStrip({ name: tank.name, code: tank.code, contents: tank.contents, contentsNote: tank.contentsNote }, layout);
+  return { filename: `${tank.code}-gauge-strip.pdf`, pdf, layout };
+}
+
+/** Layout refusals as API errors: a bad step is the query's fault (400 every); a tank that cannot be printed is 422. */
+function withFieldErrors<T>(work: () => T): T {
+  try {
+    return work();
+  } catch (err) {
+    if (!(err instanceof GaugeStripError)) throw err;
+    const reason = err.message.slice(err.field.length + 2);
+    if (err.field.startsWith('every')) throw new AppError(400, 'invalid_input', `every: ${reason}`, 'every');
+    if (err.field === 'page') throw new AppError(422, 'too_tall', `paper: ${reason}`, 'paper');
+    if (err.field === 'datumOffsetMm') throw new AppError(422, 'unprintable', `datumOffsetMm: ${reason}`, 'datumOffsetMm');
+    throw err;
+  }
+}
+
+/**
+ * Draws a layout as a PDF at 1:1 (one page per layout page, Helvetica embedded by pdf-lib, no
+ * network). Saved without object streams so each page's content is a plain stream object.
+ */
+export async function renderGaugeStrip(tank: GaugeStripTank, layout: GaugeStripLayout): Promise<Uint8Array> {
+  const doc = await PDFDocument.create();
+  const regular = await doc.embedFont(StandardFonts.Helvetica);
+  const bold = await doc.embedFont(StandardFonts.HelveticaBold);
+  const fonts: Fonts = { regular, bold, charset: new Set(regular.getCharacterSet()) };
+  doc.setTitle(`${tank.name} (${tank.code}) — gauge strip`);
+  doc.setSubject('Sight-tube gauge strip, print at 100 % (actual size)');
+  doc.setCreator('Brimstock');
+  doc.setProducer('Brimstock');
+  // Readers print at the sheet size in the file; 2 decimals of a point (< 0.002 mm) match the
+  // usual A4 size in points (595.28 × 841.89) and leave Letter at exactly 612 × 792.
+  const size: [number, number] = [round2(pt(layout.page.widthMm)), round2(pt(layout.page.heightMm))];
+  for (const p of layout.pages) drawPage(doc.addPage(size), fonts, tank, layout, p);
+  return doc.save({ useObjectStreams: false });
+}
+
+function drawPage(page: PDFPage, fonts: Fonts, tank: GaugeStripTank, layout: GaugeStripLayout, p: GaugeStripPage) {
+  const unitSystem: UnitSystem = layout.scaleUnit === 'in' ? 'us' : 'metric';
+  drawHeader(page, fonts, tank, layout, p, unitSystem);
+  drawStrip(page, fonts, tank, layout, p);
+  drawUprightCheckBar(page, fonts, layout, unitSystem);
+}
+
+function drawHeader(page: PDFPage, fonts: Fonts, tank: GaugeStripTank, layout: GaugeStripLayout, p: GaugeStripPage, unitSystem: UnitSystem) {
+  const { widthMm, heightMm, marginMm } = layout.page;
+  const left = marginMm;
+  const right = widthMm - marginMm;
+  const top = heightMm - marginMm;
+  const pageText = `Page ${p.label}`;
+  const pageWidth = pt(right - left) - fonts.bold.widthOfTextAtSize(pageText, 11);
+  text(page, fonts, pageText, { x: right, y: top - 5, size: 11, bold: true, align: 'right' });
+  text(page, fonts, `${tank.name} (${tank.code}) — gauge strip`, { x: left, y: top - 5, size: 13, bold: true, maxWidthPt: pageWidth - pt(6) });
+
+  const contents = CONTENTS_NAMES[tank.contents] + (tank.contentsNote ? ` (${tank.contentsNote})` : '');
+  const volumeWords = layout.volumeUnit === 'L' ? 'litres (L)' : 'US gallons (gal)';
+  const stepText = volumeText(layout.step.value, layout);
+  const lines = [
+    `Contents: ${contents}. A mark every ${stepText}, long marks every ${volumeText(layout.step.value * layout.majorEvery, layout)}; labels in ${volumeWords}.`,
+    `Edge scale: sight-tube reading in ${layout.scaleUnit === 'mm' ? 'millimetres' : 'inches'}. Tube zero mark ${formatLength(Math.abs(layout.datumOffsetMm), unitSystem)} ${layout.datumOffsetMm < 0 ? 'below' : 'above'} the tank floor; top of the tank at ${formatLength(layout.topPositionMm, unitSystem)} on the tube.`,
+  ];
+  lines.forEach((line, i) => text(page, fonts, line, { x: left, y: top - 11 - 4.5 * i, size: 8, maxWidthPt: pt(right - left) }));
+  text(page, fonts, 'Print at 100 % / actual size — do not scale to fit.', { x: left, y: top - 22.5, size: 10.5, bold: true });
+
+  const barMm = GAUGE_DRAWING.checkBarMm[unitSystem];
+  const barY = top - 28;
+  line(page, left, barY, left + barMm, barY, GAUGE_DRAWING.checkBarThicknessMm);
+  for (const x of [left, left + barMm]) line(page, x, barY - 1.8, x, barY + 1.8, 0.2);
+  const barWords = unitSystem === 'us' ? '4 in' : '100 mm';
+  text(page, fonts, `Check with a ruler: the bar above must measure exactly ${barWords}. If it does not, the print was scaled — do not use this strip.`, { x: left, y: barY - 5, size: 7.5, maxWidthPt: pt(right - left) });
+  text(page, fonts, CAUTION, { x: left, y: top - 39, size: 9.5, bold: true, maxWidthPt: pt(right - left) });
+  text(page, fonts, "Cut the strip out along its two edges and tape it beside the sight tube with the 0 line level with the tube's zero mark. Join pages at the matching join lines.", {
+    x: left,
+    y: top - 44,
+    size: 7,
+    maxWidthPt: pt(right - left),
+  });
+}
+
+function drawStrip(page: PDFPage, fonts: Fonts, tank: GaugeStripTank, layout: GaugeStripLayout, p: GaugeStripPage) {
+  const D = GAUGE_DRAWING;
+  const x0 = layout.page.marginMm;
+  const xr = x0 + D.stripWidthMm;
+  const y = (positionMm: number) => layout.stripBottomMm + (positionMm - p.fromMm);
+  const yLow = y(p.fromMm);
+  const yHigh = y(p.toMm);
+  const first = p.index === 0;
+  const last = p.index === layout.totalPages - 1;
+  // Text beside a mark near a join would be cut in half: keep it inside this page's part of the strip.
+  const clampBaseline = (baseline: number, sizePt: number) => {
+    const capMm = (0.72 * sizePt) / PT_PER_MM;
+    let b = baseline;
+    if (!last) b = Math.min(b, yHigh - capMm - 0.3);
+    if (!first) b = Math.max(b, yLow + 0.3);
+    return b;
+  };
+
+  line(page, x0, yLow, x0, yHigh, 0.2, GREY);
+  line(page, xr, yLow, xr, yHigh, 0.2, GREY);
+
+  for (const t of p.ticks) {
+    const ty = y(t.positionMm);
+    const len = t.major ? D.majorTickMm : D.minorTickMm;
+    line(page, x0, ty, x0 + len, ty, t.major ? D.majorTickThicknessMm : D.minorTickThicknessMm);
+    if (!t.labelShown) continue;
+    const size = t.major ? 8 : 6.5;
+    text(page, fonts, t.label, { x: x0 + len + 1.5, y: clampBaseline(ty - (0.36 * size) / PT_PER_MM, size), size, bold: t.major });
+  }
+
+  for (const s of p.scale) {
+    const sy = y(s.positionMm);
+    line(page, xr - D.scaleTickMm[s.size], sy, xr, sy, D.scaleThicknessMm);
+    if (s.label) text(page, fonts, s.label, { x: xr - D.scaleTickMm.large - 1, y: clampBaseline(sy - (0.36 * 6) / PT_PER_MM, 6), size: 6, align: 'right' });
+  }
+
+  // Along the strip, so a strip cut from its page still carries the caution and says what it is;
+  // a short last piece that cannot hold them leaves them to the pages below and the header.
+  const scaleWords = layout.scaleUnit === 'mm' ? 'edge scale in mm' : 'edge scale in inches';
+  const along: [string, number, number, boolean][] = [
+    [CAUTION, 38, 6.5, true],
+    [`${tank.code} · page ${p.label} · a mark every ${volumeText(layout.step.value, layout)} · ${scaleWords}`, 44, 6, false],
+  ];
+  for (const [words, dx, size, isBold] of along) {
+    const lengthMm = (isBold ? fonts.bold : fonts.regular).widthOfTextAtSize(printable(fonts, words), size) / PT_PER_MM;
+    if (lengthMm + 9 <= yHigh - yLow) text(page, fonts, words, { x: x0 + dx, y: yLow + 6, size, bold: isBold, rotate: 90 });
+  }
+
+  const noteX = xr + 6;
+  if (first) {
+    line(page, x0 - 3, y(0), xr + 3, y(0), 0.45);
+    text(page, fonts, "0 — level with the tube's zero mark", { x: noteX, y: y(0) - 1, size: 8, bold: true });
+  }
+  if (layout.floorPositionMm !== null && layout.floorPositionMm >= p.fromMm && layout.floorPositionMm <= p.toMm) {
+    // Outside the strip, pointing at the edge scale: the "0 L" mark already shows the floor on the volume side.
+    line(page, xr, y(layout.floorPositionMm), xr + 5, y(layout.floorPositionMm), 0.25, GREY);
+    text(page, fonts, 'Tank floor', { x: noteX, y: y(layout.floorPositionMm) + 1, size: 7 });
+  }
+  if (last) {
+    line(page, x0 - 3, yHigh, xr + 3, yHigh, 0.45);
+    text(page, fonts, 'Top of the tank', { x: noteX, y: yHigh + 1, size: 8, bold: true });
+  }
+  for (const j of p.joins) {
+    const jy = y(j.positionMm);
+    if (j.role === 'cut') {
+      line(page, x0 - 4, jy, layout.page.widthMm - layout.page.marginMm - 14, jy, 0.3, INK, [pt(2), pt(1.5)]);
+      text(page, fonts, j.text, { x: noteX, y: jy - 4, size: 8, bold: true });
+    } else {
+      line(page, x0 - 4, jy, layout.page.widthMm - layout.page.marginMm - 14, jy, 0.3);
+      text(page, fonts, j.text, { x: noteX, y: jy + 1.5, size: 8, bold: true });
+    }
+    // Half a diamond on each side of the join: the two halves meet when the pages line up.
+    const dir = j.role === 'cut' ? -1 : 1;
+    for (const cx of [x0 - 2, xr + 2]) triangle(page, cx, jy, dir);
+  }
+}
+
+function drawUprightCheckBar(page: PDFPage, fonts: Fonts, layout: GaugeStripLayout, unitSystem: UnitSystem) {
+  const barMm = GAUGE_DRAWING.checkBarMm[unitSystem];
+  const x = layout.page.widthMm - layout.page.marginMm - 6;
+  const y0 = layout.stripBottomMm;
+  // Printers can scale height and width differently; the marks run upright, so check upright too.
+  line(page, x, y0, x, y0 + barMm, GAUGE_DRAWING.checkBarThicknessMm);
+  for (const y of [y0, y0 + barMm]) line(page, x - 1.8, y, x + 1.8, y, 0.2);
+  text(page, fonts, `Check: ${unitSystem === 'us' ? '4 in' : '100 mm'}`, { x: x - 2.5, y: y0 + barMm / 2 - 10, size: 7, bold: true, rotate: 90 });
+}
+
+function line(page: PDFPage, x1: number, y1: number, x2: number, y2: number, thicknessMm: number, color: Color = INK, dashArray?: number[]) {
+  page.drawLine({ start: { x: pt(x1), y: pt(y1) }, end: { x: pt(x2), y: pt(y2) }, thickness: pt(thicknessMm), color, lineCap: LineCapStyle.Butt, dashArray });
+}
+
+/** A filled 4 mm wide, 2.5 mm tall triangle with its apex on (x, y), pointing up (dir −1, below) or down (dir 1, above). */
+function triangle(page: PDFPage, xMm: number, yMm: number, dir: number) {
+  page.pushOperators(
+    pushGraphicsState(),
+    setFillingColor(INK),
+    moveTo(pt(xMm), pt(yMm)),
+    lineTo(pt(xMm - 2), pt(yMm + dir * 2.5)),
+    lineTo(pt(xMm + 2), pt(yMm + dir * 2.5)),
+    closePath(),
+    fill(),
+    popGraphicsState(),
+  );
+}
+
+interface TextOptions {
+  x: number;
+  y: number;
+  size: number;
+  bold?: boolean;
+  align?: 'left' | 'right';
+  rotate?: number;
+  maxWidthPt?: number;
+}
+
+/** Draws text at (x, y) mm; too wide for `maxWidthPt`, it shrinks to 6 pt, then is cut short with "…". */
+function text(page: PDFPage, fonts: Fonts, raw: string, o: TextOptions) {
+  const font = o.bold ? fonts.bold : fonts.regular;
+  let value = printable(fonts, raw);
+  let size = o.size;
+  if (o.maxWidthPt !== undefined) {
+    while (size > 6 && font.widthOfTextAtSize(value, size) > o.maxWidthPt) size -= 0.25;
+    while (value.length > 1 && font.widthOfTextAtSize(value, size) > o.maxWidthPt) value = `${value.slice(0, -2).trimEnd()}…`;
+  }
+  const width = font.widthOfTextAtSize(value, size);
+  const x = o.align === 'right' ? pt(o.x) - width : pt(o.x);
+  page.drawText(value, { x, y: pt(o.y), size, font, color: INK, ...(o.rotate ? { rotate: degrees(o.rotate) } : {}) });
+}
+
+/** `s` with line breaks flattened and characters Helvetica cannot encode replaced by "?". */
+function printable(fonts: Fonts, s: string): string {
+  let out = '';
+  for (const ch of s.replace(/\s+/g, ' ')) out += fonts.charset.has(ch.codePointAt(0) ?? 0) ? ch : '?';
+  return out;
+}
+
+const round2 = (v: number) => Math.round(v * 100) / 100;
+const volumeText = (value: number, layout: GaugeStripLayout) => `${formatNumberTrimmed(value, 6)} ${UNIT_SYMBOLS[layout.step.unit]}`;

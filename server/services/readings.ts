@@ -1,0 +1,280 @@
+// Storing readings: the one insert path for rounds, logger imports and corrections. Each batch
+// is inserted in one statement, and the tank's latest reading and daily snapshot are kept
+// current in the same transaction, so the board never scans history.
+import { Op, QueryTypes, type Transaction } from 'sequelize';
+import { readingToVolumes, type ReadingInput } from '@shared/readings';
+import type { CorrectionInput, Reading as ReadingDto, RoundEntryResult, RoundSubmitInput, SeriesPoint, SessionUser } from '@shared/schemas';
+import type { AppContext } from '../context';
+import { AppError, notFound } from '../errors';
+import { assertFarmAccess } from '../middleware/access';
+import type { Reading, Tank } from '../models';
+import { tankFor } from './tanks';
+
+export interface NewReading {
+  organisationId: number;
+  farmId: number;
+  tankId: number;
+  takenAt: Date;
+  source: 'round' | 'logger' | 'correction';
+  revision?: number;
+  levelMm: number;
+  grossL: number;
+  usableL: number;
+  temperatureC: number | null;
+  calibrationVersion: string;
+  enteredById: number | null;
+  importId: number | null;
+  note: string;
+  idempotencyKey: string | null;
+}
+
+const COLUMNS = ['organisationId', 'farmId', 'tankId', 'takenAt', 'source', 'revision', 'levelMm', 'grossL', 'usableL', 'temperatureC', 'calibrationVersion', 'enteredById', 'importId', 'note', 'idempotencyKey', 'createdAt'] as const;
+
+/** The local calendar day (YYYY-MM-DD) of an instant in a time zone. */
+const dayFormatters = new Map<string, Intl.DateTimeFormat>();
+export function localDay(at: Date, timeZone: string): string {
+  let f = dayFormatters.get(timeZone);
+  if (!f) {
+    f = new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' });
+    dayFormatters.set(timeZone, f);
+  }
+  return f.format(at);
+}
+
+/**
+ * Inserts readings in one multi-row INSERT IGNORE (rows whose natural key or idempotency key
+ * exists already are skipped), then brings tank_latest and tank_days up to date.
+ * Returns how many rows were new.
+ */
+export async function insertReadings(ctx: AppContext, rows: NewReading[], timeZones: Map<number, string>, transaction: Transaction): Promise<number> {
+  if (!rows.length) return 0;
+  const now = new Date();
+  const placeholders = `(${COLUMNS.map(() => '?').join(',')})`;
+  const values: unknown[] = [];
+  for (const r of rows) values.push(r.organisationId, r.farmId, r.tankId, r.takenAt, r.source, r.revision ?? 0, r.levelMm, r.grossL, r.usableL, r.temperatureC, r.calibrationVersion, r.enteredById, r.importId, r.note, r.idempotencyKey, now);
+  const [, affected] = await ctx.db.sequelize.query(`INSERT IGNORE INTO readings (${COLUMNS.join(',')}) VALUES ${rows.map(() => placeholders).join(',')}`, {
+    replacements: values,
+    type: QueryTypes.INSERT,
+    transaction,
+  });
+  await refreshSnapshots(ctx, rows, timeZones, transaction);
+  return Number(affected);
+}
+
+/** Updates each touched tank's latest reading and the daily snapshots of the days touched. */
+async function refreshSnapshots(ctx: AppContext, rows: NewReading[], timeZones: Map<number, string>, transaction: Transaction) {
+  const newestByTank = new Map<number, NewReading>();
+  const lastByDay = new Map<string, NewReading & { day: string }>();
+  for (const r of rows) {
+    const cur = newestByTank.get(r.tankId);
+    if (!cur || r.takenAt > cur.takenAt) newestByTank.set(r.tankId, r);
+    const day = localDay(r.takenAt, timeZones.get(r.farmId) ?? 'UTC');
+    const key = `${r.tankId}|${day}`;
+    const prev = lastByDay.get(key);
+    if (!prev || r.takenAt > prev.takenAt) lastByDay.set(key, { ...r, day });
+  }
+  for (const r of newestByTank.values()) {
+    // The stored row (it may have existed already) supplies the id.
+    const [stored] = await ctx.db.sequelize.query<{ id: number }>(
+      'SELECT id FROM readings WHERE tankId = ? AND takenAt = ? AND source = ? AND revision = ? LIMIT 1',
+      { replacements: [r.tankId, r.takenAt, r.source, r.revision ?? 0], type: QueryTypes.SELECT, transaction },
+    );
+    if (!stored) continue;
+    // Assignments run left to right in MariaDB, so takenAt is updated last.
+    await ctx.db.sequelize.query(
+      `INSERT INTO tank_latest (tankId, organisationId, farmId, readingId, takenAt, levelMm, grossL, usableL, temperatureC, source)
+       VALUES (?,?,?,?,?,?,?,?,?,?)
+       ON DUPLICATE KEY UPDATE
+         readingId = IF(VALUES(takenAt) >= takenAt, VALUES(readingId), readingId),
+         levelMm = IF(VALUES(takenAt) >= takenAt, VALUES(levelMm), levelMm),
+         grossL = IF(VALUES(takenAt) >= takenAt, VALUES(grossL), grossL),
+         usableL = IF(VALUES(takenAt) >= takenAt, VALUES(usableL), usableL),
+         temperatureC = IF(VALUES(takenAt) >= takenAt, VALUES(temperatureC), temperatureC),
+         source = IF(VALUES(takenAt) >= takenAt, VALUES(source), source),
+         takenAt = GREATEST(VALUES(takenAt), takenAt)`,
+      { replacements: [r.tankId, r.organisationId, r.farmId, stored.id, r.takenAt, r.levelMm, r.grossL, r.usableL, r.temperatureC, r.source], type: QueryTypes.INSERT, transaction },
+    );
+  }
+  const days = [...lastByDay.values()];
+  for (let i = 0; i < days.length; i += 500) {
+    const chunk = days.slice(i, i + 500);
+    await ctx.db.sequelize.query(
+      `INSERT INTO tank_days (tankId, day, organisationId, farmId, takenAt, grossL, usableL) VALUES ${chunk.map(() => '(?,?,?,?,?,?,?)').join(',')}
+       ON DUPLICATE KEY UPDATE
+         grossL = IF(VALUES(takenAt) >= takenAt, VALUES(grossL), grossL),
+         usableL = IF(VALUES(takenAt) >= takenAt, VALUES(usableL), usableL),
+         takenAt = GREATEST(VALUES(takenAt), takenAt)`,
+      { replacements: chunk.flatMap((d) => [d.tankId, d.day, d.organisationId, d.farmId, d.takenAt, d.grossL, d.usableL]), type: QueryTypes.INSERT, transaction },
+    );
+  }
+}
+
+/** Recomputes a tank's latest reading and one day's snapshot from the effective readings (after a correction). */
+async function rebuildSnapshots(ctx: AppContext, tank: Tank, day: string, timeZone: string, transaction: Transaction) {
+  const { Reading, TankLatest, TankDay } = ctx.db.models;
+  const latest = await Reading.findOne({ where: { tankId: tank.id, correctedById: null }, order: [['takenAt', 'DESC'], ['id', 'DESC']], transaction });
+  if (latest) {
+    await TankLatest.upsert(
+      { tankId: tank.id, organisationId: tank.organisationId, farmId: tank.farmId, readingId: latest.id, takenAt: latest.takenAt, levelMm: latest.levelMm, grossL: latest.grossL, usableL: latest.usableL, temperatureC: latest.temperatureC, source: latest.source },
+      { transaction },
+    );
+  }
+  const ofDay = await Reading.findAll({ where: { tankId: tank.id, correctedById: null }, order: [['takenAt', 'DESC']], limit: 200, transaction });
+  const last = ofDay.find((r) => localDay(r.takenAt, timeZone) === day);
+  if (last) await TankDay.upsert({ tankId: tank.id, day, organisationId: tank.organisationId, farmId: tank.farmId, takenAt: last.takenAt, grossL: last.grossL, usableL: last.usableL }, { transaction });
+}
+
+export const tankSetup = (t: Tank) => ({
+  geometry: t.geometry,
+  datumOffsetMm: t.datumOffsetMm,
+  outletHeightMm: t.outletHeightMm,
+  safeFillLevelMm: t.safeFillLevelMm,
+  specificGravity: t.specificGravity,
+  sensorHeightMm: t.sensorHeightMm ?? undefined,
+});
+
+export async function toReadingDto(ctx: AppContext, rows: Reading[]): Promise<ReadingDto[]> {
+  const ids = [...new Set(rows.map((r) => r.enteredById).filter((v): v is number => v !== null))];
+  const names = new Map((await ctx.db.models.User.findAll({ where: { id: ids }, attributes: ['id', 'name'] })).map((u) => [u.id, u.name]));
+  return rows.map((r) => ({
+    id: Number(r.id),
+    tankId: r.tankId,
+    takenAt: r.takenAt.toISOString(),
+    levelMm: r.levelMm,
+    grossL: r.grossL,
+    usableL: r.usableL,
+    temperatureC: r.temperatureC,
+    source: r.source,
+    enteredBy: (r.enteredById && names.get(r.enteredById)) || (r.source === 'logger' ? 'logger file' : ''),
+    importId: r.importId,
+    note: r.note,
+    calibrationVersion: r.calibrationVersion,
+    correctedById: r.correctedById ? Number(r.correctedById) : null,
+    correctsId: r.correctsId ? Number(r.correctsId) : null,
+  }));
+}
+
+/**
+ * Stores a worker's round: each entry is converted with the same shared function the phone
+ * form uses; refused entries are reported with their reason, retried entries as duplicates.
+ */
+export async function submitRound(ctx: AppContext, actor: SessionUser, input: RoundSubmitInput): Promise<RoundEntryResult[]> {
+  const farm = await assertFarmAccess(ctx, actor, input.farmId);
+  if (farm.archivedAt) throw new AppError(409, 'farm_archived', 'This farm is archived; restore it before entering readings');
+  const takenAt = input.takenAt ? new Date(input.takenAt) : new Date();
+  if (takenAt.getTime() > Date.now() + 5 * 60_000) throw new AppError(400, 'invalid_input', 'takenAt: a round cannot be in the future', 'takenAt');
+  const { Tank, Reading } = ctx.db.models;
+  const tanks = new Map((await Tank.findAll({ where: { farmId: farm.id, organisationId: actor.organisationId } })).map((t) => [t.id, t]));
+  const keys = input.entries.map((e) => e.idempotencyKey);
+  const earlier = new Map((await Reading.findAll({ where: { idempotencyKey: keys } })).map((r) => [r.idempotencyKey!, r]));
+
+  const results: RoundEntryResult[] = [];
+  const rows: NewReading[] = [];
+  const seenTanks = new Set<number>();
+  for (const e of input.entries) {
+    const tank = tanks.get(e.tankId);
+    if (!tank) {
+      results.push({ tankId: e.tankId, status: 'refused', reason: 'This tank is not on this farm' });
+      continue;
+    }
+    const prior = earlier.get(e.idempotencyKey);
+    if (prior) {
+      results.push({ tankId: e.tankId, status: 'duplicate', reading: (await toReadingDto(ctx, [prior]))[0] });
+      continue;
+    }
+    if (tank.archivedAt) {
+      results.push({ tankId: e.tankId, status: 'refused', reason: 'This tank is archived' });
+      continue;
+    }
+    if (seenTanks.has(tank.id)) {
+      results.push({ tankId: e.tankId, status: 'refused', reason: 'This tank appears twice in the round' });
+      continue;
+    }
+    const v = readingToVolumes(tankSetup(tank), { kind: 'sight-tube', readingMm: e.readingMm } satisfies ReadingInput);
+    if (!v.ok) {
+      results.push({ tankId: e.tankId, status: 'refused', reason: v.reason });
+      continue;
+    }
+    seenTanks.add(tank.id);
+    rows.push({
+      organisationId: actor.organisationId, farmId: farm.id, tankId: tank.id, takenAt, source: 'round', levelMm: v.levelMm, grossL: v.grossL, usableL: v.usableL,
+      temperatureC: e.temperatureC ?? null, calibrationVersion: tank.calibrationVersion, enteredById: actor.id, importId: null, note: e.note, idempotencyKey: e.idempotencyKey,
+    });
+    results.push({ tankId: e.tankId, status: 'stored' });
+  }
+  if (rows.length) {
+    await ctx.db.sequelize.transaction((transaction) => insertReadings(ctx, rows, new Map([[farm.id, farm.timeZone]]), transaction));
+    const stored = await Reading.findAll({ where: { idempotencyKey: rows.map((r) => r.idempotencyKey!) } });
+    const dtos = new Map((await toReadingDto(ctx, stored)).map((d) => [d.tankId, d]));
+    for (const r of results) if (r.status === 'stored') r.reading = dtos.get(r.tankId);
+    ctx.events.emit('readings', { organisationId: actor.organisationId, farmIds: [farm.id] });
+  }
+  return results;
+}
+
+/** Readings of a tank, newest first, corrected ones included (they show the audit trail). */
+export async function listReadings(ctx: AppContext, actor: SessionUser, tankId: number, q: { from?: string; to?: string; limit: number }): Promise<ReadingDto[]> {
+  const tank = await tankFor(ctx, actor, tankId);
+  const rows = await ctx.db.models.Reading.findAll({
+    where: { tankId: tank.id, ...(q.from || q.to ? { takenAt: { ...(q.from ? { [Op.gte]: new Date(q.from) } : {}), ...(q.to ? { [Op.lte]: new Date(q.to) } : {}) } } : {}) },
+    order: [['takenAt', 'DESC'], ['id', 'DESC']],
+    limit: q.limit,
+  });
+  return toReadingDto(ctx, rows);
+}
+
+const BUCKET_SQL: Record<'hour' | 'day' | 'week', string> = {
+  hour: "DATE_FORMAT(takenAt, '%Y-%m-%d %H:00:00')",
+  day: 'DATE(takenAt)',
+  week: 'YEARWEEK(takenAt, 3)',
+};
+
+/** The tank's effective level and volume series; bucketed series keep each bucket's last reading (UTC buckets). */
+export async function tankSeries(ctx: AppContext, actor: SessionUser, tankId: number, q: { from?: string; to?: string; bucket: 'raw' | 'hour' | 'day' | 'week' }): Promise<SeriesPoint[]> {
+  const tank = await tankFor(ctx, actor, tankId);
+  const from = q.from ? new Date(q.from) : new Date(Date.now() - 90 * 86_400_000);
+  const to = q.to ? new Date(q.to) : new Date();
+  const base = 'FROM readings WHERE tankId = ? AND correctedById IS NULL AND takenAt BETWEEN ? AND ?';
+  const sql =
+    q.bucket === 'raw'
+      ? `SELECT takenAt, levelMm, grossL, usableL, temperatureC ${base} ORDER BY takenAt LIMIT 20000`
+      : `SELECT r.takenAt, r.levelMm, r.grossL, r.usableL, r.temperatureC FROM readings r JOIN (SELECT MAX(takenAt) AS t ${base} GROUP BY ${BUCKET_SQL[q.bucket]}) b ON r.takenAt = b.t WHERE r.tankId = ? AND r.correctedById IS NULL ORDER BY r.takenAt`;
+  const rows = await ctx.db.sequelize.query<{ takenAt: Date; levelMm: number; grossL: number; usableL: number; temperatureC: number | null }>(sql, {
+    replacements: q.bucket === 'raw' ? [tank.id, from, to] : [tank.id, from, to, tank.id],
+    type: QueryTypes.SELECT,
+  });
+  return rows.map((r) => ({ t: new Date(r.takenAt).toISOString(), levelMm: r.levelMm, grossL: r.grossL, usableL: r.usableL, temperatureC: r.temperatureC }));
+}
+
+/** Replaces a wrong reading by a correction; the original stays, marked as corrected. */
+export async function correctReading(ctx: AppContext, actor: SessionUser, readingId: number, input: CorrectionInput): Promise<ReadingDto> {
+  const { Reading, Farm } = ctx.db.models;
+  const original = await Reading.findOne({ where: { id: readingId, organisationId: actor.organisationId } });
+  if (!original) throw notFound('Reading');
+  const tank = await tankFor(ctx, actor, original.tankId);
+  if (original.correctedById) throw new AppError(409, 'already_corrected', 'This reading has been corrected already; correct the newer one');
+  const farm = (await Farm.findByPk(tank.farmId))!;
+  // The correction is computed with the calibration the original reading was taken under.
+  const cal = await ctx.db.models.TankCalibration.findOne({ where: { tankId: tank.id, version: original.calibrationVersion } });
+  const setup = cal ? { ...tankSetup(tank), geometry: cal.geometry, datumOffsetMm: cal.datumOffsetMm } : tankSetup(tank);
+  const version = cal ? cal.version : tank.calibrationVersion;
+  const v = readingToVolumes(setup, input.levelMm !== undefined ? { kind: 'level', levelMm: input.levelMm } : { kind: 'sight-tube', readingMm: input.readingMm! });
+  if (!v.ok) throw new AppError(422, 'reading_out_of_range', `${input.levelMm !== undefined ? 'levelMm' : 'readingMm'}: ${v.reason}`, input.levelMm !== undefined ? 'levelMm' : 'readingMm');
+  const created = await ctx.db.sequelize.transaction(async (transaction) => {
+    const revision = ((await Reading.max<number, Reading>('revision', { where: { tankId: tank.id, takenAt: original.takenAt, source: 'correction' }, transaction })) ?? 0) + 1;
+    const row = await Reading.create(
+      {
+        organisationId: tank.organisationId, farmId: tank.farmId, tankId: tank.id, takenAt: original.takenAt, source: 'correction', revision, levelMm: v.levelMm, grossL: v.grossL, usableL: v.usableL,
+        temperatureC: input.temperatureC === undefined ? original.temperatureC : input.temperatureC, calibrationVersion: version, enteredById: actor.id, importId: null,
+        note: input.note, idempotencyKey: null, correctsId: original.id,
+      },
+      { transaction },
+    );
+    const [claimed] = await Reading.update({ correctedById: row.id }, { where: { id: original.id, correctedById: null }, transaction });
+    if (claimed !== 1) throw new AppError(409, 'already_corrected', 'This reading has just been corrected by someone else');
+    await rebuildSnapshots(ctx, tank, localDay(original.takenAt, farm.timeZone), farm.timeZone, transaction);
+    return row;
+  });
+  ctx.events.emit('readings', { organisationId: tank.organisationId, farmIds: [tank.farmId] });
+  return (await toReadingDto(ctx, [created]))[0];
+}

@@ -1,0 +1,4 @@
+// Readings: sight tube, ultrasonic and pressure readings → level above the floor → volumes.
+export { WATER_DENSITY_KG_M3, levelFromSightTube, levelFromUltrasonic, levelFromPressure } from './levels';
+export { MAX_SPECIFIC_GRAVITY, tankVolumes, readingToVolumes } from './volumes';
+export type { TankLevels, TankVolumes, TankSetup, ReadingInput, ReadingResult } from './volumes';
