@@ -15,6 +15,8 @@ import { peopleRouter } from './routes/people';
 import { tanksRouter } from './routes/tanks';
 import { readingsRouter } from './routes/readings';
 import { boardRouter } from './routes/board';
+import { inventoryRouter } from './routes/inventory';
+import { importsRouter } from './routes/imports';
 
 export function createApp(ctx: AppContext, opts: { staticDir?: string } = {}) {
   const app = express();
@@ -38,6 +40,8 @@ export function createApp(ctx: AppContext, opts: { staticDir?: string } = {}) {
     ['/tanks', tanksRouter(ctx)],
     ['', readingsRouter(ctx)],
     ['/board', boardRouter(ctx)],
+    ['', inventoryRouter(ctx)],
+    ['', importsRouter(ctx)],
     ['', peopleRouter(ctx)],
   ];
   if (ctx.config.devOutbox) mounts.push(['/dev', devRouter(ctx)]);

@@ -7,12 +7,16 @@ import { initModels, type Models } from './models';
 import * as m0001 from './migrations/0001-foundation';
 import * as m0002 from './migrations/0002-tanks';
 import * as m0003 from './migrations/0003-readings';
+import * as m0004 from './migrations/0004-imports';
+import * as m0005 from './migrations/0005-inventory';
 
 /** Migrations in order; add a new numbered file and list it here. */
 const MIGRATIONS = [
   { name: '0001-foundation', module: m0001 },
   { name: '0002-tanks', module: m0002 },
   { name: '0003-readings', module: m0003 },
+  { name: '0004-imports', module: m0004 },
+  { name: '0005-inventory', module: m0005 },
 ];
 
 export interface Database {

@@ -10,6 +10,7 @@ import { createDatabase, migrate } from './db';
 import { createLogger } from './logger';
 import { createMailer } from './mail/mailer';
 import { attachRealtime } from './realtime';
+import { recoverInterruptedImports } from './services/imports';
 
 export interface RunningServer {
   ctx: AppContext;
@@ -28,6 +29,9 @@ export function createContext(config: Config): AppContext {
 export async function startServer(config: Config, opts: { staticDir?: string } = {}): Promise<RunningServer> {
   const ctx = createContext(config);
   await migrate(ctx.db.sequelize);
+  // An import cut off by a crash rolled back with its transaction: mark it failed so it can be retried.
+  const interrupted = await recoverInterruptedImports(ctx);
+  if (interrupted) ctx.logger.warn(`${interrupted} interrupted logger import(s) marked failed`);
   const app = createApp(ctx, opts);
   const http = createServer(app);
   const io = attachRealtime(ctx, http, app.locals.sessionMiddleware);

@@ -7,15 +7,17 @@ import { Session } from './session';
 import { AuthToken } from './auth-token';
 import { Tank, TankCalibration, TankContentsPeriod } from './tank';
 import { Reading, TankLatest, TankDay } from './reading';
+import { LoggerImport, LoggerImportRejection, TankImportMapping } from './logger-import';
+import { Supplier, Input, StockMovement, PurchaseOrder, PurchaseOrderLine } from './inventory';
 
-export { Organisation, User, Farm, FarmAccess, Session, AuthToken, Tank, TankCalibration, TankContentsPeriod, Reading, TankLatest, TankDay };
+export { Organisation, User, Farm, FarmAccess, Session, AuthToken, Tank, TankCalibration, TankContentsPeriod, Reading, TankLatest, TankDay, LoggerImport, LoggerImportRejection, TankImportMapping, Supplier, Input, StockMovement, PurchaseOrder, PurchaseOrderLine };
 
 /** Every model, initialised on one Sequelize instance. */
 export function initModels(sequelize: Sequelize) {
-  for (const m of [Organisation, User, Farm, FarmAccess, Session, AuthToken, Tank, TankCalibration, TankContentsPeriod, Reading, TankLatest, TankDay]) m.initModel(sequelize);
+  for (const m of [Organisation, User, Farm, FarmAccess, Session, AuthToken, Tank, TankCalibration, TankContentsPeriod, Reading, TankLatest, TankDay, LoggerImport, LoggerImportRejection, TankImportMapping, Supplier, Input, StockMovement, PurchaseOrder, PurchaseOrderLine]) m.initModel(sequelize);
   User.belongsTo(Organisation, { foreignKey: 'organisationId' });
   User.hasMany(FarmAccess, { foreignKey: 'userId', as: 'farmAccess' });
   Farm.belongsTo(Organisation, { foreignKey: 'organisationId' });
-  return { Organisation, User, Farm, FarmAccess, Session, AuthToken, Tank, TankCalibration, TankContentsPeriod, Reading, TankLatest, TankDay };
+  return { Organisation, User, Farm, FarmAccess, Session, AuthToken, Tank, TankCalibration, TankContentsPeriod, Reading, TankLatest, TankDay, LoggerImport, LoggerImportRejection, TankImportMapping, Supplier, Input, StockMovement, PurchaseOrder, PurchaseOrderLine };
 }
 export type Models = ReturnType<typeof initModels>;

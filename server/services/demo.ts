@@ -5,6 +5,9 @@ import { calibrationVersion, type TankGeometry } from '@shared/calibration';
 import type { Role, TankContents } from '@shared/schemas';
 import type { Database } from '../db';
 import { hashPassword } from './passwords';
+import { insertReadings, type NewReading } from './readings';
+import { readingToVolumes } from '@shared/readings';
+import { heightMm } from '@shared/calibration';
 
 interface Scenario {
   organisation: { name: string };
@@ -30,6 +33,44 @@ export function readScenario(file = resolve(import.meta.dirname, '../../samples/
   return JSON.parse(readFileSync(file, 'utf8')) as Scenario;
 }
 
+/** Share of capacity each contents is drawn per day in the demo (invented figures). */
+const DEMO_USE_PER_DAY = { water: 0.07, fertilizer: 0.035, 'pest-solution': 0.05, culture: 0.025 } as const;
+const DEMO_DAYS = 21;
+
+/**
+ * Three weeks of morning sight-tube rounds for a demo tank: a steady draw with a little day-to-day
+ * spread, a refill or new brew when the level runs low, and warm cultures (one cooling off). The
+ * numbers come from a fixed pseudo-random sequence, so every demo database is the same.
+ */
+function demoReadings(tank: import('../models').Tank, index: number, workerId: number | null): NewReading[] {
+  let seed = 9_301 + index * 49_297;
+  const random = () => ((seed = (seed * 16_807) % 2_147_483_647) / 2_147_483_647);
+  const setup = { geometry: tank.geometry, datumOffsetMm: tank.datumOffsetMm, outletHeightMm: tank.outletHeightMm, safeFillLevelMm: tank.safeFillLevelMm, specificGravity: tank.specificGravity };
+  const top = Math.min(tank.safeFillLevelMm, heightMm(tank.geometry));
+  const span = top - tank.outletHeightMm;
+  let fraction = 0.55 + random() * 0.35;
+  const out: NewReading[] = [];
+  const today = new Date();
+  today.setUTCHours(7, 30, 0, 0);
+  // The gate tank is read only now and then: its last reading is four days old.
+  const lastDay = tank.code === 'SO-W2' ? 4 : 0;
+  for (let d = DEMO_DAYS; d >= lastDay; d--) {
+    if (d < DEMO_DAYS) fraction -= DEMO_USE_PER_DAY[tank.contents] * (tank.geometry.shape === 'sphere' ? 0.5 : 1) * (0.6 + random() * 0.8) * (heightMm(tank.geometry) / span);
+    if (fraction < 0.18) fraction = 0.88 + random() * 0.08;
+    const levelMm = Math.round(tank.outletHeightMm + Math.max(0.02, fraction) * span);
+    const v = readingToVolumes(setup, { kind: 'level', levelMm });
+    if (!v.ok) continue;
+    const takenAt = new Date(today.getTime() - d * 86_400_000 + Math.round(random() * 40) * 60_000);
+    const cooling = tank.code === 'HR-C2' && d <= 2;
+    out.push({
+      organisationId: tank.organisationId, farmId: tank.farmId, tankId: tank.id, takenAt, source: 'round', levelMm, grossL: v.grossL, usableL: v.usableL,
+      temperatureC: tank.contents === 'culture' ? Math.round((cooling ? 17.2 - d * 0.4 : 21 + random() * 3) * 10) / 10 : null,
+      calibrationVersion: tank.calibrationVersion, enteredById: workerId, importId: null, note: '', idempotencyKey: null,
+    });
+  }
+  return out;
+}
+
 /** Loads the scenario; with onlyIfEmpty, does nothing when an organisation exists. Returns true when loaded. */
 export async function loadDemoScenario(db: Database, opts: { onlyIfEmpty?: boolean } = {}): Promise<boolean> {
   const { Organisation, Farm, User, FarmAccess, Tank, TankCalibration, TankContentsPeriod } = db.models;
@@ -53,12 +94,22 @@ export async function loadDemoScenario(db: Database, opts: { onlyIfEmpty?: boole
       }
     }
     const since = new Date(Date.now() - 60 * 86_400_000);
+    const readings: NewReading[] = [];
+    const worker = await User.findOne({ where: { organisationId: org.id, role: 'worker' }, transaction });
+    const manager = await User.findOne({ where: { organisationId: org.id, role: 'manager' }, transaction });
+    const workerFarms = new Set((await FarmAccess.findAll({ where: { userId: worker?.id ?? 0 }, transaction })).map((a) => a.farmId));
+    // The worker walks the farms they were given; the manager reads the rest.
+    const readerOf = (farmId: number) => (workerFarms.has(farmId) ? worker?.id : manager?.id) ?? null;
+    const zones = new Map(scenario.farms.map((f) => [farmIds.get(f.key)!, f.timeZone]));
+    const timeZoneOf = (id: number) => zones.get(id) ?? 'UTC';
     for (const { farm, ...t } of scenario.tanks) {
       const version = calibrationVersion(t.geometry, t.datumOffsetMm);
       const tank = await Tank.create({ ...t, organisationId: org.id, farmId: farmIds.get(farm)!, sensorHeightMm: null, calibrationVersion: version, archivedAt: null }, { transaction });
       await TankCalibration.create({ organisationId: org.id, tankId: tank.id, version, geometry: t.geometry, datumOffsetMm: t.datumOffsetMm }, { transaction });
       await TankContentsPeriod.create({ organisationId: org.id, tankId: tank.id, contents: t.contents, contentsNote: t.contentsNote, specificGravity: t.specificGravity, fromAt: since, toAt: null, changedById: null }, { transaction });
+      readings.push(...demoReadings(tank, readings.length, readerOf(tank.farmId)));
     }
+    await insertReadings({ db }, readings, new Map([...farmIds.values()].map((id) => [id, timeZoneOf(id)])), transaction);
   });
   return true;
 }

@@ -46,7 +46,7 @@ export function localDay(at: Date, timeZone: string): string {
  * exists already are skipped), then brings tank_latest and tank_days up to date.
  * Returns how many rows were new.
  */
-export async function insertReadings(ctx: AppContext, rows: NewReading[], timeZones: Map<number, string>, transaction: Transaction): Promise<number> {
+export async function insertReadings(ctx: Pick<AppContext, 'db'>, rows: NewReading[], timeZones: Map<number, string>, transaction: Transaction): Promise<number> {
   if (!rows.length) return 0;
   const now = new Date();
   const placeholders = `(${COLUMNS.map(() => '?').join(',')})`;
@@ -62,7 +62,7 @@ export async function insertReadings(ctx: AppContext, rows: NewReading[], timeZo
 }
 
 /** Updates each touched tank's latest reading and the daily snapshots of the days touched. */
-async function refreshSnapshots(ctx: AppContext, rows: NewReading[], timeZones: Map<number, string>, transaction: Transaction) {
+async function refreshSnapshots(ctx: Pick<AppContext, 'db'>, rows: NewReading[], timeZones: Map<number, string>, transaction: Transaction) {
   const newestByTank = new Map<number, NewReading>();
   const lastByDay = new Map<string, NewReading & { day: string }>();
   for (const r of rows) {

@@ -38,3 +38,14 @@ export function fieldErrors(error: z.ZodError): Record<string, string> {
   }
   return out;
 }
+
+type Undefaulted<T> = T extends z.ZodDefault<infer Inner> ? Inner : T;
+
+/**
+ * The PATCH form of a create schema: every field optional and no defaults filled in (zod 4 applies
+ * a field's default even inside .partial(), which would reset fields the request never named).
+ */
+export function patchSchema<T extends z.ZodRawShape>(schema: z.ZodObject<T>) {
+  const shape = Object.fromEntries(Object.entries(schema.shape).map(([key, field]) => [key, ((field instanceof z.ZodDefault ? field.removeDefault() : field) as z.ZodType).optional()]));
+  return z.object(shape) as unknown as z.ZodObject<{ [K in keyof T]: z.ZodOptional<Undefaulted<T[K]>> }>;
+}

@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { text } from './common';
+import { patchSchema, text } from './common';
 
 /** True when `tz` is an IANA time zone this runtime knows. */
 export function isTimeZone(tz: string): boolean {
@@ -20,7 +20,7 @@ export const farmCreateSchema = z.object({
 export type FarmCreateInput = z.infer<typeof farmCreateSchema>;
 
 /** Body of PATCH /api/farms/:id (archived: true archives, false restores). */
-export const farmUpdateSchema = farmCreateSchema.partial().extend({ archived: z.boolean().optional() });
+export const farmUpdateSchema = patchSchema(farmCreateSchema).extend({ archived: z.boolean().optional() });
 export type FarmUpdateInput = z.infer<typeof farmUpdateSchema>;
 
 /** A farm as the API returns it. */

@@ -6,3 +6,5 @@ export * from './tanks';
 export * from './readings';
 export * from './board';
 export * from './gauge';
+export * from './imports';
+export * from './inventory';

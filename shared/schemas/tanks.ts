@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { heightMm, tankGeometrySchema, type TankGeometry } from '../calibration/index';
-import { idSchema, text } from './common';
+import { idSchema, patchSchema, text } from './common';
 
 /** What a tank can hold. */
 export const TANK_CONTENTS = ['water', 'fertilizer', 'pest-solution', 'culture'] as const;
@@ -43,7 +43,7 @@ export const tankCreateSchema = tankFields.superRefine(checkHeights);
 export type TankCreateInput = z.infer<typeof tankCreateSchema>;
 
 /** Body of PATCH /api/tanks/:id (farm cannot change; archived archives or restores). */
-export const tankUpdateSchema = tankFields.omit({ farmId: true }).partial().extend({ archived: z.boolean().optional() });
+export const tankUpdateSchema = patchSchema(tankFields.omit({ farmId: true })).extend({ archived: z.boolean().optional() });
 export type TankUpdateInput = z.infer<typeof tankUpdateSchema>;
 
 /** A tank as the API returns it, with its derived sizes. */

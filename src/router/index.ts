@@ -18,7 +18,10 @@ declare module 'vue-router' {
 }
 
 export const routes: RouteRecordRaw[] = [
-  { path: '/', name: 'home', component: () => import('@/views/HomeView.vue'), meta: { title: 'Home', roles: ROLES } },
+  // Owners, managers and buyers land on the stock board; workers on Home with their round (StartView picks).
+  { path: '/', name: 'home', component: () => import('@/views/StartView.vue'), meta: { title: 'Home', roles: ROLES } },
+  { path: '/round', name: 'round', component: () => import('@/views/RoundView.vue'), meta: { title: 'Round', roles: ['owner', 'manager', 'worker'] } },
+  { path: '/imports', name: 'imports', component: () => import('@/views/ImportsView.vue'), meta: { title: 'Logger files', roles: ['owner', 'manager', 'worker'] } },
   {
     path: '/sign-in',
     name: 'sign-in',
@@ -32,6 +35,8 @@ export const routes: RouteRecordRaw[] = [
     meta: { title: 'Set your password', public: true, bare: true },
   },
   { path: '/farms', name: 'farms', component: () => import('@/views/FarmsView.vue'), meta: { title: 'Farms' } },
+  { path: '/farms/:farmId(\\d+)', name: 'farm', component: () => import('@/views/FarmView.vue'), meta: { title: 'Farm' } },
+  { path: '/tanks/:id(\\d+)', name: 'tank', component: () => import('@/views/TankView.vue'), meta: { title: 'Tank' } },
   { path: '/people', name: 'people', component: () => import('@/views/PeopleView.vue'), meta: { title: 'People', roles: ['owner'] } },
   // Public so a signed-out developer can read a reset mail; the server answers 404 where the outbox is off.
   { path: '/outbox', name: 'outbox', component: () => import('@/views/OutboxView.vue'), meta: { title: 'Mail outbox', public: true } },

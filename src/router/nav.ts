@@ -16,7 +16,11 @@ export interface NavItem {
 const EVERYONE = ROLES;
 
 export const NAV_ITEMS: readonly NavItem[] = [
-  { name: 'home', to: '/', label: 'Home', icon: 'pi pi-home', roles: EVERYONE, description: 'Your farms at a glance.' },
+  // Both entries are the `/` route: owners, managers and buyers see the stock board there, workers Home.
+  { name: 'home', to: '/', label: 'Stock board', icon: 'pi pi-gauge', roles: ['owner', 'manager', 'buyer'], description: 'Live stock of every tank on every farm.' },
+  { name: 'home', to: '/', label: 'Home', icon: 'pi pi-home', roles: ['worker'], description: 'Your farms at a glance.' },
+  { name: 'round', to: '/round', label: 'Round', icon: 'pi pi-list-check', roles: ['owner', 'manager', 'worker'], description: 'Walk the tanks of a farm and type each sight-tube reading.' },
+  { name: 'imports', to: '/imports', label: 'Logger files', icon: 'pi pi-file-import', roles: ['owner', 'manager', 'worker'], description: 'Upload level-logger CSV files, check their columns and import them.' },
   { name: 'farms', to: '/farms', label: 'Farms', icon: 'pi pi-map-marker', roles: EVERYONE, description: 'The farms and sites you work on.' },
   { name: 'people', to: '/people', label: 'People', icon: 'pi pi-users', roles: ['owner'], description: 'Invite people, set roles and farm access.' },
   { name: 'outbox', to: '/outbox', label: 'Outbox (dev)', icon: 'pi pi-envelope', roles: ['owner'], description: 'Mail the development server captured.' },

@@ -40,9 +40,9 @@ async function mountAs(role: Role) {
 
 describe('TheNavBar', () => {
   it.each([
-    ['owner', ['home', 'farms', 'people', 'outbox', 'profile']],
-    ['manager', ['home', 'farms', 'profile']],
-    ['worker', ['home', 'farms', 'profile']],
+    ['owner', ['home', 'round', 'imports', 'farms', 'people', 'outbox', 'profile']],
+    ['manager', ['home', 'round', 'imports', 'farms', 'profile']],
+    ['worker', ['home', 'round', 'imports', 'farms', 'profile']],
     ['buyer', ['home', 'farms', 'profile']],
   ] as const)('shows a %s the links %j', async (role, expected) => {
     const { wrapper } = await mountAs(role);

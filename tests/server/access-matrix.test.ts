@@ -1,6 +1,8 @@
 // The access matrix: every API route × role × target (own farm, another farm of the same
 // organisation, another organisation) with the status the server must answer. The route list
 // comes from the app itself, so a new route without a row here fails the first test.
+import { mkdirSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import type { Role } from '@shared/schemas';
 import { useTestApp } from '../support/db';
@@ -14,6 +16,8 @@ interface World {
   b: OrgFixture & { pendingId: number };
   /** A tank on each target farm. */
   tanks: Record<Scope, number>;
+  /** A supplier, an input and a draft order on each target farm. */
+  stock: Record<Scope, { supplierId: number; inputId: number; orderId: number; lastLineId: number }>;
 }
 type Expect = number | Partial<Record<Scope, number>>;
 interface Row {
@@ -43,6 +47,8 @@ const farmRead = (ok: number): Record<Who, Expect> => ({
   anonymous: 401,
 });
 const managersOnly = (ok: Expect): Record<Who, Expect> => ({ owner: ok, manager: ok, worker: 403, buyer: 403, anonymous: 401 });
+/** Buying: owners, managers and buyers (buyers only on their farms); workers 403. */
+const purchasing = (ok: Expect, buyer: Expect = ok): Record<Who, Expect> => ({ owner: ok, manager: ok, worker: 403, buyer, anonymous: 401 });
 const ownerOnly = (ok: Expect): Record<Who, Expect> => ({ owner: ok, manager: 403, worker: 403, buyer: 403, anonymous: 401 });
 let seq = 0;
 
@@ -106,8 +112,52 @@ const ROWS: Row[] = [
     body: () => ({ readingMm: 300, note: 'matrix correction' }),
     expect: { ...farmRead(201), buyer: 403 },
   },
+  // The matrix sends JSON, so no file comes with it: a caller allowed to import gets the 400 that names files.
+  {
+    route: 'POST /api/imports',
+    url: () => '/api/imports',
+    body: (w, s) => ({ tankId: tank(w, s), policy: 'reject-file', mapping: MATRIX_MAPPING }),
+    expect: { ...farmRead(400), buyer: 403 },
+  },
+  { route: 'GET /api/imports', url: (w, s) => `/api/imports?farmId=${farm(w, s)}`, expect: farmRead(200) },
+  { route: 'GET /api/imports/:id', url: async (w, s) => `/api/imports/${await freshImport(w, s, 'imported')}`, expect: farmRead(200) },
+  { route: 'GET /api/imports/:id/rejected.csv', url: async (w, s) => `/api/imports/${await freshImport(w, s, 'imported')}/rejected.csv`, expect: farmRead(200) },
+  { route: 'POST /api/imports/:id/retry', url: async (w, s) => `/api/imports/${await freshImport(w, s, 'failed')}/retry`, expect: { ...farmRead(200), buyer: 403 } },
+  { route: 'GET /api/tanks/:id/import-mapping', url: async (w, s) => `/api/tanks/${await withSavedMapping(w, s)}/import-mapping`, expect: farmRead(200) },
   { route: 'GET /api/board', url: () => '/api/board', expect: signedInOnly(200) },
   { route: 'GET /api/board/history', url: () => '/api/board/history', expect: signedInOnly(200) },
+  { route: 'GET /api/suppliers', url: () => '/api/suppliers', expect: signedInOnly(200) },
+  { route: 'POST /api/suppliers', url: () => '/api/suppliers', body: () => ({ name: `Matrix supplier ${++seq}`, email: 'orders@matrix.example' }), expect: purchasing(201) },
+  { route: 'PATCH /api/suppliers/:id', url: (w, s) => `/api/suppliers/${w.stock[s].supplierId}`, body: () => ({ phone: '555 0100' }), expect: purchasing({ own: 200, 'other-farm': 200, 'other-org': 404 }) },
+  { route: 'GET /api/inputs', url: (w, s) => `/api/inputs?farmId=${farm(w, s)}`, expect: farmRead(200) },
+  { route: 'GET /api/inputs/:id', url: (w, s) => `/api/inputs/${w.stock[s].inputId}`, expect: farmRead(200) },
+  {
+    route: 'POST /api/inputs',
+    url: () => '/api/inputs',
+    body: (w, s) => ({ farmId: farm(w, s), name: 'Matrix input', unit: 'kg', category: 'amendment' }),
+    expect: purchasing({ own: 201, 'other-farm': 201, 'other-org': 404 }, { own: 201, 'other-farm': 403, 'other-org': 404 }),
+  },
+  { route: 'PATCH /api/inputs/:id', url: (w, s) => `/api/inputs/${w.stock[s].inputId}`, body: () => ({ notes: 'matrix' }), expect: purchasing({ own: 200, 'other-farm': 200, 'other-org': 404 }, { own: 200, 'other-farm': 403, 'other-org': 404 }) },
+  { route: 'GET /api/inputs/:id/movements', url: (w, s) => `/api/inputs/${w.stock[s].inputId}/movements`, expect: farmRead(200) },
+  { route: 'POST /api/inputs/:id/movements', url: (w, s) => `/api/inputs/${w.stock[s].inputId}/movements`, body: () => ({ kind: 'count', quantity: 50 }), expect: farmRead(201) },
+  { route: 'GET /api/orders', url: () => '/api/orders', expect: purchasing(200) },
+  { route: 'GET /api/orders/:id', url: (w, s) => `/api/orders/${w.stock[s].orderId}`, expect: purchasing({ own: 200, 'other-farm': 200, 'other-org': 404 }, { own: 200, 'other-farm': 403, 'other-org': 404 }) },
+  {
+    route: 'POST /api/orders',
+    url: () => '/api/orders',
+    body: (w, s) => ({ supplierId: w.stock[s].supplierId, farmId: farm(w, s), lines: [{ inputId: w.stock[s].inputId, quantity: 5 }] }),
+    expect: purchasing({ own: 201, 'other-farm': 201, 'other-org': 404 }, { own: 201, 'other-farm': 403, 'other-org': 404 }),
+  },
+  { route: 'POST /api/orders/from-suggestions', url: () => '/api/orders/from-suggestions', body: (w, s) => ({ farmId: farm(w, s), inputIds: [w.stock[s].inputId] }), expect: purchasing({ own: 201, 'other-farm': 201, 'other-org': 404 }, { own: 201, 'other-farm': 403, 'other-org': 404 }) },
+  { route: 'PATCH /api/orders/:id', url: async (w, s) => `/api/orders/${await freshOrder(w, s)}`, body: () => ({ notes: 'matrix' }), expect: purchasing({ own: 200, 'other-farm': 200, 'other-org': 404 }, { own: 200, 'other-farm': 403, 'other-org': 404 }) },
+  { route: 'POST /api/orders/:id/send', url: async (w, s) => `/api/orders/${await freshOrder(w, s)}/send`, expect: purchasing({ own: 200, 'other-farm': 200, 'other-org': 404 }, { own: 200, 'other-farm': 403, 'other-org': 404 }) },
+  { route: 'POST /api/orders/:id/cancel', url: async (w, s) => `/api/orders/${await freshOrder(w, s)}/cancel`, expect: purchasing({ own: 200, 'other-farm': 200, 'other-org': 404 }, { own: 200, 'other-farm': 403, 'other-org': 404 }) },
+  {
+    route: 'POST /api/orders/:id/receipts',
+    url: async (w, s) => `/api/orders/${await freshOrder(w, s, 'sent')}/receipts`,
+    body: (w, s) => ({ lines: [{ lineId: w.stock[s].lastLineId, quantity: 1 }] }),
+    expect: purchasing({ own: 200, 'other-farm': 200, 'other-org': 404 }, { own: 200, 'other-farm': 403, 'other-org': 404 }),
+  },
   // Development-only mail outbox; not mounted in production (see the config test).
   { route: 'GET /api/dev/outbox', url: () => '/api/dev/outbox', expect: same(200) },
   { route: 'DELETE /api/dev/outbox', url: () => '/api/dev/outbox', expect: same(204) },
@@ -116,11 +166,39 @@ const ROWS: Row[] = [
 const env = useTestApp({ SIGN_IN_LIMIT_PER_IP: '100000', SIGN_IN_LIMIT_PER_ACCOUNT: '100000' });
 const world = {} as World;
 
+/** A new order on the scope's farm (each state change needs its own); remembers its line for receipts. */
+async function freshOrder(w: World, s: Scope, status: 'draft' | 'sent' = 'draft'): Promise<number> {
+  const { PurchaseOrder, PurchaseOrderLine, Input } = env.ctx.db.models;
+  const input = (await Input.findByPk(w.stock[s].inputId))!;
+  const o = await PurchaseOrder.create({ organisationId: input.organisationId, farmId: input.farmId, supplierId: w.stock[s].supplierId, number: `MX-${++seq}`, status, notes: '', sentAt: null, createdById: null });
+  w.stock[s].lastLineId = (await PurchaseOrderLine.create({ orderId: o.id, inputId: input.id, quantity: 10, unitPrice: 1 })).id;
+  return o.id;
+}
+
 /** A new reading on the scope's tank (each correction case needs its own). */
 async function freshReading(w: World, s: Scope): Promise<number> {
   const t = (await env.ctx.db.models.Tank.findByPk(w.tanks[s]))!;
   const r = await env.ctx.db.models.Reading.create({ organisationId: t.organisationId, farmId: t.farmId, tankId: t.id, takenAt: new Date(Date.now() - ++seq * 1000), source: 'round', levelMm: 500, grossL: 392.7, usableL: 392.7, temperatureC: null, calibrationVersion: t.calibrationVersion, enteredById: null, importId: null, idempotencyKey: null });
   return r.id;
+}
+const MATRIX_MAPPING = { delimiter: ',', decimalComma: false, hasHeader: true, timestamp: { column: 'time', format: 'iso8601' }, value: { column: 'level_mm', kind: 'level', unit: 'mm' }, temperature: null } as const;
+
+/** An import on the scope's tank with its file in the upload folder (a failed one can be retried). */
+async function freshImport(w: World, s: Scope, status: 'imported' | 'failed'): Promise<number> {
+  const t = (await env.ctx.db.models.Tank.findByPk(w.tanks[s]))!;
+  const storedName = `matrix-${++seq}.csv`;
+  const content = `time,level_mm\n${new Date(Date.UTC(2025, 0, 1) + seq * 60_000).toISOString()},500\n`;
+  mkdirSync(env.ctx.config.uploadDir, { recursive: true });
+  writeFileSync(join(env.ctx.config.uploadDir, storedName), content);
+  const r = await env.ctx.db.models.LoggerImport.create({ organisationId: t.organisationId, farmId: t.farmId, tankId: t.id, uploadedById: null, originalName: 'matrix.csv', storedName, sizeBytes: content.length, sha256: '0'.repeat(64), mapping: MATRIX_MAPPING, policy: 'reject-file', status, delimiter: null, error: null, duplicateOfId: null, startedAt: null, finishedAt: null });
+  return r.id;
+}
+
+/** The scope's tank id, with a saved import mapping. */
+async function withSavedMapping(w: World, s: Scope): Promise<number> {
+  const t = (await env.ctx.db.models.Tank.findByPk(w.tanks[s]))!;
+  await env.ctx.db.models.TankImportMapping.upsert({ tankId: t.id, organisationId: t.organisationId, mapping: MATRIX_MAPPING, policy: 'reject-file', savedById: null, savedAt: new Date() });
+  return t.id;
 }
 const agents = {} as Record<Who, Agent>;
 
@@ -140,6 +218,16 @@ beforeAll(async () => {
   const makeTank = async (org: OrgFixture, farmId: number) =>
     (await Tank.create({ organisationId: org.organisationId, farmId, name: 'Fixture', code: 'FX', contents: 'water', contentsNote: '', geometry: TANK_GEOMETRY as never, datumOffsetMm: 0, outletHeightMm: 0, safeFillLevelMm: 1500, lowStockL: 0, specificGravity: 1, sensorHeightMm: null, walkOrder: 0, calibrationVersion: 'fixture', archivedAt: null })).id;
   world.tanks = { own: await makeTank(world.a, world.a.farmIds[0]), 'other-farm': await makeTank(world.a, world.a.farmIds[1]), 'other-org': await makeTank(world.b, world.b.farmIds[0]) };
+  const makeStock = async (org: OrgFixture, farmId: number) => {
+    const { Supplier, Input, StockMovement } = env.ctx.db.models;
+    const supplier = await Supplier.create({ organisationId: org.organisationId, name: 'Fixture supplier', contactName: '', email: 'orders@fixture.example', phone: '', leadTimeDays: 5, notes: '', archivedAt: null });
+    const input = await Input.create({ organisationId: org.organisationId, farmId, name: 'Fixture input', unit: 'L', category: 'fertilizer', supplierId: supplier.id, leadTimeDays: null, serviceLevel: 0.95, orderCost: 10, holdingCostPerYear: 1, unitPrice: 2, packSize: 1, minimumOrder: 0, notes: '', archivedAt: null });
+    await StockMovement.create({ organisationId: org.organisationId, farmId, inputId: input.id, kind: 'use', quantity: 0.5, at: new Date(Date.now() - 86_400_000), reason: '', orderId: null, orderLineId: null, brewId: null, byUserId: null });
+    const stock = { supplierId: supplier.id, inputId: input.id, orderId: 0, lastLineId: 0 };
+    return stock;
+  };
+  world.stock = { own: await makeStock(world.a, world.a.farmIds[0]), 'other-farm': await makeStock(world.a, world.a.farmIds[1]), 'other-org': await makeStock(world.b, world.b.farmIds[0]) };
+  for (const s of SCOPES) world.stock[s].orderId = await freshOrder(world, s);
   for (const who of WHO) agents[who] = await agentFor(who);
 });
 

@@ -19,5 +19,8 @@ describe('demo scenario', () => {
     const shapes = new Set(scenario.tanks.map((t) => t.geometry.shape));
     expect([...shapes].sort()).toEqual(['box', 'cone-bottom', 'frustum', 'horizontal-cylinder', 'points', 'sphere', 'vertical-cylinder']);
     expect(await env.ctx.db.models.Tank.count()).toBe(scenario.tanks.length);
+    // Three weeks of rounds: every tank has a latest reading, and the gate tank's is days old.
+    expect(await env.ctx.db.models.TankLatest.count()).toBe(scenario.tanks.length);
+    expect(await env.ctx.db.models.Reading.count()).toBeGreaterThan(scenario.tanks.length * 15);
   });
 });

@@ -66,3 +66,13 @@ describe('people API', () => {
     expect(res.body.find((p: { name: string }) => p.name === 'Pending Person').invitationPending).toBe(true);
   });
 });
+
+describe('PATCH /api/farms/:id', () => {
+  it('keeps the location when only the name changes', async () => {
+    const org = await makeOrganisation(env);
+    const owner = await signedIn(env, org.users.owner.email);
+    await call(owner, 'patch', `/api/farms/${org.farmIds[0]}`, { location: 'North lane' }).expect(200);
+    const res = await call(owner, 'patch', `/api/farms/${org.farmIds[0]}`, { name: 'Renamed' }).expect(200);
+    expect(res.body).toMatchObject({ name: 'Renamed', location: 'North lane' });
+  });
+});

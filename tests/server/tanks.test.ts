@@ -129,3 +129,12 @@ describe('GET /api/tanks/:id/calibration', () => {
     expect(res.body.error.field).toBe('step');
   });
 });
+
+describe('PATCH /api/tanks/:id', () => {
+  it('changes only the fields it is given (no defaults fill the rest)', async () => {
+    const { org, manager } = await managerOnNewOrg();
+    const created = await call(manager, 'post', '/api/tanks', { farmId: org.farmIds[0], name: 'Keep', code: 'K1', contents: 'culture', contentsNote: 'Starter', geometry: SHAPES[0], datumOffsetMm: 45, outletHeightMm: 80, specificGravity: 1.04, walkOrder: 3, sensorHeightMm: 1700 }).expect(201);
+    const res = await call(manager, 'patch', `/api/tanks/${created.body.id}`, { lowStockL: 150 }).expect(200);
+    expect(res.body).toMatchObject({ lowStockL: 150, datumOffsetMm: 45, outletHeightMm: 80, specificGravity: 1.04, walkOrder: 3, sensorHeightMm: 1700, contentsNote: 'Starter', calibrationVersion: created.body.calibrationVersion });
+  });
+});

@@ -1,0 +1,98 @@
+import { mkdir } from 'node:fs/promises';
+import type { NextFunction, Request, Response } from 'express';
+import { Router } from 'express';
+import multer from 'multer';
+import { importListQuerySchema, importUploadSchema } from '@shared/schemas';
+import type { AppContext } from '../context';
+import { AppError } from '../errors';
+import { actorOf, requireRole, requireSignIn } from '../middleware/access';
+import { discardUploads, getImport, importUploads, listImports, rejectedRowsCsv, retryImport, savedMapping, storedNameFor, type UploadedFile } from '../services/imports';
+import { idParam, parse } from '../validate';
+
+/** Files one upload may carry. */
+export const MAX_FILES_PER_UPLOAD = 20;
+const FILE_FIELDS = ['files', 'files[]'];
+
+const megabytes = (bytes: number) => `${Number((bytes / 1_048_576).toFixed(2))} MB`;
+
+/** multer with disk storage under generated names; its errors become AppErrors naming the field. */
+function receiveFiles(ctx: AppContext) {
+  const storage = multer.diskStorage({
+    destination: (_req, _file, cb) => {
+      mkdir(ctx.config.uploadDir, { recursive: true }).then(
+        () => cb(null, ctx.config.uploadDir),
+        (err: Error) => cb(err, ''),
+      );
+    },
+    filename: (_req, _file, cb) => cb(null, storedNameFor()),
+  });
+  const upload = multer({
+    storage,
+    // Browsers send the file name as UTF-8 without saying so.
+    defParamCharset: 'utf8',
+    limits: { fileSize: ctx.config.uploadMaxBytes, files: MAX_FILES_PER_UPLOAD, fields: 10, fieldSize: 64 * 1024 },
+  }).fields(FILE_FIELDS.map((name) => ({ name, maxCount: MAX_FILES_PER_UPLOAD })));
+  const limit = `${megabytes(ctx.config.uploadMaxBytes)} (${ctx.config.uploadMaxBytes.toLocaleString('en-US')} bytes)`;
+  return (req: Request, res: Response, next: NextFunction) => {
+    upload(req, res, (err?: unknown) => {
+      if (!err) return next();
+      if (err instanceof multer.MulterError) {
+        switch (err.code) {
+          case 'LIMIT_FILE_SIZE':
+            return next(new AppError(413, 'file_too_large', `files: a file is larger than the upload limit of ${limit} per file; split it into smaller files`, 'files'));
+          case 'LIMIT_FILE_COUNT':
+            return next(new AppError(413, 'too_many_files', `files: at most ${MAX_FILES_PER_UPLOAD} files per upload`, 'files'));
+          case 'LIMIT_UNEXPECTED_FILE':
+            return next(new AppError(400, 'invalid_input', `files: send the files in the "files" field, not "${err.field ?? ''}"`, 'files'));
+          case 'LIMIT_FIELD_VALUE':
+            return next(new AppError(400, 'invalid_input', `${err.field ?? 'mapping'}: is too long`, err.field ?? 'mapping'));
+          default:
+            return next(new AppError(400, 'bad_upload', `The upload could not be read (${err.message})`));
+        }
+      }
+      next(new AppError(400, 'bad_upload', `The upload could not be read (${err instanceof Error ? err.message : String(err)})`));
+    });
+  };
+}
+
+function uploadedFiles(req: Request): UploadedFile[] {
+  const byField = (req.files ?? {}) as Record<string, Express.Multer.File[]>;
+  return FILE_FIELDS.flatMap((name) => byField[name] ?? []).map((f) => ({ path: f.path, storedName: f.filename, originalName: f.originalname, sizeBytes: f.size }));
+}
+
+export function importsRouter(ctx: AppContext) {
+  const router = Router();
+  // Buyers watch stock; workers, managers and owners bring readings in.
+  const importers = requireRole('owner', 'manager', 'worker');
+
+  router.post('/imports', importers, receiveFiles(ctx), async (req, res) => {
+    const files = uploadedFiles(req);
+    let input;
+    try {
+      input = parse(importUploadSchema, req.body);
+    } catch (err) {
+      await discardUploads(files);
+      throw err;
+    }
+    res.status(201).json({ imports: await importUploads(ctx, actorOf(req), input, files) });
+  });
+  router.get('/imports', requireSignIn, async (req, res) => {
+    res.json(await listImports(ctx, actorOf(req), parse(importListQuerySchema, req.query)));
+  });
+  router.get('/imports/:id', requireSignIn, async (req, res) => {
+    res.json(await getImport(ctx, actorOf(req), idParam(req.params.id, 'Import')));
+  });
+  router.get('/imports/:id/rejected.csv', requireSignIn, async (req, res) => {
+    const { filename, chunks } = await rejectedRowsCsv(ctx, actorOf(req), idParam(req.params.id, 'Import'));
+    res.type('text/csv; charset=utf-8').attachment(filename);
+    for await (const chunk of chunks) res.write(chunk);
+    res.end();
+  });
+  router.post('/imports/:id/retry', importers, async (req, res) => {
+    res.json(await retryImport(ctx, actorOf(req), idParam(req.params.id, 'Import')));
+  });
+  router.get('/tanks/:id/import-mapping', requireSignIn, async (req, res) => {
+    res.json(await savedMapping(ctx, actorOf(req), idParam(req.params.id, 'Tank')));
+  });
+  return router;
+}

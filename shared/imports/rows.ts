@@ -1,0 +1,218 @@
+// One logger file, record by record: the header row, then each data row checked and turned into a
+// level and volumes with the tank's own setup (the same readingToVolumes a round uses). Bad rows come
+// back with their physical line, column and reason; nothing is clamped. Pure: the browser preview,
+// the server's streaming import and the property tests all feed it the records papaparse gives.
+import { readingToVolumes, type ReadingInput, type TankSetup } from '../readings/index';
+import { toSI, type LengthUnit, type PressureUnit } from '../units/index';
+import { isBlankRow, lineBreaksInside, stripBom, type LineBreak } from './csv';
+import type { ColumnRef, ImportMapping } from './mapping';
+import { parseDecimal } from './numbers';
+import { timestampParser } from './timestamps';
+
+/** Bounds of a logged temperature in °C (the same bounds a round's temperature has). */
+export const TEMPERATURE_RANGE_C = { min: -40, max: 90 } as const;
+/** How far past "now" a timestamp may be before it counts as in the future (logger clocks drift), ms. */
+export const FUTURE_TOLERANCE_MS = 5 * 60_000;
+
+/** Which mapped column a problem is about. */
+export type ImportField = 'timestamp' | 'value' | 'temperature';
+
+/** One problem of one row: 1-based physical line where the record starts, the column, the cell text and why. */
+export interface ImportProblem {
+  line: number;
+  field: ImportField;
+  /** The column's header text, or "column N" (1-based) without a header row. */
+  column: string;
+  value: string;
+  reason: string;
+}
+
+/** A good row: UTC instant (epoch ms), level in mm above the floor, volumes in L, temperature in °C or null. */
+export interface ImportedReading {
+  line: number;
+  takenAtMs: number;
+  levelMm: number;
+  grossL: number;
+  usableL: number;
+  temperatureC: number | null;
+}
+
+/** What one record turned out to be. A fatal result (a mapped column is not in the file) ends the file. */
+export type FeedResult =
+  | { kind: 'blank'; line: number }
+  | { kind: 'header'; line: number; columns: string[] }
+  | { kind: 'reading'; reading: ImportedReading }
+  | { kind: 'rejected'; line: number; problems: ImportProblem[] }
+  | { kind: 'fatal'; reason: string };
+
+/** Running counts of a file: data rows seen (blank lines and the header not included), rows refused, blank records skipped (the empty record after a final line break included). */
+export interface ImportCounts {
+  rows: number;
+  rejected: number;
+  blank: number;
+}
+
+/** Reads one file's records in order; `end()` says whether the file as a whole was usable. */
+export interface ImportReader {
+  feed(cells: readonly string[]): FeedResult;
+  end(): { ok: true } | { ok: false; reason: string };
+  readonly counts: Readonly<ImportCounts>;
+}
+
+/** What a reader needs: the mapping, the tank's setup, and "now" in epoch ms (rows after it are refused). */
+export interface ImportReaderOptions {
+  mapping: ImportMapping;
+  tank: TankSetup;
+  nowMs: number;
+  /** The record separator papaparse split at (its meta.linebreak); LF when left out, which also counts CRLF files right. */
+  newline?: LineBreak;
+}
+
+/** Why this mapping cannot be used with this tank at all (null when it can): e.g. distances need the sensor height. */
+export function mappingProblem(mapping: ImportMapping, tank: TankSetup): { field: string; message: string } | null {
+  if (mapping.value.kind === 'ultrasonic' && !(typeof tank.sensorHeightMm === 'number' && Number.isFinite(tank.sensorHeightMm))) {
+    return { field: 'mapping.value.kind', message: "mapping.value.kind: distances from an ultrasonic sensor need the tank's sensor height (sensorHeightMm); set it on the tank first" };
+  }
+  return null;
+}
+
+interface Column {
+  index: number;
+  label: string;
+}
+
+const describeRef = (ref: ColumnRef) => (typeof ref === 'number' ? `column ${ref + 1} (index ${ref})` : `"${ref}"`);
+
+/** A reader for one file. Throws RangeError only for a mapping that failed its schema (unknown zone or format). */
+export function createImportReader({ mapping, tank, nowMs, newline = '\n' }: ImportReaderOptions): ImportReader {
+  const parseTime = timestampParser(mapping.timestamp.format, mapping.timestamp.timeZone);
+  const counts: ImportCounts = { rows: 0, rejected: 0, blank: 0 };
+  let nextLine = 1;
+  let first = true;
+  let header: string[] | null = null;
+  let fatal: string | null = null;
+  let columns: { timestamp: Column; value: Column; temperature: Column | null } | null = null;
+
+  const resolve = (ref: ColumnRef, names: string[] | null): Column | string => {
+    if (typeof ref === 'number') {
+      if (names && ref >= names.length) return `The ${describeRef(ref)} is not in the file: the header row has ${names.length} column${names.length === 1 ? '' : 's'}`;
+      return { index: ref, label: names?.[ref]?.trim() || `column ${ref + 1}` };
+    }
+    const want = ref.trim().toLowerCase();
+    const index = (names ?? []).findIndex((n) => n.trim().toLowerCase() === want);
+    if (index < 0) {
+      const found = (names ?? []).map((n) => `"${n.trim()}"`).join(', ');
+      return `The column ${describeRef(ref)} is not in the header row (it has ${found || 'no names'})`;
+    }
+    return { index, label: names![index].trim() };
+  };
+
+  const resolveAll = (names: string[] | null): string | null => {
+    const ts = resolve(mapping.timestamp.column, names);
+    if (typeof ts === 'string') return `Timestamp column: ${ts}`;
+    const value = resolve(mapping.value.column, names);
+    if (typeof value === 'string') return `Value column: ${value}`;
+    let temperature: Column | null = null;
+    if (mapping.temperature) {
+      const t = resolve(mapping.temperature.column, names);
+      if (typeof t === 'string') return `Temperature column: ${t}`;
+      temperature = t;
+    }
+    columns = { timestamp: ts, value, temperature };
+    return null;
+  };
+  if (!mapping.hasHeader) resolveAll(null);
+
+  const { kind, unit } = mapping.value;
+  const toInput = (v: number): ReadingInput =>
+    kind === 'pressure'
+      ? { kind: 'pressure', pressureKPa: toSI(v, unit as PressureUnit) }
+      : kind === 'ultrasonic'
+        ? { kind: 'ultrasonic', distanceMm: toSI(v, unit as LengthUnit) }
+        : { kind: 'level', levelMm: toSI(v, unit as LengthUnit) };
+
+  const readRow = (cells: readonly string[], line: number): FeedResult => {
+    const cols = columns!;
+    const problems: ImportProblem[] = [];
+    const cell = (c: Column, field: ImportField): string | null => {
+      if (c.index < cells.length) return cells[c.index];
+      problems.push({ line, field, column: c.label, value: '', reason: `Missing: the row has ${cells.length} field${cells.length === 1 ? '' : 's'}, so there is no ${c.label}` });
+      return null;
+    };
+    const tsText = cell(cols.timestamp, 'timestamp');
+    let takenAtMs = NaN;
+    if (tsText !== null) {
+      const t = parseTime(tsText);
+      if (!t.ok) problems.push({ line, field: 'timestamp', column: cols.timestamp.label, value: tsText, reason: t.reason });
+      else if (t.ms > nowMs + FUTURE_TOLERANCE_MS) {
+        problems.push({ line, field: 'timestamp', column: cols.timestamp.label, value: tsText, reason: `Timestamp "${tsText.trim()}" is in the future (after ${new Date(nowMs).toISOString()})` });
+      } else takenAtMs = t.ms;
+    }
+    const valueText = cell(cols.value, 'value');
+    let volumes: { levelMm: number; grossL: number; usableL: number } | null = null;
+    if (valueText !== null) {
+      const n = parseDecimal(valueText, mapping.decimalComma);
+      if (!n.ok) problems.push({ line, field: 'value', column: cols.value.label, value: valueText, reason: n.reason });
+      else {
+        const r = readingToVolumes(tank, toInput(n.value));
+        if (!r.ok) problems.push({ line, field: 'value', column: cols.value.label, value: valueText, reason: `${valueText.trim()} ${unit}: ${r.reason}` });
+        else volumes = { levelMm: r.levelMm, grossL: r.grossL, usableL: r.usableL };
+      }
+    }
+    let temperatureC: number | null = null;
+    if (cols.temperature && mapping.temperature) {
+      const text = cells[cols.temperature.index];
+      // A logger without a probe reading leaves the cell empty (or the record short): no temperature, not a bad row.
+      if (text !== undefined && text.trim() !== '') {
+        const n = parseDecimal(text, mapping.decimalComma, 'Temperature');
+        if (!n.ok) problems.push({ line, field: 'temperature', column: cols.temperature.label, value: text, reason: n.reason });
+        else {
+          const c = toSI(n.value, mapping.temperature.unit);
+          if (c < TEMPERATURE_RANGE_C.min || c > TEMPERATURE_RANGE_C.max) {
+            problems.push({ line, field: 'temperature', column: cols.temperature.label, value: text, reason: `Temperature ${text.trim()} °${mapping.temperature.unit} is outside ${TEMPERATURE_RANGE_C.min} to ${TEMPERATURE_RANGE_C.max} °C` });
+          } else temperatureC = c;
+        }
+      }
+    }
+    if (problems.length || !volumes) return { kind: 'rejected', line, problems };
+    return { kind: 'reading', reading: { line, takenAtMs, ...volumes, temperatureC } };
+  };
+
+  const feed = (raw: readonly string[]): FeedResult => {
+    if (fatal) return { kind: 'fatal', reason: fatal };
+    let cells = raw;
+    const atStart = first;
+    if (first) {
+      first = false;
+      if (cells.length) cells = [stripBom(cells[0]), ...cells.slice(1)];
+    }
+    const line = nextLine;
+    nextLine += 1 + lineBreaksInside(cells, newline, atStart);
+    if (isBlankRow(cells)) {
+      counts.blank++;
+      return { kind: 'blank', line };
+    }
+    if (mapping.hasHeader && !header) {
+      header = cells.map((c) => c.trim());
+      const bad = resolveAll(header);
+      if (bad) {
+        fatal = bad;
+        return { kind: 'fatal', reason: bad };
+      }
+      return { kind: 'header', line, columns: header };
+    }
+    counts.rows++;
+    const r = readRow(cells, line);
+    if (r.kind === 'rejected') counts.rejected++;
+    return r;
+  };
+
+  const end = (): { ok: true } | { ok: false; reason: string } => {
+    if (fatal) return { ok: false, reason: fatal };
+    if (counts.rows > 0) return { ok: true };
+    if (mapping.hasHeader && header) return { ok: false, reason: 'The file has a header row but no data rows: nothing to import' };
+    return { ok: false, reason: 'The file is empty: it has no rows to import' };
+  };
+
+  return { feed, end, counts };
+}

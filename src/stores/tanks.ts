@@ -1,0 +1,158 @@
+import { computed, ref, shallowRef, watch } from 'vue';
+import { defineStore } from 'pinia';
+import type { Tank, TankContentsPeriod, TankCreateInput, TankTile, TankUpdateInput } from '@shared/schemas';
+import * as tanksApi from '@/api/tanks';
+import * as boardApi from '@/api/board';
+import { errorMessage } from '@/api/http';
+import type { LoadStatus } from './farms';
+import { useSessionStore } from './session';
+
+/** Walking order as the server sorts it: walkOrder, then name. */
+function inWalkingOrder(a: Tank, b: Tank): number {
+  return a.walkOrder - b.walkOrder || a.name.localeCompare(b.name);
+}
+
+/** Tanks by farm, each tank's contents history and its latest reading from the stock board. */
+export const useTanksStore = defineStore('tanks', () => {
+  /** Every tank loaded so far, of any farm. */
+  const tanks = shallowRef<Tank[]>([]);
+  const farmStatus = ref<Record<number, LoadStatus>>({});
+  const farmError = ref<Record<number, string | null>>({});
+  const contents = shallowRef<Record<number, TankContentsPeriod[]>>({});
+  /** The latest reading of each tank (board tiles by tank id). */
+  const latest = shallowRef<Record<number, TankTile>>({});
+  const latestStatus = ref<LoadStatus>('idle');
+
+  const byId = computed(() => new Map(tanks.value.map((t) => [t.id, t])));
+
+  /** The farm's active tanks in walking order. */
+  function tanksOf(farmId: number): Tank[] {
+    return tanks.value.filter((t) => t.farmId === farmId && t.archivedAt === null).sort(inWalkingOrder);
+  }
+
+  function statusOf(farmId: number): LoadStatus {
+    return farmStatus.value[farmId] ?? 'idle';
+  }
+
+  function put(tank: Tank): Tank {
+    tanks.value = [...tanks.value.filter((t) => t.id !== tank.id), tank];
+    return tank;
+  }
+
+  async function loadFarm(farmId: number): Promise<void> {
+    farmStatus.value = { ...farmStatus.value, [farmId]: 'loading' };
+    farmError.value = { ...farmError.value, [farmId]: null };
+    try {
+      const fresh = await tanksApi.fetchTanks({ farmId, includeArchived: true });
+      tanks.value = [...tanks.value.filter((t) => t.farmId !== farmId), ...fresh];
+      farmStatus.value = { ...farmStatus.value, [farmId]: 'ready' };
+    } catch (e) {
+      farmError.value = { ...farmError.value, [farmId]: errorMessage(e) };
+      farmStatus.value = { ...farmStatus.value, [farmId]: 'error' };
+    }
+  }
+
+  /** Fetches one tank (the tank page); throws ApiError so the page can tell 404 from a failure. */
+  async function loadTank(tankId: number): Promise<Tank> {
+    return put(await tanksApi.fetchTank(tankId));
+  }
+
+  /** The latest reading of every tank the user may see, from the stock board. */
+  async function loadLatest(): Promise<void> {
+    latestStatus.value = 'loading';
+    try {
+      const board = await boardApi.fetchBoard();
+      latest.value = Object.fromEntries(board.farms.flatMap((f) => f.tanks).map((tile) => [tile.tankId, tile]));
+      latestStatus.value = 'ready';
+    } catch {
+      // The cards still show every tank without its level; the board page reports the failure.
+      latestStatus.value = 'error';
+    }
+  }
+
+  /** The walkOrder a new tank of this farm gets so it comes last on the round. */
+  function nextWalkOrder(farmId: number): number {
+    return tanksOf(farmId).reduce((last, t) => Math.max(last, t.walkOrder), 0) + 1;
+  }
+
+  async function create(input: TankCreateInput): Promise<Tank> {
+    return put(await tanksApi.createTank(input));
+  }
+
+  async function update(tankId: number, input: TankUpdateInput): Promise<Tank> {
+    const tank = put(await tanksApi.updateTank(tankId, input));
+    // New contents open a new period; the cached history is stale.
+    if (input.contents !== undefined || input.contentsNote !== undefined || input.specificGravity !== undefined) {
+      const { [tankId]: _stale, ...rest } = contents.value;
+      contents.value = rest;
+    }
+    return tank;
+  }
+
+  /**
+   * Moves a tank one place earlier (-1) or later (+1) on its farm's round, then numbers the farm's
+   * tanks 1, 2, 3… and saves each walkOrder that changed. On a failure the farm is reloaded.
+   */
+  async function move(tankId: number, direction: -1 | 1): Promise<void> {
+    const tank = byId.value.get(tankId);
+    if (!tank) return;
+    const order = tanksOf(tank.farmId);
+    const from = order.findIndex((t) => t.id === tankId);
+    const to = from + direction;
+    if (from < 0 || to < 0 || to >= order.length) return;
+    [order[from], order[to]] = [order[to], order[from]];
+    const changes = order.map((t, index) => ({ tank: t, walkOrder: index + 1 })).filter((c) => c.tank.walkOrder !== c.walkOrder);
+    // Shown at once; the server's answers replace these copies.
+    for (const c of changes) put({ ...c.tank, walkOrder: c.walkOrder });
+    try {
+      for (const c of changes) put(await tanksApi.updateTank(c.tank.id, { walkOrder: c.walkOrder }));
+    } catch (e) {
+      await loadFarm(tank.farmId);
+      throw e;
+    }
+  }
+
+  async function loadContents(tankId: number): Promise<TankContentsPeriod[]> {
+    const periods = await tanksApi.fetchContentsHistory(tankId);
+    contents.value = { ...contents.value, [tankId]: periods };
+    return periods;
+  }
+
+  function reset(): void {
+    tanks.value = [];
+    farmStatus.value = {};
+    farmError.value = {};
+    contents.value = {};
+    latest.value = {};
+    latestStatus.value = 'idle';
+  }
+
+  // Tanks cached for one person must not show to the next one on this device.
+  watch(
+    () => useSessionStore().user?.id,
+    (now, before) => {
+      if (now !== before) reset();
+    },
+  );
+
+  return {
+    tanks,
+    farmStatus,
+    farmError,
+    contents,
+    latest,
+    latestStatus,
+    byId,
+    tanksOf,
+    statusOf,
+    loadFarm,
+    loadTank,
+    loadLatest,
+    nextWalkOrder,
+    create,
+    update,
+    move,
+    loadContents,
+    reset,
+  };
+});

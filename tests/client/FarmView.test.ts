@@ -1,0 +1,111 @@
+import { beforeEach, describe, expect, it, vi } from 'vitest';
+import { flushPromises } from '@vue/test-utils';
+import { createPinia, setActivePinia, type Pinia } from 'pinia';
+import type { Role } from '@shared/schemas';
+import { formatVolume } from '@shared/units';
+import * as authApi from '@/api/auth';
+import * as boardApi from '@/api/board';
+import * as farmsApi from '@/api/farms';
+import * as tanksApi from '@/api/tanks';
+import { ApiError } from '@/api/http';
+import FarmView from '@/views/FarmView.vue';
+import { makeFarm, makeUser, sessionOf } from './support/fixtures';
+import { mountWithApp } from './support/mountApp';
+import { boardOf, makeTank, makeTile } from './support/tankFixtures';
+
+vi.mock('@/api/auth', () => ({ fetchSession: vi.fn(), signIn: vi.fn(), signOut: vi.fn(), updateProfile: vi.fn(), setPassword: vi.fn(), requestPasswordReset: vi.fn(), fetchTokenInfo: vi.fn() }));
+vi.mock('@/api/tanks', () => ({
+  fetchTanks: vi.fn(),
+  fetchTank: vi.fn(),
+  createTank: vi.fn(),
+  updateTank: vi.fn(),
+  fetchContentsHistory: vi.fn(),
+  fetchCalibration: vi.fn(),
+  calibrationCsvUrl: vi.fn(),
+  gaugeStripUrl: vi.fn(),
+}));
+vi.mock('@/api/board', () => ({ fetchBoard: vi.fn(), fetchBoardHistory: vi.fn() }));
+vi.mock('@/api/farms', () => ({ fetchFarms: vi.fn(), fetchFarm: vi.fn(), createFarm: vi.fn(), updateFarm: vi.fn() }));
+
+const auth = vi.mocked(authApi);
+const board = vi.mocked(boardApi);
+const farms = vi.mocked(farmsApi);
+const tanks = vi.mocked(tanksApi);
+let pinia: Pinia;
+
+beforeEach(() => {
+  vi.clearAllMocks();
+  document.body.innerHTML = '';
+  pinia = createPinia();
+  setActivePinia(pinia);
+  farms.fetchFarms.mockResolvedValue([makeFarm(11, 'Creek site')]);
+  board.fetchBoard.mockResolvedValue(boardOf([]));
+});
+
+function as(role: Role, unitSystem: 'metric' | 'us' = 'metric') {
+  auth.fetchSession.mockResolvedValue(sessionOf(makeUser(role, { unitSystem })));
+}
+
+describe('FarmView', () => {
+  it('shows the farm’s tanks in walking order with capacity in the user’s units and the latest level', async () => {
+    as('manager', 'us');
+    const first = makeTank(1, { walkOrder: 1, name: 'Bore tank' });
+    const second = makeTank(2, { walkOrder: 2, name: 'Fish tote', contents: 'fertilizer' });
+    tanks.fetchTanks.mockResolvedValue([second, first]);
+    board.fetchBoard.mockResolvedValue(boardOf([makeTile(first, 640), makeTile(second, null)]));
+    const { wrapper } = await mountWithApp(FarmView, { pinia, path: '/farms/11' });
+
+    expect(tanks.fetchTanks).toHaveBeenCalledWith({ farmId: 11, includeArchived: true });
+    const cards = wrapper.findAll('[data-testid^="tank-card-"]');
+    expect(cards.map((c) => c.get('.tank-card__name').text())).toEqual(['Bore tank', 'Fish tote']);
+    expect(cards[0]!.text()).toContain(formatVolume(first.capacityL, 'us'));
+    expect(wrapper.get('[data-testid="tank-level-1"]').text()).toContain(formatVolume(640, 'us'));
+    expect(wrapper.get('[data-testid="tank-level-2"]').text()).toContain('No reading yet');
+    expect(cards[1]!.find('[data-testid="contents-fertilizer"]').exists()).toBe(true);
+    expect(wrapper.find('[data-testid="farm-add-tank"]').exists()).toBe(true);
+  });
+
+  it('offers no adding or reordering to a worker', async () => {
+    as('worker');
+    tanks.fetchTanks.mockResolvedValue([makeTank(1), makeTank(2)]);
+    const { wrapper } = await mountWithApp(FarmView, { pinia, path: '/farms/11' });
+
+    expect(wrapper.findAll('[data-testid^="tank-card-"]')).toHaveLength(2);
+    expect(wrapper.find('[data-testid="farm-add-tank"]').exists()).toBe(false);
+    expect(wrapper.find('[data-testid="tank-up-2"]').exists()).toBe(false);
+  });
+
+  it('moves a tank up by saving the new walking order', async () => {
+    as('owner');
+    tanks.fetchTanks.mockResolvedValue([makeTank(1, { walkOrder: 1 }), makeTank(2, { walkOrder: 2 })]);
+    tanks.updateTank.mockImplementation(async (id, input) => makeTank(id, { walkOrder: input.walkOrder }));
+    const { wrapper } = await mountWithApp(FarmView, { pinia, path: '/farms/11' });
+
+    expect(wrapper.get('[data-testid="tank-up-1"]').attributes('disabled')).toBeDefined();
+    await wrapper.get('[data-testid="tank-up-2"]').trigger('click');
+    await flushPromises();
+
+    expect(tanks.updateTank).toHaveBeenCalledWith(2, { walkOrder: 1 });
+    expect(tanks.updateTank).toHaveBeenCalledWith(1, { walkOrder: 2 });
+    expect(wrapper.findAll('[data-testid^="tank-card-"]').map((c) => c.attributes('data-testid'))).toEqual(['tank-card-2', 'tank-card-1']);
+  });
+
+  it('says so when the farm has no tanks yet', async () => {
+    as('manager');
+    tanks.fetchTanks.mockResolvedValue([]);
+    const { wrapper } = await mountWithApp(FarmView, { pinia, path: '/farms/11' });
+
+    expect(wrapper.get('[data-testid="empty-state"]').text()).toContain('No tanks on this farm yet');
+  });
+
+  it('shows a failed load with a retry that loads again', async () => {
+    as('manager');
+    tanks.fetchTanks.mockRejectedValueOnce(new ApiError(0, 'network', 'Cannot reach the server.')).mockResolvedValueOnce([makeTank(1)]);
+    const { wrapper } = await mountWithApp(FarmView, { pinia, path: '/farms/11' });
+
+    expect(wrapper.get('[data-testid="load-error"]').text()).toContain('Cannot reach the server.');
+    await wrapper.get('[data-testid="load-retry"]').trigger('click');
+    await flushPromises();
+    expect(wrapper.find('[data-testid="tank-card-1"]').exists()).toBe(true);
+  });
+});

@@ -1,0 +1,57 @@
+import { calibrationVersion, capacityL, heightMm, type TankGeometry } from '@shared/calibration';
+import type { StockBoard, Tank, TankTile } from '@shared/schemas';
+
+// Invented tanks of the Hollowbrook scenario the other client tests use.
+const CYLINDER: TankGeometry = { shape: 'vertical-cylinder', diameterMm: 1200, heightMm: 1500 };
+
+/** A tank as the API returns it; derived sizes come from the shared engine, never typed in. */
+export function makeTank(id: number, overrides: Partial<Tank> = {}): Tank {
+  const geometry = overrides.geometry ?? CYLINDER;
+  const datumOffsetMm = overrides.datumOffsetMm ?? 0;
+  return {
+    id,
+    farmId: 11,
+    name: `Tank ${id}`,
+    code: `CK-${id}`,
+    contents: 'water',
+    contentsNote: '',
+    geometry,
+    datumOffsetMm,
+    outletHeightMm: 50,
+    safeFillLevelMm: heightMm(geometry),
+    lowStockL: 100,
+    specificGravity: 1,
+    sensorHeightMm: null,
+    walkOrder: id,
+    calibrationVersion: calibrationVersion(geometry, datumOffsetMm),
+    heightMm: heightMm(geometry),
+    capacityL: capacityL(geometry),
+    archivedAt: null,
+    ...overrides,
+  };
+}
+
+/** A board tile for a tank with a reading of `grossL` litres. */
+export function makeTile(tank: Tank, grossL: number | null): TankTile {
+  return {
+    tankId: tank.id,
+    farmId: tank.farmId,
+    name: tank.name,
+    code: tank.code,
+    contents: tank.contents,
+    capacityL: tank.capacityL,
+    lowStockL: tank.lowStockL,
+    grossL,
+    usableL: grossL,
+    percentFull: grossL === null ? null : (grossL / tank.capacityL) * 100,
+    temperatureC: null,
+    takenAt: grossL === null ? null : '2026-03-02T08:15:00.000Z',
+    low: grossL !== null && grossL <= tank.lowStockL,
+  };
+}
+
+/** A board holding the given tiles, one farm per farmId. */
+export function boardOf(tiles: TankTile[]): StockBoard {
+  const farmIds = [...new Set(tiles.map((t) => t.farmId))];
+  return { generatedAt: '2026-03-02T09:00:00.000Z', totals: [], farms: farmIds.map((farmId) => ({ farmId, name: `Farm ${farmId}`, totals: [], tanks: tiles.filter((t) => t.farmId === farmId) })) };
+}

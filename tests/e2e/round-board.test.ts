@@ -1,0 +1,141 @@
+// Browser test of the round and the live stock board: the demo manager watches the board on a
+// desktop while the demo worker, on a 360 px phone, enters a round for Hollin Ridge; the manager's
+// water total moves within a second without a reload. Also the buyer's read-only board, and the
+// board on a phone.
+import { afterEach, describe, expect, inject, it } from 'vitest';
+import type { Page } from 'playwright-core';
+import { readScenario } from '../../server/services/demo';
+import { launch, screenshot, type Browser } from '../support/browser';
+
+const { baseUrl } = inject('app');
+const people = readScenario().people;
+const demo = (role: string) => people.find((p) => p.role === role)!;
+const PHONE = { viewport: { width: 360, height: 740 }, isMobile: true };
+
+async function signIn(page: Page, role: string) {
+  const who = demo(role);
+  await page.goto(`${baseUrl}/sign-in`);
+  await page.getByTestId('signin-email').fill(who.email);
+  await page.locator('[data-testid="signin-password"] input, input[data-testid="signin-password"]').first().fill(who.password);
+  await page.getByTestId('signin-submit').click();
+  await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
+}
+
+const opened: Browser[] = [];
+async function open(opts: Parameters<typeof launch>[0] = {}): Promise<Browser> {
+  const b = await launch(opts);
+  opened.push(b);
+  return b;
+}
+afterEach(async () => {
+  while (opened.length) await opened.pop()!.close();
+});
+
+describe('round and live stock board', () => {
+  it('moves the manager’s water total within a second of a worker’s round, without a reload', async () => {
+    const worker = await open(PHONE);
+    await signIn(worker.page, 'worker');
+
+    const manager = await open();
+    await signIn(manager.page, 'manager');
+    const board = manager.page;
+    await board.goto(`${baseUrl}/`);
+    await expect.poll(() => board.getByTestId('board-live').getAttribute('data-status')).toBe('live');
+    expect(await board.getByTestId('board-live').innerText()).toMatch(/^Live/);
+    const waterTotal = board.getByTestId('board-total-water');
+    await expect.poll(() => waterTotal.innerText()).toMatch(/usable/);
+    const before = await waterTotal.innerText();
+    let reloads = 0;
+    board.on('framenavigated', (frame) => {
+      if (frame === board.mainFrame()) reloads++;
+    });
+
+    const phone = worker.page;
+    await phone.goto(`${baseUrl}/round`);
+    await phone.getByTestId('round-farm').click();
+    await phone.getByRole('option', { name: 'Hollin Ridge' }).click();
+    await phone.getByTestId('round-tank-HR-W1').waitFor();
+
+    // Litres appear while typing: 1140 mm + 60 mm datum = 1.2 m in a cylinder 3.2 m across,
+    // π × 1.6² × 1.2 m³ = 9,651 L (right circular cylinder V = π r² h; recalled from memory).
+    await phone.getByTestId('round-input-HR-W1').fill('1140');
+    await expect.poll(() => phone.getByTestId('round-litres-HR-W1').innerText()).toBe('9,651 L');
+    // A reading past the top of the 950 mm drum is refused on the spot, then corrected.
+    await phone.getByTestId('round-input-HR-P1').fill('5000');
+    await expect.poll(() => phone.getByTestId('round-error-HR-P1').innerText()).toMatch(/above the top of the tank/);
+    await phone.getByTestId('round-input-HR-P1').fill('600');
+    await phone.getByTestId('round-input-HR-C1').fill('800');
+    await phone.getByTestId('round-temperature-HR-C1').fill('21.5');
+    await phone.getByTestId('round-input-HR-C2').fill('700');
+    await phone.getByTestId('round-temperature-HR-C2').fill('16.5');
+    await expect.poll(() => phone.getByTestId('round-warning-HR-C2').innerText()).toMatch(/inactive/);
+    expect(await phone.getByTestId('round-error-HR-P1').count()).toBe(0);
+
+    // Phone-first: nothing wider than the screen, and inputs big enough for a thumb.
+    expect(await phone.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(360);
+    const inputBox = await phone.getByTestId('round-input-HR-W1').boundingBox();
+    expect(inputBox!.height).toBeGreaterThanOrEqual(48);
+    const sendBox = await phone.getByTestId('round-submit').boundingBox();
+    expect(sendBox!.height).toBeGreaterThanOrEqual(48);
+    await phone.evaluate(() => window.scrollTo(0, 0));
+    await screenshot(phone, 'round-worker-phone-typed');
+
+    // The board fetches the 14-day history again once pushes settle, so the chart shows today's round.
+    const historyRefreshed = board.waitForResponse((r) => r.url().endsWith('/api/board/history'), { timeout: 15_000 }).then(
+      () => true,
+      () => false,
+    );
+    await phone.getByTestId('round-submit').click();
+    await expect.poll(() => phone.getByTestId('round-result-HR-W1').innerText(), { timeout: 5000 }).toBe('Stored');
+    const storedAt = Date.now();
+    await expect.poll(() => waterTotal.innerText(), { timeout: 1000, interval: 50 }).not.toBe(before);
+    expect(Date.now() - storedAt).toBeLessThan(1000);
+    expect(reloads).toBe(0);
+
+    for (const code of ['HR-C1', 'HR-C2', 'HR-P1']) expect(await phone.getByTestId(`round-result-${code}`).innerText()).toBe('Stored');
+    expect(await phone.getByTestId('round-summary').innerText()).toContain('4 stored');
+    expect(await phone.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(360);
+    await phone.evaluate(() => window.scrollTo(0, 0));
+    await screenshot(phone, 'round-worker-phone');
+
+    // The tile shows the new reading as usable stock: π × 1.6² × (1.2 − 0.15) m³ above the 150 mm outlet.
+    await expect.poll(() => board.getByTestId('board-tile-HR-W1').innerText()).toMatch(/8,445 L usable[\s\S]*Read just now/);
+    expect(await historyRefreshed).toBe(true);
+    await board.getByTestId('board-history-chart').waitFor();
+    await board.waitForTimeout(1200);
+    await screenshot(board, 'board-manager');
+  });
+
+  it('shows a buyer the board read-only, without a round', async () => {
+    const buyer = await open();
+    await signIn(buyer.page, 'buyer');
+    const page = buyer.page;
+    await page.goto(`${baseUrl}/`);
+
+    await expect.poll(() => page.getByTestId('board-total-water').innerText()).toMatch(/usable/);
+    expect(await page.getByTestId('board-readonly').count()).toBe(1);
+    expect(await page.getByTestId('board-round').count()).toBe(0);
+    expect(await page.getByTestId('nav-round').count()).toBe(0);
+    expect(await page.getByTestId('nav-home').innerText()).toContain('Stock board');
+    await page.goto(`${baseUrl}/round`);
+    await page.waitForURL((url) => url.pathname === '/');
+    await page.getByTestId('board-total-water').waitFor();
+    await page.getByTestId('board-history-chart').waitFor();
+    // Let the chart's drawing animation finish before the picture.
+    await page.waitForTimeout(1200);
+    await screenshot(page, 'board-buyer');
+  });
+
+  it('shows the manager’s board on a phone without sideways scrolling', async () => {
+    const phone = await open(PHONE);
+    await signIn(phone.page, 'manager');
+    await phone.page.goto(`${baseUrl}/`);
+    await phone.page.getByTestId('board-total-water').waitFor();
+    await phone.page.getByTestId('board-tile-HR-W1').waitFor();
+    await phone.page.getByTestId('board-history-chart').waitFor();
+    await phone.page.waitForTimeout(1200);
+
+    await screenshot(phone.page, 'board-manager-phone');
+    expect(await phone.page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(360);
+  });
+});
