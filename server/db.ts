@@ -9,6 +9,7 @@ import * as m0002 from './migrations/0002-tanks';
 import * as m0003 from './migrations/0003-readings';
 import * as m0004 from './migrations/0004-imports';
 import * as m0005 from './migrations/0005-inventory';
+import * as m0006 from './migrations/0006-forecasts';
 
 /** Migrations in order; add a new numbered file and list it here. */
 const MIGRATIONS = [
@@ -17,6 +18,7 @@ const MIGRATIONS = [
   { name: '0003-readings', module: m0003 },
   { name: '0004-imports', module: m0004 },
   { name: '0005-inventory', module: m0005 },
+  { name: '0006-forecasts', module: m0006 },
 ];
 
 export interface Database {

@@ -64,6 +64,9 @@ export class TankLatest extends Model<InferAttributes<TankLatest>, InferCreation
   declare usableL: number;
   declare temperatureC: number | null;
   declare source: ReadingSource;
+  declare useLPerDay: CreationOptional<number | null>;
+  declare useSdLPerDay: CreationOptional<number | null>;
+  declare forecastAt: CreationOptional<Date | null>;
 
   static initModel(sequelize: Sequelize) {
     TankLatest.init(
@@ -78,6 +81,9 @@ export class TankLatest extends Model<InferAttributes<TankLatest>, InferCreation
         usableL: { type: DataTypes.DOUBLE, allowNull: false },
         temperatureC: { type: DataTypes.DOUBLE, allowNull: true },
         source: { type: DataTypes.ENUM('round', 'logger', 'correction'), allowNull: false },
+        useLPerDay: { type: DataTypes.DOUBLE, allowNull: true },
+        useSdLPerDay: { type: DataTypes.DOUBLE, allowNull: true },
+        forecastAt: { type: DataTypes.DATE(3), allowNull: true },
       },
       { sequelize, tableName: 'tank_latest', timestamps: false },
     );

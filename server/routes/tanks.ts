@@ -7,6 +7,7 @@ import { actorOf, requireRole, requireSignIn } from '../middleware/access';
 import { gaugeStripPdf } from '../services/gauge-strip';
 import { calibrationTable, contentsHistory, createTank, listTanks, tankFor, toTankDto, updateTank } from '../services/tanks';
 import { idParam, parse } from '../validate';
+import { forecastFor } from '../services/forecasts';
 
 const listQuery = z.object({ farmId: idSchema.optional(), includeArchived: z.enum(['true', 'false']).optional() });
 
@@ -26,6 +27,9 @@ export function tanksRouter(ctx: AppContext) {
   });
   router.patch('/:id', managers, async (req, res) => {
     res.json(await updateTank(ctx, actorOf(req), idParam(req.params.id, 'Tank'), parse(tankUpdateSchema, req.body)));
+  });
+  router.get('/:id/forecast', requireSignIn, async (req, res) => {
+    res.json(await forecastFor(ctx, actorOf(req), idParam(req.params.id, 'Tank')));
   });
   router.get('/:id/contents', requireSignIn, async (req, res) => {
     res.json(await contentsHistory(ctx, actorOf(req), idParam(req.params.id, 'Tank')));

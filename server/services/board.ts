@@ -5,6 +5,7 @@ import { capacityL, type TankGeometry } from '@shared/calibration';
 import { totalsOf } from '@shared/board';
 import { TANK_CONTENTS, type BoardHistory, type FarmBoard, type SessionUser, type StockBoard, type TankContents, type TankTile } from '@shared/schemas';
 import type { AppContext } from '../context';
+import { refreshStaleForecasts } from './forecasts';
 
 interface Row {
   tankId: number;
@@ -19,6 +20,7 @@ interface Row {
   usableL: number | null;
   temperatureC: number | null;
   takenAt: Date | null;
+  useLPerDay: number | null;
 }
 
 /** The board for the farms the actor may see. */
@@ -28,10 +30,14 @@ export function stockBoard(ctx: AppContext, actor: SessionUser): Promise<StockBo
 
 /** The board of some farms of one organisation (callers check access). */
 export async function boardOf(ctx: AppContext, organisationId: number, farmIds: number[]): Promise<StockBoard> {
+  if (farmIds.length) {
+    const tankIds = (await ctx.db.models.Tank.findAll({ where: { organisationId, farmId: farmIds, archivedAt: null }, attributes: ['id'] })).map((t) => t.id);
+    await refreshStaleForecasts(ctx, tankIds);
+  }
   const rows = farmIds.length
     ? await ctx.db.sequelize.query<Row>(
         `SELECT t.id AS tankId, t.farmId, f.name AS farmName, t.name, t.code, t.contents, t.geometry, t.lowStockL,
-                l.grossL, l.usableL, l.temperatureC, l.takenAt
+                l.grossL, l.usableL, l.temperatureC, l.takenAt, l.useLPerDay
            FROM tanks t JOIN farms f ON f.id = t.farmId
            LEFT JOIN tank_latest l ON l.tankId = t.id
           WHERE t.organisationId = ? AND t.farmId IN (?) AND t.archivedAt IS NULL AND f.archivedAt IS NULL
@@ -58,6 +64,8 @@ export async function boardOf(ctx: AppContext, organisationId: number, farmIds: 
       temperatureC: r.temperatureC,
       takenAt: r.takenAt ? new Date(r.takenAt).toISOString() : null,
       low: r.usableL !== null && r.usableL < r.lowStockL,
+      useLPerDay: r.useLPerDay,
+      daysOfCover: r.useLPerDay && r.usableL !== null ? r.usableL / r.useLPerDay : null,
     };
     all.push(tile);
     if (!farms.has(r.farmId)) farms.set(r.farmId, { farmId: r.farmId, name: r.farmName, totals: [], tanks: [] });

@@ -2,7 +2,7 @@
 import { readFileSync } from 'node:fs';
 import { resolve } from 'node:path';
 import { calibrationVersion, type TankGeometry } from '@shared/calibration';
-import type { Role, TankContents } from '@shared/schemas';
+import type { InputCategory, Role, TankContents } from '@shared/schemas';
 import type { Database } from '../db';
 import { hashPassword } from './passwords';
 import { insertReadings, type NewReading } from './readings';
@@ -27,6 +27,30 @@ interface Scenario {
     lowStockL: number;
     specificGravity: number;
   }[];
+  suppliers: { key: string; name: string; contactName: string; email: string; phone: string; leadTimeDays: number; notes: string }[];
+  inputs: { farm: string; supplier: string; name: string; unit: string; category: InputCategory; packSize: number; unitPrice: number; orderCost: number; holdingCostPerYear: number; usePerDay: number; onHand: number }[];
+}
+
+/** Six weeks of draws of a demo input ending at `onHand`, with a shelf count two weeks ago (invented figures). */
+function demoMovements(input: { id: number; organisationId: number; farmId: number }, spec: { usePerDay: number; onHand: number }, index: number, byUserId: number | null) {
+  let seed = 7_919 + index * 104_729;
+  const random = () => ((seed = (seed * 16_807) % 2_147_483_647) / 2_147_483_647);
+  const base = { organisationId: input.organisationId, farmId: input.farmId, inputId: input.id, orderId: null, orderLineId: null, brewId: null, byUserId };
+  const uses: { at: Date; quantity: number }[] = [];
+  for (let d = 42; d >= 1; d--) {
+    // Not every day: about two days in three, a little more or less each time.
+    if (random() < 0.33) continue;
+    uses.push({ at: new Date(Date.now() - d * 86_400_000 + 9 * 3_600_000), quantity: Math.round(spec.usePerDay * 1.5 * (0.6 + random() * 0.8) * 100) / 100 });
+  }
+  const used = uses.reduce((t, u) => t + u.quantity, 0);
+  const countAt = new Date(Date.now() - 14 * 86_400_000);
+  const usedAfterCount = uses.filter((u) => u.at > countAt).reduce((t, u) => t + u.quantity, 0);
+  return [
+    { ...base, kind: 'receipt' as const, quantity: Math.round((spec.onHand + used) * 1.03 * 100) / 100, at: new Date(Date.now() - 44 * 86_400_000), reason: 'Opening stock' },
+    ...uses.map((u) => ({ ...base, kind: 'use' as const, quantity: u.quantity, at: u.at, reason: '' })),
+    // The count finds a little less than the records say (spillage), which the movements history shows.
+    { ...base, kind: 'count' as const, quantity: Math.round((spec.onHand + usedAfterCount) * 100) / 100, at: countAt, reason: 'Shelf count' },
+  ];
 }
 
 export function readScenario(file = resolve(import.meta.dirname, '../../samples/demo/scenario.json')): Scenario {
@@ -50,8 +74,8 @@ function demoReadings(tank: import('../models').Tank, index: number, workerId: n
   const span = top - tank.outletHeightMm;
   let fraction = 0.55 + random() * 0.35;
   const out: NewReading[] = [];
-  const today = new Date();
-  today.setUTCHours(7, 30, 0, 0);
+  // The newest round was walked an hour or so ago, whenever the demo is loaded.
+  const today = new Date(Date.now() - 90 * 60_000);
   // The gate tank is read only now and then: its last reading is four days old.
   const lastDay = tank.code === 'SO-W2' ? 4 : 0;
   for (let d = DEMO_DAYS; d >= lastDay; d--) {
@@ -73,7 +97,7 @@ function demoReadings(tank: import('../models').Tank, index: number, workerId: n
 
 /** Loads the scenario; with onlyIfEmpty, does nothing when an organisation exists. Returns true when loaded. */
 export async function loadDemoScenario(db: Database, opts: { onlyIfEmpty?: boolean } = {}): Promise<boolean> {
-  const { Organisation, Farm, User, FarmAccess, Tank, TankCalibration, TankContentsPeriod } = db.models;
+  const { Organisation, Farm, User, FarmAccess, Tank, TankCalibration, TankContentsPeriod, Supplier, Input, StockMovement } = db.models;
   if (opts.onlyIfEmpty && (await Organisation.count()) > 0) return false;
   const scenario = readScenario();
   const hashes = await Promise.all(scenario.people.map((p) => hashPassword(p.password)));
@@ -108,6 +132,16 @@ export async function loadDemoScenario(db: Database, opts: { onlyIfEmpty?: boole
       await TankCalibration.create({ organisationId: org.id, tankId: tank.id, version, geometry: t.geometry, datumOffsetMm: t.datumOffsetMm }, { transaction });
       await TankContentsPeriod.create({ organisationId: org.id, tankId: tank.id, contents: t.contents, contentsNote: t.contentsNote, specificGravity: t.specificGravity, fromAt: since, toAt: null, changedById: null }, { transaction });
       readings.push(...demoReadings(tank, readings.length, readerOf(tank.farmId)));
+    }
+    const supplierIds = new Map<string, number>();
+    for (const { key, ...sup } of scenario.suppliers) supplierIds.set(key, (await Supplier.create({ ...sup, organisationId: org.id, archivedAt: null }, { transaction })).id);
+    const buyer = await User.findOne({ where: { organisationId: org.id, role: 'buyer' }, transaction });
+    for (const [i, { farm, supplier, usePerDay, onHand, ...spec }] of scenario.inputs.entries()) {
+      const input = await Input.create(
+        { ...spec, organisationId: org.id, farmId: farmIds.get(farm)!, supplierId: supplierIds.get(supplier) ?? null, leadTimeDays: null, serviceLevel: 0.95, minimumOrder: 0, notes: '', archivedAt: null },
+        { transaction },
+      );
+      await StockMovement.bulkCreate(demoMovements(input, { usePerDay, onHand }, i, readerOf(input.farmId) ?? buyer?.id ?? null), { transaction });
     }
     await insertReadings({ db }, readings, new Map([...farmIds.values()].map((id) => [id, timeZoneOf(id)])), transaction);
   });

@@ -166,7 +166,7 @@ export async function submitRound(ctx: AppContext, actor: SessionUser, input: Ro
   const { Tank, Reading } = ctx.db.models;
   const tanks = new Map((await Tank.findAll({ where: { farmId: farm.id, organisationId: actor.organisationId } })).map((t) => [t.id, t]));
   const keys = input.entries.map((e) => e.idempotencyKey);
-  const earlier = new Map((await Reading.findAll({ where: { idempotencyKey: keys } })).map((r) => [r.idempotencyKey!, r]));
+  const earlier = new Map((await Reading.findAll({ where: { idempotencyKey: keys, organisationId: actor.organisationId } })).map((r) => [r.idempotencyKey!, r]));
 
   const results: RoundEntryResult[] = [];
   const rows: NewReading[] = [];
@@ -206,7 +206,12 @@ export async function submitRound(ctx: AppContext, actor: SessionUser, input: Ro
     await ctx.db.sequelize.transaction((transaction) => insertReadings(ctx, rows, new Map([[farm.id, farm.timeZone]]), transaction));
     const stored = await Reading.findAll({ where: { idempotencyKey: rows.map((r) => r.idempotencyKey!) } });
     const dtos = new Map((await toReadingDto(ctx, stored)).map((d) => [d.tankId, d]));
-    for (const r of results) if (r.status === 'stored') r.reading = dtos.get(r.tankId);
+    for (const r of results) {
+      if (r.status !== 'stored') continue;
+      r.reading = dtos.get(r.tankId);
+      // Another reading of this tank was stored at the very same instant: nothing new was added.
+      if (!r.reading) r.status = 'duplicate';
+    }
     ctx.events.emit('readings', { organisationId: actor.organisationId, farmIds: [farm.id] });
   }
   return results;

@@ -29,6 +29,10 @@ export interface TankTile {
   temperatureC: number | null;
   takenAt: string | null;
   low: boolean;
+  /** Mean use over the last two weeks (L/day); null before there is enough history. */
+  useLPerDay: number | null;
+  /** Usable volume over the use rate (days); null when no use was seen. */
+  daysOfCover: number | null;
 }
 
 /** One farm on the board. */

@@ -95,6 +95,7 @@ const ROWS: Row[] = [
     expect: managersOnly({ own: 201, 'other-farm': 201, 'other-org': 404 }),
   },
   { route: 'PATCH /api/tanks/:id', url: (w, s) => `/api/tanks/${tank(w, s)}`, body: () => ({ lowStockL: 100 }), expect: managersOnly({ own: 200, 'other-farm': 200, 'other-org': 404 }) },
+  { route: 'GET /api/tanks/:id/forecast', url: (w, s) => `/api/tanks/${tank(w, s)}/forecast`, expect: farmRead(200) },
   { route: 'GET /api/tanks/:id/contents', url: (w, s) => `/api/tanks/${tank(w, s)}/contents`, expect: farmRead(200) },
   { route: 'GET /api/tanks/:id/calibration', url: (w, s) => `/api/tanks/${tank(w, s)}/calibration?step=50`, expect: farmRead(200) },
   { route: 'GET /api/tanks/:id/gauge-strip.pdf', url: (w, s) => `/api/tanks/${tank(w, s)}/gauge-strip.pdf?every=50&unit=metric&paper=a4`, expect: farmRead(200) },

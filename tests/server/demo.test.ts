@@ -22,5 +22,16 @@ describe('demo scenario', () => {
     // Three weeks of rounds: every tank has a latest reading, and the gate tank's is days old.
     expect(await env.ctx.db.models.TankLatest.count()).toBe(scenario.tanks.length);
     expect(await env.ctx.db.models.Reading.count()).toBeGreaterThan(scenario.tanks.length * 15);
+    // The buyer sees at least one input due for reorder, with a quantity and a date.
+    const buyer = scenario.people.find((p) => p.role === 'buyer')!;
+    const inputs = (await (await signedIn(env, buyer.email, buyer.password)).get('/api/inputs').expect(200)).body;
+    expect(inputs).toHaveLength(scenario.inputs.length);
+    const due = inputs.filter((i: { due: boolean }) => i.due);
+    expect(due.length).toBeGreaterThan(0);
+    expect(due.length).toBeLessThan(inputs.length);
+    for (const i of due) {
+      expect(i.suggestedQuantity).toBeGreaterThan(0);
+      expect(i.orderBy).not.toBeNull();
+    }
   });
 });

@@ -47,6 +47,8 @@ export function makeTile(tank: Tank, grossL: number | null): TankTile {
     temperatureC: null,
     takenAt: grossL === null ? null : '2026-03-02T08:15:00.000Z',
     low: grossL !== null && grossL <= tank.lowStockL,
+    useLPerDay: null,
+    daysOfCover: null,
   };
 }
 

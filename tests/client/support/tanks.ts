@@ -63,6 +63,8 @@ export function makeTile(overrides: Partial<TankTile> & Pick<TankTile, 'tankId' 
     temperatureC: null,
     takenAt: null,
     low: false,
+    useLPerDay: null,
+    daysOfCover: null,
     ...overrides,
   };
 }

@@ -1,0 +1,64 @@
+// Tank forecasts: use rate, days of cover and suspected leaks from shared/forecast, over the
+// tank's effective readings. The rate is cached in tank_latest so the board reads it cheaply.
+import { Op } from 'sequelize';
+import { tankForecast, type TankForecast } from '@shared/forecast';
+import type { SessionUser } from '@shared/schemas';
+import type { AppContext } from '../context';
+import type { Tank } from '../models';
+import { tankFor } from './tanks';
+
+const WINDOW_DAYS = 14;
+/** Quiet hours when no irrigation is planned: common practice, no published source; night draws are rare. */
+export const QUIET_HOURS = { startHour: 23, endHour: 5 };
+
+export interface TankForecastDto extends Omit<TankForecast, 'projectedEmptyAt' | 'leaks'> {
+  tankId: number;
+  usableL: number | null;
+  windowDays: number;
+  projectedEmptyAt: string | null;
+  leaks: { from: string; to: string; lossL: number; rateLPerHour: number }[];
+}
+
+/** Computes a tank's forecast now and caches its use rate beside the latest reading. */
+export async function computeForecast(ctx: AppContext, tank: Tank, timeZone: string): Promise<TankForecastDto> {
+  const { Reading, TankLatest } = ctx.db.models;
+  const now = Date.now();
+  const latest = await TankLatest.findByPk(tank.id);
+  const rows = await Reading.findAll({
+    where: { tankId: tank.id, correctedById: null, takenAt: { [Op.gte]: new Date(now - (WINDOW_DAYS + 2) * 86_400_000) } },
+    attributes: ['takenAt', 'grossL'],
+    order: [['takenAt', 'ASC']],
+  });
+  const series = rows.map((r) => ({ takenAt: r.takenAt.getTime(), volumeL: r.grossL }));
+  const f = tankForecast(series, {
+    geometry: tank.geometry, usableL: latest?.usableL ?? 0, levelMm: latest?.levelMm ?? 0, now, timeZone, windowDays: WINDOW_DAYS,
+    quietHours: QUIET_HOURS, leakThresholdLPerHour: Math.max(1, tank.lowStockL / 100),
+  });
+  if (latest) await latest.update({ useLPerDay: f.meanLPerDay, useSdLPerDay: f.sdLPerDay, forecastAt: new Date(now) });
+  return {
+    ...f,
+    tankId: tank.id,
+    usableL: latest?.usableL ?? null,
+    windowDays: WINDOW_DAYS,
+    projectedEmptyAt: f.projectedEmptyAt === null ? null : new Date(f.projectedEmptyAt).toISOString(),
+    leaks: f.leaks.map((l) => ({ from: new Date(l.from).toISOString(), to: new Date(l.to).toISOString(), lossL: l.lossL, rateLPerHour: l.rateLPerHour })),
+  };
+}
+
+/** GET /api/tanks/:id/forecast. */
+export async function forecastFor(ctx: AppContext, actor: SessionUser, tankId: number): Promise<TankForecastDto> {
+  const tank = await tankFor(ctx, actor, tankId);
+  const farm = (await ctx.db.models.Farm.findByPk(tank.farmId))!;
+  return computeForecast(ctx, tank, farm.timeZone);
+}
+
+/** Refreshes cached rates that are older than the tank's latest reading (at most `limit` tanks). */
+export async function refreshStaleForecasts(ctx: AppContext, tankIds: number[], limit = 50): Promise<void> {
+  if (!tankIds.length) return;
+  const { TankLatest, Tank, Farm } = ctx.db.models;
+  const stale = (await TankLatest.findAll({ where: { tankId: tankIds } })).filter((l) => !l.forecastAt || l.forecastAt < l.takenAt).slice(0, limit);
+  if (!stale.length) return;
+  const tanks = await Tank.findAll({ where: { id: stale.map((s) => s.tankId) } });
+  const zones = new Map((await Farm.findAll({ where: { id: [...new Set(tanks.map((t) => t.farmId))] } })).map((f) => [f.id, f.timeZone]));
+  for (const t of tanks) await computeForecast(ctx, t, zones.get(t.farmId) ?? 'UTC');
+}

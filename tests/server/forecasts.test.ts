@@ -1,0 +1,35 @@
+import { describe, expect, it } from 'vitest';
+import { useTestApp } from '../support/db';
+import { makeOrganisation, signedIn } from '../support/fixtures';
+import { makeTank } from '../support/tanks';
+import { insertReadings, type NewReading } from '../../server/services/readings';
+
+const env = useTestApp();
+const L_PER_MM = Math.PI / 4;
+
+describe('tank forecasts', () => {
+  it('gives the use rate and days of cover of a steady draw, on the tank and on the board', async () => {
+    const org = await makeOrganisation(env);
+    const tank = await makeTank(env, org, org.farmIds[0], { code: 'F1' });
+    // Daily readings at 06:00 UTC falling 40 mm (31.4 L) a day for 18 days, ending today.
+    const today = new Date();
+    today.setUTCHours(6, 0, 0, 0);
+    const rows: NewReading[] = Array.from({ length: 18 }, (_, i) => {
+      const levelMm = 1380 - 40 * i;
+      return {
+        organisationId: org.organisationId, farmId: tank.farmId, tankId: tank.id, takenAt: new Date(today.getTime() - (17 - i) * 86_400_000), source: 'round', levelMm,
+        grossL: levelMm * L_PER_MM, usableL: (levelMm - 100) * L_PER_MM, temperatureC: null, calibrationVersion: tank.calibrationVersion, enteredById: null, importId: null, note: '', idempotencyKey: null,
+      };
+    });
+    await env.ctx.db.sequelize.transaction((t) => insertReadings(env.ctx, rows, new Map([[tank.farmId, 'Europe/Dublin']]), t));
+    const manager = await signedIn(env, org.users.manager.email);
+    const f = (await manager.get(`/api/tanks/${tank.id}/forecast`).expect(200)).body;
+    // 40 mm a day of a 1 m cylinder = 40 · π/4 = 31.416 L/day (hand derivation); usable now (700 − 100) mm.
+    expect(f.meanLPerDay).toBeCloseTo(40 * L_PER_MM, 3);
+    expect(f.daysOfCover).toBeCloseTo(600 / 40, 2);
+    expect(f.leaks).toEqual([]);
+    const board = (await manager.get('/api/board').expect(200)).body;
+    const tile = board.farms[0].tanks.find((t: { tankId: number }) => t.tankId === tank.id);
+    expect(tile.daysOfCover).toBeCloseTo(15, 2);
+  });
+});
