@@ -16,6 +16,7 @@ import { tanksRouter } from './routes/tanks';
 import { readingsRouter } from './routes/readings';
 import { boardRouter } from './routes/board';
 import { inventoryRouter } from './routes/inventory';
+import { flagsRouter } from './routes/flags';
 import { importsRouter } from './routes/imports';
 
 export function createApp(ctx: AppContext, opts: { staticDir?: string } = {}) {
@@ -41,6 +42,7 @@ export function createApp(ctx: AppContext, opts: { staticDir?: string } = {}) {
     ['', readingsRouter(ctx)],
     ['/board', boardRouter(ctx)],
     ['', inventoryRouter(ctx)],
+    ['/flags', flagsRouter(ctx)],
     ['', importsRouter(ctx)],
     ['', peopleRouter(ctx)],
   ];

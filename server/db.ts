@@ -10,6 +10,7 @@ import * as m0003 from './migrations/0003-readings';
 import * as m0004 from './migrations/0004-imports';
 import * as m0005 from './migrations/0005-inventory';
 import * as m0006 from './migrations/0006-forecasts';
+import * as m0007 from './migrations/0007-flags';
 
 /** Migrations in order; add a new numbered file and list it here. */
 const MIGRATIONS = [
@@ -19,6 +20,7 @@ const MIGRATIONS = [
   { name: '0004-imports', module: m0004 },
   { name: '0005-inventory', module: m0005 },
   { name: '0006-forecasts', module: m0006 },
+  { name: '0007-flags', module: m0007 },
 ];
 
 export interface Database {

@@ -8,6 +8,7 @@ import type { SessionUser } from '@shared/schemas';
 import type { AppContext } from './context';
 import { sessionUserFor } from './services/auth';
 import { boardOf, stockBoard } from './services/board';
+import { activeFlagsOf } from './services/flags';
 
 export const THROTTLE_MS = 250;
 const farmRoom = (id: number) => `farm:${id}`;
@@ -83,10 +84,18 @@ export function attachRealtime(ctx: AppContext, http: HttpServer, sessionMiddlew
   const onUserEvent = ({ userId, event, payload }: { userId: number; event: string; payload: unknown }) => {
     io.to(userRoom(userId)).emit(event, payload);
   };
+  const onFlags = async ({ organisationId, farmIds }: { organisationId: number; farmIds: number[] }) => {
+    for (const farmId of farmIds) {
+      const flags = await activeFlagsOf(ctx, organisationId, farmId).catch((err) => (ctx.logger.error({ err }, 'flag push failed'), null));
+      if (flags) io.to(farmRoom(farmId)).emit('flags:farm', { farmId, flags });
+    }
+  };
+  ctx.events.on('flags', onFlags);
   ctx.events.on('readings', onReadings);
   ctx.events.on('user-changed', onUserChanged);
   ctx.events.on('user-event', onUserEvent);
   io.on('close', () => {
+    ctx.events.off('flags', onFlags);
     ctx.events.off('readings', onReadings);
     ctx.events.off('user-changed', onUserChanged);
     ctx.events.off('user-event', onUserEvent);

@@ -11,6 +11,7 @@ import { createLogger } from './logger';
 import { createMailer } from './mail/mailer';
 import { attachRealtime } from './realtime';
 import { recoverInterruptedImports } from './services/imports';
+import { attachFlagRules } from './services/flags';
 
 export interface RunningServer {
   ctx: AppContext;
@@ -35,6 +36,7 @@ export async function startServer(config: Config, opts: { staticDir?: string } =
   const app = createApp(ctx, opts);
   const http = createServer(app);
   const io = attachRealtime(ctx, http, app.locals.sessionMiddleware);
+  const stopFlagRules = attachFlagRules(ctx);
   await new Promise<void>((resolve, reject) => {
     http.once('error', reject);
     http.listen(config.port, config.host, () => resolve());
@@ -47,6 +49,7 @@ export async function startServer(config: Config, opts: { staticDir?: string } =
     http,
     port,
     async close() {
+      stopFlagRules();
       await io.close();
       http.closeAllConnections();
       await new Promise<void>((r) => http.close(() => r()));

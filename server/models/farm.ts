@@ -7,6 +7,9 @@ export class Farm extends Model<InferAttributes<Farm>, InferCreationAttributes<F
   declare timeZone: string;
   declare location: CreationOptional<string>;
   declare archivedAt: Date | null;
+  declare staleAfterDays: CreationOptional<number>;
+  declare coldCultureC: CreationOptional<number>;
+  declare frostRiskC: CreationOptional<number>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 
@@ -19,6 +22,9 @@ export class Farm extends Model<InferAttributes<Farm>, InferCreationAttributes<F
         timeZone: { type: DataTypes.STRING(64), allowNull: false },
         location: { type: DataTypes.STRING(200), allowNull: false, defaultValue: '' },
         archivedAt: { type: DataTypes.DATE, allowNull: true },
+        staleAfterDays: { type: DataTypes.DOUBLE, allowNull: false, defaultValue: 3 },
+        coldCultureC: { type: DataTypes.DOUBLE, allowNull: false, defaultValue: 18 },
+        frostRiskC: { type: DataTypes.DOUBLE, allowNull: false, defaultValue: 2 },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },

@@ -10,6 +10,9 @@ export const toFarmDto = (f: Farm): FarmDto => ({
   timeZone: f.timeZone,
   location: f.location,
   archivedAt: f.archivedAt ? f.archivedAt.toISOString() : null,
+  staleAfterDays: f.staleAfterDays,
+  coldCultureC: f.coldCultureC,
+  frostRiskC: f.frostRiskC,
 });
 
 /** Farms the actor may see, by name; archived ones only when asked. */

@@ -8,3 +8,4 @@ export * from './board';
 export * from './gauge';
 export * from './imports';
 export * from './inventory';
+export * from './flags';

@@ -159,6 +159,13 @@ const ROWS: Row[] = [
     body: (w, s) => ({ lines: [{ lineId: w.stock[s].lastLineId, quantity: 1 }] }),
     expect: purchasing({ own: 200, 'other-farm': 200, 'other-org': 404 }, { own: 200, 'other-farm': 403, 'other-org': 404 }),
   },
+  { route: 'GET /api/flags', url: (w, s) => `/api/flags?farmId=${farm(w, s)}`, expect: signedInOnly(200) },
+  {
+    route: 'POST /api/flags/:id/acknowledge',
+    url: async (w, s) => `/api/flags/${await freshFlag(w, s)}/acknowledge`,
+    body: () => ({ note: 'seen by the matrix' }),
+    expect: { ...farmRead(200), buyer: { own: 403, 'other-farm': 403, 'other-org': 404 } },
+  },
   // Development-only mail outbox; not mounted in production (see the config test).
   { route: 'GET /api/dev/outbox', url: () => '/api/dev/outbox', expect: same(200) },
   { route: 'DELETE /api/dev/outbox', url: () => '/api/dev/outbox', expect: same(204) },
@@ -174,6 +181,15 @@ async function freshOrder(w: World, s: Scope, status: 'draft' | 'sent' = 'draft'
   const o = await PurchaseOrder.create({ organisationId: input.organisationId, farmId: input.farmId, supplierId: w.stock[s].supplierId, number: `MX-${++seq}`, status, notes: '', sentAt: null, createdById: null });
   w.stock[s].lastLineId = (await PurchaseOrderLine.create({ orderId: o.id, inputId: input.id, quantity: 10, unitPrice: 1 })).id;
   return o.id;
+}
+
+/** A new open tank flag on the scope's farm. */
+async function freshFlag(w: World, s: Scope): Promise<number> {
+  const t = (await env.ctx.db.models.Tank.findByPk(w.tanks[s]))!;
+  const kinds = ['low-stock', 'stale-tank', 'cold-culture', 'frost-risk', 'overfill', 'suspected-leak'] as const;
+  const now = new Date();
+  // A different tank-less subject id each time keeps one active flag per kind and subject.
+  return (await env.ctx.db.models.Flag.create({ organisationId: t.organisationId, farmId: t.farmId, kind: kinds[seq % kinds.length], subjectType: 'tank', subjectId: 100_000 + ++seq, status: 'open', activeKey: 1, message: 'matrix', value: null, raisedAt: now, lastSeenAt: now, acknowledgedAt: null, acknowledgedById: null, ackNote: null, clearedAt: null })).id;
 }
 
 /** A new reading on the scope's tank (each correction case needs its own). */

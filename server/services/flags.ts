@@ -1,0 +1,172 @@
+// Flags: raised and cleared by the rules of shared/flags whenever stock changes (and on a timer
+// for stale tanks), one active flag per kind and subject, acknowledged by a person, kept as history.
+import { Op, type WhereOptions } from 'sequelize';
+import { tankFlagConditions, type FlagCondition } from '@shared/flags';
+import type { Flag as FlagDto, FlagKind, SessionUser } from '@shared/schemas';
+import type { AppContext } from '../context';
+import { AppError, forbidden, notFound } from '../errors';
+import type { Flag } from '../models';
+import { computeForecast } from './forecasts';
+import { listInputs } from './inventory';
+
+const TANK_KINDS: FlagKind[] = ['low-stock', 'stale-tank', 'cold-culture', 'frost-risk', 'overfill', 'suspected-leak'];
+
+/** Brings one subject's active flags in line with the conditions that hold now; returns true when anything changed. */
+async function reconcile(ctx: AppContext, subject: { organisationId: number; farmId: number; type: 'tank' | 'input'; id: number }, kinds: FlagKind[], holding: FlagCondition[]): Promise<boolean> {
+  const { Flag } = ctx.db.models;
+  const now = new Date();
+  const active = await Flag.findAll({ where: { subjectType: subject.type, subjectId: subject.id, activeKey: 1, kind: kinds } });
+  let changed = false;
+  for (const c of holding) {
+    const cur = active.find((f) => f.kind === c.kind);
+    if (cur) {
+      if (cur.message !== c.message) changed = true;
+      await cur.update({ lastSeenAt: now, message: c.message, value: c.value });
+    } else {
+      // The unique key on (kind, subject, activeKey) makes a racing second insert fail instead of duplicating.
+      await Flag.create({ organisationId: subject.organisationId, farmId: subject.farmId, kind: c.kind, subjectType: subject.type, subjectId: subject.id, status: 'open', activeKey: 1, message: c.message, value: c.value, raisedAt: now, lastSeenAt: now, acknowledgedAt: null, acknowledgedById: null, ackNote: null, clearedAt: null }).catch((err: { name?: string }) => {
+        if (err?.name !== 'SequelizeUniqueConstraintError') throw err;
+      });
+      changed = true;
+    }
+  }
+  for (const f of active) {
+    if (!holding.some((c) => c.kind === f.kind)) {
+      await f.update({ status: 'cleared', activeKey: null, clearedAt: now });
+      changed = true;
+    }
+  }
+  return changed;
+}
+
+/** Evaluates every tank of some farms; returns the farms whose flags changed. */
+export async function evaluateTankFlags(ctx: AppContext, organisationId: number, farmIds: number[]): Promise<number[]> {
+  const { Tank, Farm, TankLatest } = ctx.db.models;
+  const farms = await Farm.findAll({ where: { id: farmIds, organisationId } });
+  const changedFarms = new Set<number>();
+  const now = Date.now();
+  for (const farm of farms) {
+    const tanks = await Tank.findAll({ where: { farmId: farm.id, archivedAt: null } });
+    const latest = new Map((await TankLatest.findAll({ where: { tankId: tanks.map((t) => t.id) } })).map((l) => [l.tankId, l]));
+    for (const tank of tanks) {
+      const l = latest.get(tank.id);
+      const leaks = l ? (await computeForecast(ctx, tank, farm.timeZone)).leaks : [];
+      const holding = farm.archivedAt
+        ? []
+        : tankFlagConditions({
+            name: tank.name, contents: tank.contents, usableL: l?.usableL ?? null, lowStockL: tank.lowStockL, levelMm: l?.levelMm ?? null, safeFillLevelMm: tank.safeFillLevelMm,
+            temperatureC: l?.temperatureC ?? null, takenAt: l ? l.takenAt.getTime() : null, now, staleAfterDays: farm.staleAfterDays, coldCultureC: farm.coldCultureC, frostRiskC: farm.frostRiskC,
+            leaks: leaks.map((x) => ({ lossL: x.lossL, rateLPerHour: x.rateLPerHour })),
+          });
+      if (await reconcile(ctx, { organisationId, farmId: farm.id, type: 'tank', id: tank.id }, TANK_KINDS, holding)) changedFarms.add(farm.id);
+    }
+  }
+  return [...changedFarms];
+}
+
+/** Evaluates the reorder-due flag of every input of some farms; returns the farms whose flags changed. */
+export async function evaluateInputFlags(ctx: AppContext, organisationId: number, farmIds: number[]): Promise<number[]> {
+  const system = { id: 0, email: '', name: 'Brimstock', role: 'owner', organisationId, organisationName: '', unitSystem: 'metric', farmIds } as SessionUser;
+  const changed = new Set<number>();
+  for (const farmId of farmIds) {
+    for (const i of await listInputs(ctx, system, { farmId })) {
+      const holding: FlagCondition[] = i.due
+        ? [{ kind: 'reorder-due', value: i.onHand, message: `${i.name}: ${round(i.onHand)} ${i.unit} on hand, at or under the reorder point of ${round(i.reorderPoint)} ${i.unit}; order ${i.suggestedQuantity} ${i.unit}` }]
+        : [];
+      if (await reconcile(ctx, { organisationId, farmId, type: 'input', id: i.id }, ['reorder-due'], holding)) changed.add(farmId);
+    }
+  }
+  return [...changed];
+}
+
+const round = (v: number) => Math.round(v * 10) / 10;
+
+async function toDtos(ctx: AppContext, rows: Flag[]): Promise<FlagDto[]> {
+  const { Tank, Input, Farm, User } = ctx.db.models;
+  const tankIds = rows.filter((r) => r.subjectType === 'tank').map((r) => r.subjectId);
+  const inputIds = rows.filter((r) => r.subjectType === 'input').map((r) => r.subjectId);
+  const tanks = new Map((tankIds.length ? await Tank.findAll({ where: { id: tankIds }, attributes: ['id', 'name', 'code'] }) : []).map((t) => [t.id, `${t.name} (${t.code})`]));
+  const inputs = new Map((inputIds.length ? await Input.findAll({ where: { id: inputIds }, attributes: ['id', 'name'] }) : []).map((i) => [i.id, i.name]));
+  const farms = new Map((await Farm.findAll({ where: { id: [...new Set(rows.map((r) => r.farmId))] }, attributes: ['id', 'name'] })).map((f) => [f.id, f.name]));
+  const userIds = [...new Set(rows.map((r) => r.acknowledgedById).filter((v): v is number => v !== null))];
+  const users = new Map((userIds.length ? await User.findAll({ where: { id: userIds }, attributes: ['id', 'name'] }) : []).map((u) => [u.id, u.name]));
+  const iso = (d: Date | null) => (d ? d.toISOString() : null);
+  return rows.map((r) => ({
+    id: r.id, farmId: r.farmId, farmName: farms.get(r.farmId) ?? '', kind: r.kind, subjectType: r.subjectType, subjectId: r.subjectId,
+    subjectName: (r.subjectType === 'tank' ? tanks.get(r.subjectId) : inputs.get(r.subjectId)) ?? '', status: r.status, message: r.message, value: r.value,
+    raisedAt: r.raisedAt.toISOString(), lastSeenAt: r.lastSeenAt.toISOString(), acknowledgedAt: iso(r.acknowledgedAt),
+    acknowledgedBy: r.acknowledgedById ? (users.get(r.acknowledgedById) ?? null) : null, ackNote: r.ackNote, clearedAt: iso(r.clearedAt),
+  }));
+}
+
+/** Flags on the actor's farms, newest first. */
+export async function listFlags(ctx: AppContext, actor: SessionUser, q: { status: string; farmId?: number; kind?: FlagKind; limit: number }): Promise<FlagDto[]> {
+  const status: WhereOptions = q.status === 'all' ? {} : q.status === 'active' ? { activeKey: 1 } : { status: q.status };
+  const rows = await ctx.db.models.Flag.findAll({
+    where: { organisationId: actor.organisationId, farmId: q.farmId ? [q.farmId].filter((f) => actor.farmIds.includes(f)) : actor.farmIds, ...status, ...(q.kind ? { kind: q.kind } : {}) },
+    order: [['raisedAt', 'DESC'], ['id', 'DESC']],
+    limit: q.limit,
+  });
+  return toDtos(ctx, rows);
+}
+
+/** The active flags of one farm (what the socket pushes). */
+export async function activeFlagsOf(ctx: AppContext, organisationId: number, farmId: number): Promise<FlagDto[]> {
+  return toDtos(ctx, await ctx.db.models.Flag.findAll({ where: { organisationId, farmId, activeKey: 1 }, order: [['raisedAt', 'DESC']] }));
+}
+
+/** A person has seen a flag and says what was done; it stays active until its condition ends. */
+export async function acknowledgeFlag(ctx: AppContext, actor: SessionUser, id: number, note: string): Promise<FlagDto> {
+  const flag = await ctx.db.models.Flag.findOne({ where: { id, organisationId: actor.organisationId } });
+  if (!flag) throw notFound('Flag');
+  if (!actor.farmIds.includes(flag.farmId)) throw forbidden('You do not have access to this farm');
+  if (actor.role === 'buyer' && flag.kind !== 'reorder-due') throw forbidden('Buyers acknowledge reorder flags only');
+  if (flag.status === 'cleared') throw new AppError(409, 'flag_cleared', 'This flag has cleared already: its condition ended');
+  await flag.update({ status: 'acknowledged', acknowledgedAt: new Date(), acknowledgedById: actor.id, ackNote: note });
+  ctx.events.emit('flags', { organisationId: actor.organisationId, farmIds: [flag.farmId] });
+  return (await toDtos(ctx, [flag]))[0];
+}
+
+/**
+ * Runs the rules after every commit that changes stock (folded per farm, at most every `delayMs`)
+ * and every `sweepMs` for stale tanks. Returns a stop function.
+ */
+export function attachFlagRules(ctx: AppContext, opts: { delayMs?: number; sweepMs?: number } = {}): () => void {
+  const delayMs = opts.delayMs ?? 300;
+  const pending = new Map<number, { organisationId: number; tanks: boolean; inputs: boolean; timer: NodeJS.Timeout }>();
+  let running = Promise.resolve();
+  const run = (farmId: number) => {
+    const job = pending.get(farmId)!;
+    pending.delete(farmId);
+    running = running
+      .then(async () => {
+        const changed = new Set<number>();
+        if (job.tanks) for (const f of await evaluateTankFlags(ctx, job.organisationId, [farmId])) changed.add(f);
+        if (job.inputs) for (const f of await evaluateInputFlags(ctx, job.organisationId, [farmId])) changed.add(f);
+        if (changed.size) ctx.events.emit('flags', { organisationId: job.organisationId, farmIds: [...changed] });
+      })
+      .catch((err) => ctx.logger.error({ err }, 'flag rules failed'));
+  };
+  const schedule = (which: 'tanks' | 'inputs') => ({ organisationId, farmIds }: { organisationId: number; farmIds: number[] }) => {
+    for (const farmId of farmIds) {
+      const job = pending.get(farmId);
+      if (job) job[which] = true;
+      else pending.set(farmId, { organisationId, tanks: which === 'tanks', inputs: which === 'inputs', timer: setTimeout(() => run(farmId), delayMs) });
+    }
+  };
+  const onReadings = schedule('tanks');
+  const onStock = schedule('inputs');
+  ctx.events.on('readings', onReadings);
+  ctx.events.on('stock', onStock);
+  const sweep = setInterval(async () => {
+    const farms = await ctx.db.models.Farm.findAll({ where: { archivedAt: { [Op.is]: null } }, attributes: ['id', 'organisationId'] }).catch(() => []);
+    for (const f of farms) onReadings({ organisationId: f.organisationId, farmIds: [f.id] });
+  }, opts.sweepMs ?? 10 * 60_000);
+  sweep.unref();
+  return () => {
+    ctx.events.off('readings', onReadings);
+    ctx.events.off('stock', onStock);
+    clearInterval(sweep);
+    for (const p of pending.values()) clearTimeout(p.timer);
+  };
+}

@@ -1,0 +1,83 @@
+// Flag rules: which conditions of a tank need a person, with the sentence that says so.
+import type { FlagKind, TankContents } from '../schemas/index';
+import { formatNumberTrimmed } from '../units/index';
+
+/** Cultures go inactive below about this temperature (°C): common practice, no published source. */
+export const COLD_CULTURE_C = 18;
+/** At or under this temperature (°C) water and brews are at risk of freezing in lines and pumps: common practice, no published source. */
+export const FROST_RISK_C = 2;
+/** Days without a reading after which a tank is stale (default of the farm setting). */
+export const STALE_AFTER_DAYS = 3;
+
+/** Our own names for the flag kinds. */
+export const FLAG_LABELS: Record<FlagKind, string> = {
+  'low-stock': 'Running low',
+  'reorder-due': 'Time to reorder',
+  'suspected-leak': 'Possible leak',
+  'stale-tank': 'Not read lately',
+  'cold-culture': 'Culture too cold',
+  'frost-risk': 'Frost risk',
+  overfill: 'Above the fill line',
+};
+
+/** The caution each kind shows, deferring to local codes and licensed practice (null: none applies). */
+export const FLAG_CAUTIONS: Record<FlagKind, string | null> = {
+  'low-stock': null,
+  'reorder-due': null,
+  'suspected-leak': 'Look for the leak from outside the tank — never climb in (confined space). Where fertilizer or pest solution is drawn into a line that touches a water supply, check the backflow preventer; follow your local plumbing code.',
+  'stale-tank': null,
+  'cold-culture': 'Check the heater. Immersion heaters and pumps belong on a residual-current (RCD/GFCI) protected circuit installed to your local electrical code by a licensed electrician.',
+  'frost-risk': 'Drain or protect exposed lines, pumps and small tanks before the frost; switch pumps off at a residual-current protected supply before draining. Follow local codes.',
+  overfill: 'Stop filling. If the tank holds fertilizer or pest solution, make sure nothing can back-siphon into the water supply (backflow prevention per local plumbing code); wear the protective equipment the product label lists when cleaning up a spill.',
+};
+
+/** What the rules look at for one tank; litres, mm, °C, epoch ms. */
+export interface TankFlagInput {
+  name: string;
+  contents: TankContents;
+  usableL: number | null;
+  lowStockL: number;
+  levelMm: number | null;
+  safeFillLevelMm: number;
+  temperatureC: number | null;
+  takenAt: number | null;
+  now: number;
+  staleAfterDays: number;
+  coldCultureC: number;
+  frostRiskC: number;
+  /** Suspected leak windows from shared/forecast (L lost, L/h). */
+  leaks: { lossL: number; rateLPerHour: number }[];
+}
+
+/** A condition that holds now. */
+export interface FlagCondition {
+  kind: FlagKind;
+  value: number;
+  message: string;
+}
+
+const n = (v: number, d = 1) => formatNumberTrimmed(v, d);
+
+/** Every flag condition that holds for a tank now (empty when all is well). */
+export function tankFlagConditions(t: TankFlagInput): FlagCondition[] {
+  const out: FlagCondition[] = [];
+  if (t.takenAt === null) return out;
+  if (t.usableL !== null && t.lowStockL > 0 && t.usableL < t.lowStockL) {
+    out.push({ kind: 'low-stock', value: t.usableL, message: `${t.name} has ${n(t.usableL, 0)} L usable, under its ${n(t.lowStockL, 0)} L threshold` });
+  }
+  const ageDays = (t.now - t.takenAt) / 86_400_000;
+  if (ageDays >= t.staleAfterDays) out.push({ kind: 'stale-tank', value: ageDays, message: `${t.name} has not been read for ${n(Math.floor(ageDays), 0)} days` });
+  if (t.temperatureC !== null) {
+    if (t.temperatureC <= t.frostRiskC && (t.contents === 'water' || t.contents === 'culture' || t.contents === 'fertilizer' || t.contents === 'pest-solution')) {
+      out.push({ kind: 'frost-risk', value: t.temperatureC, message: `${t.name} is at ${n(t.temperatureC)} °C (at or under ${n(t.frostRiskC)} °C): drain or protect` });
+    } else if (t.contents === 'culture' && t.temperatureC < t.coldCultureC) {
+      out.push({ kind: 'cold-culture', value: t.temperatureC, message: `${t.name} is at ${n(t.temperatureC)} °C, under ${n(t.coldCultureC)} °C: the culture slows or stops` });
+    }
+  }
+  if (t.levelMm !== null && t.levelMm > t.safeFillLevelMm + 0.5) {
+    out.push({ kind: 'overfill', value: t.levelMm - t.safeFillLevelMm, message: `${t.name} is ${n(t.levelMm - t.safeFillLevelMm, 0)} mm above its safe fill line` });
+  }
+  const worst = t.leaks.reduce<{ lossL: number; rateLPerHour: number } | null>((w, l) => (!w || l.rateLPerHour > w.rateLPerHour ? l : w), null);
+  if (worst) out.push({ kind: 'suspected-leak', value: worst.rateLPerHour, message: `${t.name} lost ${n(worst.lossL, 0)} L during quiet hours (${n(worst.rateLPerHour)} L/h) with no draw planned` });
+  return out;
+}

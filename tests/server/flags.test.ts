@@ -1,0 +1,90 @@
+import { randomUUID } from 'node:crypto';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { useTestApp } from '../support/db';
+import { call, makeOrganisation, signedIn, type Agent } from '../support/fixtures';
+import { makeTank } from '../support/tanks';
+import { makeInput } from '../support/inventory';
+import { attachFlagRules, evaluateTankFlags } from '../../server/services/flags';
+
+const env = useTestApp();
+let stop: () => void;
+beforeAll(() => {
+  stop = attachFlagRules(env.ctx, { delayMs: 0 });
+});
+afterAll(() => stop());
+
+const key = () => randomUUID().replace(/-/g, '');
+async function until<T>(get: () => Promise<T>, ok: (v: T) => boolean, ms = 4000): Promise<T> {
+  const end = Date.now() + ms;
+  for (;;) {
+    const v = await get();
+    if (ok(v)) return v;
+    if (Date.now() > end) throw new Error(`condition not met: ${JSON.stringify(v)}`);
+    await new Promise((r) => setTimeout(r, 50));
+  }
+}
+const flagsOf = (agent: Agent, q = '') => async () => (await agent.get(`/api/flags${q}`).expect(200)).body as { id: number; kind: string; status: string; subjectId: number; message: string }[];
+
+describe('flag rules', () => {
+  it('raises one cold-culture flag, keeps it deduplicated, and clears it when the culture warms', async () => {
+    const org = await makeOrganisation(env);
+    const cone = await makeTank(env, org, org.farmIds[0], { code: 'C1', contents: 'culture', lowStockL: 0 });
+    const worker = await signedIn(env, org.users.worker.email);
+    const round = (temperatureC: number, minutesAgo: number) =>
+      call(worker, 'post', '/api/rounds', { farmId: org.farmIds[0], takenAt: new Date(Date.now() - minutesAgo * 60_000).toISOString(), entries: [{ tankId: cone.id, readingMm: 800, temperatureC, idempotencyKey: key() }] }).expect(201);
+    await round(16.5, 30);
+    const raised = await until(flagsOf(worker), (f) => f.some((x) => x.kind === 'cold-culture'));
+    expect(raised.filter((f) => f.kind === 'cold-culture')).toHaveLength(1);
+    expect(raised[0].message).toMatch(/16\.5 °C, under 18 °C/);
+    await round(15, 20);
+    await new Promise((r) => setTimeout(r, 300));
+    expect((await flagsOf(worker)()).filter((f) => f.kind === 'cold-culture')).toHaveLength(1);
+
+    const ack = await call(worker, 'post', `/api/flags/${raised[0].id}/acknowledge`, { note: 'heater reset' }).expect(200);
+    expect(ack.body).toMatchObject({ status: 'acknowledged', ackNote: 'heater reset' });
+
+    await round(19, 10);
+    await until(flagsOf(worker), (f) => !f.some((x) => x.kind === 'cold-culture'));
+    const history = await flagsOf(worker, '?status=cleared')();
+    expect(history.map((f) => f.kind)).toContain('cold-culture');
+    await call(worker, 'post', `/api/flags/${raised[0].id}/acknowledge`, { note: 'late' }).expect(409);
+  });
+
+  it('raises frost risk for water at 2 °C, low stock and overfill from one reading each', async () => {
+    const org = await makeOrganisation(env);
+    const tank = await makeTank(env, org, org.farmIds[0], { code: 'W1', lowStockL: 300 });
+    const manager = await signedIn(env, org.users.manager.email);
+    // 300 mm tube reading = 200 mm above the outlet = 157 L usable, under 300 L.
+    await call(manager, 'post', '/api/rounds', { farmId: org.farmIds[0], entries: [{ tankId: tank.id, readingMm: 300, temperatureC: 2, idempotencyKey: key() }] }).expect(201);
+    const flags = await until(flagsOf(manager), (f) => f.length >= 2);
+    expect(flags.map((f) => f.kind).sort()).toEqual(['frost-risk', 'low-stock']);
+    // Safe fill at 1,400 mm; 1,450 mm is above it.
+    await call(manager, 'post', '/api/rounds', { farmId: org.farmIds[0], entries: [{ tankId: tank.id, readingMm: 1450, temperatureC: 8, idempotencyKey: key() }] }).expect(201);
+    const after = await until(flagsOf(manager), (f) => f.some((x) => x.kind === 'overfill'));
+    expect(after.map((f) => f.kind)).toEqual(['overfill']);
+  });
+
+  it('raises a stale-tank flag for a reading older than the farm setting', async () => {
+    const org = await makeOrganisation(env);
+    const tank = await makeTank(env, org, org.farmIds[0], { code: 'S1', lowStockL: 0 });
+    const manager = await signedIn(env, org.users.manager.email);
+    await call(manager, 'post', '/api/rounds', { farmId: org.farmIds[0], takenAt: new Date(Date.now() - 4 * 86_400_000).toISOString(), entries: [{ tankId: tank.id, readingMm: 700, idempotencyKey: key() }] }).expect(201);
+    await evaluateTankFlags(env.ctx, org.organisationId, [org.farmIds[0]]);
+    const flags = await until(flagsOf(manager), (f) => f.some((x) => x.kind === 'stale-tank'));
+    expect(flags.find((f) => f.kind === 'stale-tank')!.message).toMatch(/not been read for 4 days/);
+    await call(manager, 'patch', `/api/farms/${org.farmIds[0]}`, { staleAfterDays: 7 }).expect(200);
+    await evaluateTankFlags(env.ctx, org.organisationId, [org.farmIds[0]]);
+    expect((await flagsOf(manager)()).some((f) => f.kind === 'stale-tank')).toBe(false);
+  });
+
+  it('raises reorder-due when use takes an input to its reorder point; buyers acknowledge it, not tank flags', async () => {
+    const org = await makeOrganisation(env);
+    const { input } = await makeInput(env, org, org.farmIds[0], { onHand: 40, usePerDay: 4, days: 30 });
+    const buyer = await signedIn(env, org.users.buyer.email);
+    await call(buyer, 'post', `/api/inputs/${input.id}/movements`, { kind: 'use', quantity: 30 }).expect(201);
+    const flags = await until(flagsOf(buyer), (f) => f.some((x) => x.kind === 'reorder-due'));
+    const due = flags.find((f) => f.kind === 'reorder-due')!;
+    expect(due.subjectId).toBe(input.id);
+    await call(buyer, 'post', `/api/flags/${due.id}/acknowledge`, { note: 'order drafted' }).expect(200);
+  });
+});
