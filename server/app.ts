@@ -17,6 +17,7 @@ import { readingsRouter } from './routes/readings';
 import { boardRouter } from './routes/board';
 import { inventoryRouter } from './routes/inventory';
 import { flagsRouter } from './routes/flags';
+import { brewsRouter } from './routes/brews';
 import { importsRouter } from './routes/imports';
 
 export function createApp(ctx: AppContext, opts: { staticDir?: string } = {}) {
@@ -43,6 +44,7 @@ export function createApp(ctx: AppContext, opts: { staticDir?: string } = {}) {
     ['/board', boardRouter(ctx)],
     ['', inventoryRouter(ctx)],
     ['/flags', flagsRouter(ctx)],
+    ['/brews', brewsRouter(ctx)],
     ['', importsRouter(ctx)],
     ['', peopleRouter(ctx)],
   ];

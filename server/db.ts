@@ -11,6 +11,7 @@ import * as m0004 from './migrations/0004-imports';
 import * as m0005 from './migrations/0005-inventory';
 import * as m0006 from './migrations/0006-forecasts';
 import * as m0007 from './migrations/0007-flags';
+import * as m0008 from './migrations/0008-brews';
 
 /** Migrations in order; add a new numbered file and list it here. */
 const MIGRATIONS = [
@@ -21,6 +22,7 @@ const MIGRATIONS = [
   { name: '0005-inventory', module: m0005 },
   { name: '0006-forecasts', module: m0006 },
   { name: '0007-flags', module: m0007 },
+  { name: '0008-brews', module: m0008 },
 ];
 
 export interface Database {

@@ -10,15 +10,16 @@ import { Reading, TankLatest, TankDay } from './reading';
 import { LoggerImport, LoggerImportRejection, TankImportMapping } from './logger-import';
 import { Supplier, Input, StockMovement, PurchaseOrder, PurchaseOrderLine } from './inventory';
 import { Flag } from './flag';
+import { Brew, BrewTemperature } from './brew';
 
-export { Organisation, User, Farm, FarmAccess, Session, AuthToken, Tank, TankCalibration, TankContentsPeriod, Reading, TankLatest, TankDay, LoggerImport, LoggerImportRejection, TankImportMapping, Supplier, Input, StockMovement, PurchaseOrder, PurchaseOrderLine, Flag };
+export { Organisation, User, Farm, FarmAccess, Session, AuthToken, Tank, TankCalibration, TankContentsPeriod, Reading, TankLatest, TankDay, LoggerImport, LoggerImportRejection, TankImportMapping, Supplier, Input, StockMovement, PurchaseOrder, PurchaseOrderLine, Flag, Brew, BrewTemperature };
 
 /** Every model, initialised on one Sequelize instance. */
 export function initModels(sequelize: Sequelize) {
-  for (const m of [Organisation, User, Farm, FarmAccess, Session, AuthToken, Tank, TankCalibration, TankContentsPeriod, Reading, TankLatest, TankDay, LoggerImport, LoggerImportRejection, TankImportMapping, Supplier, Input, StockMovement, PurchaseOrder, PurchaseOrderLine, Flag]) m.initModel(sequelize);
+  for (const m of [Organisation, User, Farm, FarmAccess, Session, AuthToken, Tank, TankCalibration, TankContentsPeriod, Reading, TankLatest, TankDay, LoggerImport, LoggerImportRejection, TankImportMapping, Supplier, Input, StockMovement, PurchaseOrder, PurchaseOrderLine, Flag, Brew, BrewTemperature]) m.initModel(sequelize);
   User.belongsTo(Organisation, { foreignKey: 'organisationId' });
   User.hasMany(FarmAccess, { foreignKey: 'userId', as: 'farmAccess' });
   Farm.belongsTo(Organisation, { foreignKey: 'organisationId' });
-  return { Organisation, User, Farm, FarmAccess, Session, AuthToken, Tank, TankCalibration, TankContentsPeriod, Reading, TankLatest, TankDay, LoggerImport, LoggerImportRejection, TankImportMapping, Supplier, Input, StockMovement, PurchaseOrder, PurchaseOrderLine, Flag };
+  return { Organisation, User, Farm, FarmAccess, Session, AuthToken, Tank, TankCalibration, TankContentsPeriod, Reading, TankLatest, TankDay, LoggerImport, LoggerImportRejection, TankImportMapping, Supplier, Input, StockMovement, PurchaseOrder, PurchaseOrderLine, Flag, Brew, BrewTemperature };
 }
 export type Models = ReturnType<typeof initModels>;

@@ -9,3 +9,4 @@ export * from './gauge';
 export * from './imports';
 export * from './inventory';
 export * from './flags';
+export * from './brews';

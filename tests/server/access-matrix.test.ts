@@ -166,6 +166,10 @@ const ROWS: Row[] = [
     body: () => ({ note: 'seen by the matrix' }),
     expect: { ...farmRead(200), buyer: { own: 403, 'other-farm': 403, 'other-org': 404 } },
   },
+  { route: 'GET /api/brews', url: (w, s) => `/api/brews?farmId=${farm(w, s)}`, expect: signedInOnly(200) },
+  { route: 'POST /api/brews', url: () => '/api/brews', body: (w, s) => ({ tankId: tank(w, s), kind: 'culture', name: `Matrix brew ${++seq}`, waterL: 10 }), expect: { ...farmRead(201), buyer: 403 } },
+  { route: 'PATCH /api/brews/:id', url: async (w, s) => `/api/brews/${await freshBrew(w, s)}`, body: () => ({ notes: 'matrix' }), expect: { ...farmRead(200), buyer: 403 } },
+  { route: 'POST /api/brews/:id/temperatures', url: async (w, s) => `/api/brews/${await freshBrew(w, s)}/temperatures`, body: () => ({ temperatureC: 21 }), expect: { ...farmRead(201), buyer: 403 } },
   // Development-only mail outbox; not mounted in production (see the config test).
   { route: 'GET /api/dev/outbox', url: () => '/api/dev/outbox', expect: same(200) },
   { route: 'DELETE /api/dev/outbox', url: () => '/api/dev/outbox', expect: same(204) },
@@ -181,6 +185,12 @@ async function freshOrder(w: World, s: Scope, status: 'draft' | 'sent' = 'draft'
   const o = await PurchaseOrder.create({ organisationId: input.organisationId, farmId: input.farmId, supplierId: w.stock[s].supplierId, number: `MX-${++seq}`, status, notes: '', sentAt: null, createdById: null });
   w.stock[s].lastLineId = (await PurchaseOrderLine.create({ orderId: o.id, inputId: input.id, quantity: 10, unitPrice: 1 })).id;
   return o.id;
+}
+
+/** A new brew in the scope's tank. */
+async function freshBrew(w: World, s: Scope): Promise<number> {
+  const t = (await env.ctx.db.models.Tank.findByPk(w.tanks[s]))!;
+  return (await env.ctx.db.models.Brew.create({ organisationId: t.organisationId, farmId: t.farmId, tankId: t.id, kind: 'culture', name: 'Fixture brew', status: 'brewing', startedAt: new Date(), readyAt: null, waterL: 10, dilution: null, notes: '', createdById: null })).id;
 }
 
 /** A new open tank flag on the scope's farm. */

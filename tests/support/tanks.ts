@@ -16,5 +16,6 @@ export async function makeTank(env: TestEnv, org: OrgFixture, farmId: number, op
     datumOffsetMm, outletHeightMm: 100, safeFillLevelMm: 1400, lowStockL: opts.lowStockL ?? 200, specificGravity: 1, sensorHeightMm: null, walkOrder: 0, calibrationVersion: version, archivedAt: null,
   });
   await env.ctx.db.models.TankCalibration.create({ organisationId: org.organisationId, tankId: tank.id, version, geometry, datumOffsetMm });
+  await env.ctx.db.models.TankContentsPeriod.create({ organisationId: org.organisationId, tankId: tank.id, contents: tank.contents, contentsNote: '', specificGravity: 1, fromAt: new Date(Date.now() - 90 * 86_400_000), toAt: null, changedById: null });
   return tank;
 }
