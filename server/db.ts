@@ -12,6 +12,7 @@ import * as m0005 from './migrations/0005-inventory';
 import * as m0006 from './migrations/0006-forecasts';
 import * as m0007 from './migrations/0007-flags';
 import * as m0008 from './migrations/0008-brews';
+import * as m0009 from './migrations/0009-flag-mail';
 
 /** Migrations in order; add a new numbered file and list it here. */
 const MIGRATIONS = [
@@ -23,6 +24,7 @@ const MIGRATIONS = [
   { name: '0006-forecasts', module: m0006 },
   { name: '0007-flags', module: m0007 },
   { name: '0008-brews', module: m0008 },
+  { name: '0009-flag-mail', module: m0009 },
 ];
 
 export interface Database {

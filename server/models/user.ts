@@ -12,6 +12,8 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
   declare active: CreationOptional<boolean>;
   declare unitSystem: CreationOptional<UnitSystem>;
   declare lastSignInAt: Date | null;
+  declare flagMail: CreationOptional<'immediate' | 'digest' | 'off'>;
+  declare lastDigestAt: CreationOptional<Date | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 
@@ -27,6 +29,8 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
         active: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
         unitSystem: { type: DataTypes.ENUM('metric', 'us'), allowNull: false, defaultValue: 'metric' },
         lastSignInAt: { type: DataTypes.DATE, allowNull: true },
+        flagMail: { type: DataTypes.ENUM('immediate', 'digest', 'off'), allowNull: false, defaultValue: 'digest' },
+        lastDigestAt: { type: DataTypes.DATE, allowNull: true },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },

@@ -25,6 +25,7 @@ export async function sessionUserFor(ctx: AppContext, userId: number): Promise<S
     organisationId: user.organisationId,
     organisationName: org?.name ?? '',
     unitSystem: user.unitSystem,
+    flagMail: user.flagMail,
     farmIds: farmIds.sort((a, b) => a - b),
   };
 }

@@ -8,11 +8,12 @@ import { AppError, forbidden, notFound } from '../errors';
 import type { Flag } from '../models';
 import { computeForecast } from './forecasts';
 import { listInputs } from './inventory';
+import { mailRaisedFlags, sendFlagDigests } from './flag-mail';
 
 const TANK_KINDS: FlagKind[] = ['low-stock', 'stale-tank', 'cold-culture', 'frost-risk', 'overfill', 'suspected-leak'];
 
-/** Brings one subject's active flags in line with the conditions that hold now; returns true when anything changed. */
-async function reconcile(ctx: AppContext, subject: { organisationId: number; farmId: number; type: 'tank' | 'input'; id: number }, kinds: FlagKind[], holding: FlagCondition[]): Promise<boolean> {
+/** Brings one subject's active flags in line with the conditions that hold now; returns true when anything changed. New flags go into `raised`. */
+async function reconcile(ctx: AppContext, subject: { organisationId: number; farmId: number; type: 'tank' | 'input'; id: number }, kinds: FlagKind[], holding: FlagCondition[], raised: Flag[]): Promise<boolean> {
   const { Flag } = ctx.db.models;
   const now = new Date();
   const active = await Flag.findAll({ where: { subjectType: subject.type, subjectId: subject.id, activeKey: 1, kind: kinds } });
@@ -24,9 +25,11 @@ async function reconcile(ctx: AppContext, subject: { organisationId: number; far
       await cur.update({ lastSeenAt: now, message: c.message, value: c.value });
     } else {
       // The unique key on (kind, subject, activeKey) makes a racing second insert fail instead of duplicating.
-      await Flag.create({ organisationId: subject.organisationId, farmId: subject.farmId, kind: c.kind, subjectType: subject.type, subjectId: subject.id, status: 'open', activeKey: 1, message: c.message, value: c.value, raisedAt: now, lastSeenAt: now, acknowledgedAt: null, acknowledgedById: null, ackNote: null, clearedAt: null }).catch((err: { name?: string }) => {
+      const created = await Flag.create({ organisationId: subject.organisationId, farmId: subject.farmId, kind: c.kind, subjectType: subject.type, subjectId: subject.id, status: 'open', activeKey: 1, message: c.message, value: c.value, raisedAt: now, lastSeenAt: now, acknowledgedAt: null, acknowledgedById: null, ackNote: null, clearedAt: null }).catch((err: { name?: string }) => {
         if (err?.name !== 'SequelizeUniqueConstraintError') throw err;
+        return null;
       });
+      if (created) raised.push(created);
       changed = true;
     }
   }
@@ -44,6 +47,7 @@ export async function evaluateTankFlags(ctx: AppContext, organisationId: number,
   const { Tank, Farm, TankLatest } = ctx.db.models;
   const farms = await Farm.findAll({ where: { id: farmIds, organisationId } });
   const changedFarms = new Set<number>();
+  const raised: Flag[] = [];
   const now = Date.now();
   for (const farm of farms) {
     const tanks = await Tank.findAll({ where: { farmId: farm.id, archivedAt: null } });
@@ -58,9 +62,10 @@ export async function evaluateTankFlags(ctx: AppContext, organisationId: number,
             temperatureC: l?.temperatureC ?? null, takenAt: l ? l.takenAt.getTime() : null, now, staleAfterDays: farm.staleAfterDays, coldCultureC: farm.coldCultureC, frostRiskC: farm.frostRiskC,
             leaks: leaks.map((x) => ({ lossL: x.lossL, rateLPerHour: x.rateLPerHour })),
           });
-      if (await reconcile(ctx, { organisationId, farmId: farm.id, type: 'tank', id: tank.id }, TANK_KINDS, holding)) changedFarms.add(farm.id);
+      if (await reconcile(ctx, { organisationId, farmId: farm.id, type: 'tank', id: tank.id }, TANK_KINDS, holding, raised)) changedFarms.add(farm.id);
     }
   }
+  await mailRaisedFlags(ctx, organisationId, raised);
   return [...changedFarms];
 }
 
@@ -68,14 +73,16 @@ export async function evaluateTankFlags(ctx: AppContext, organisationId: number,
 export async function evaluateInputFlags(ctx: AppContext, organisationId: number, farmIds: number[]): Promise<number[]> {
   const system = { id: 0, email: '', name: 'Brimstock', role: 'owner', organisationId, organisationName: '', unitSystem: 'metric', farmIds } as SessionUser;
   const changed = new Set<number>();
+  const raised: Flag[] = [];
   for (const farmId of farmIds) {
     for (const i of await listInputs(ctx, system, { farmId })) {
       const holding: FlagCondition[] = i.due
         ? [{ kind: 'reorder-due', value: i.onHand, message: `${i.name}: ${round(i.onHand)} ${i.unit} on hand, at or under the reorder point of ${round(i.reorderPoint)} ${i.unit}; order ${i.suggestedQuantity} ${i.unit}` }]
         : [];
-      if (await reconcile(ctx, { organisationId, farmId, type: 'input', id: i.id }, ['reorder-due'], holding)) changed.add(farmId);
+      if (await reconcile(ctx, { organisationId, farmId, type: 'input', id: i.id }, ['reorder-due'], holding, raised)) changed.add(farmId);
     }
   }
+  await mailRaisedFlags(ctx, organisationId, raised);
   return [...changed];
 }
 
@@ -161,6 +168,7 @@ export function attachFlagRules(ctx: AppContext, opts: { delayMs?: number; sweep
   const sweep = setInterval(async () => {
     const farms = await ctx.db.models.Farm.findAll({ where: { archivedAt: { [Op.is]: null } }, attributes: ['id', 'organisationId'] }).catch(() => []);
     for (const f of farms) onReadings({ organisationId: f.organisationId, farmIds: [f.id] });
+    running = running.then(() => sendFlagDigests(ctx).then(() => undefined)).catch((err) => ctx.logger.error({ err }, 'flag digest failed'));
   }, opts.sweepMs ?? 10 * 60_000);
   sweep.unref();
   return () => {

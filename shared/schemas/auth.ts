@@ -31,11 +31,16 @@ export type SetPasswordInput = z.infer<typeof setPasswordSchema>;
 /** Body of POST /api/auth/password-reset. */
 export const passwordResetSchema = z.object({ email: emailSchema });
 
+/** How a person hears of flags by mail: one mail per new flag, a daily summary, or none. */
+export const FLAG_MAIL_CHOICES = ['immediate', 'digest', 'off'] as const;
+export type FlagMailChoice = (typeof FLAG_MAIL_CHOICES)[number];
+
 /** Body of PATCH /api/auth/me: the user's own preferences. */
 export const profileSchema = z
   .object({
     name: z.string().trim().min(1, 'Required').max(120),
     unitSystem: z.enum(UNIT_SYSTEMS),
+    flagMail: z.enum(FLAG_MAIL_CHOICES),
   })
   .partial();
 export type ProfileInput = z.infer<typeof profileSchema>;
@@ -49,6 +54,7 @@ export interface SessionUser {
   organisationId: number;
   organisationName: string;
   unitSystem: UnitSystem;
+  flagMail: FlagMailChoice;
   /** Farms this user may see (all of the organisation's for owners and managers). */
   farmIds: number[];
 }

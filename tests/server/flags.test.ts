@@ -4,7 +4,10 @@ import { useTestApp } from '../support/db';
 import { call, makeOrganisation, signedIn, type Agent } from '../support/fixtures';
 import { makeTank } from '../support/tanks';
 import { makeInput } from '../support/inventory';
-import { attachFlagRules, evaluateTankFlags } from '../../server/services/flags';
+import { attachFlagRules, evaluateInputFlags, evaluateTankFlags } from '../../server/services/flags';
+import { sendFlagDigests } from '../../server/services/flag-mail';
+import { readOutbox } from '../../server/mail/capture';
+import { waitForMail } from '../support/mail';
 
 const env = useTestApp();
 let stop: () => void;
@@ -88,5 +91,36 @@ describe('flag rules', () => {
     const due = flags.find((f) => f.kind === 'reorder-due')!;
     expect(due.subjectId).toBe(input.id);
     await call(buyer, 'post', `/api/flags/${due.id}/acknowledge`, { note: 'order drafted' }).expect(200);
+  });
+});
+
+describe('flag mail', () => {
+  it('mails a new flag at once to those who chose it, only for kinds of their role', async () => {
+    const org = await makeOrganisation(env);
+    const cone = await makeTank(env, org, org.farmIds[0], { code: 'M1', contents: 'culture', lowStockL: 0 });
+    const manager = await signedIn(env, org.users.manager.email);
+    const worker = await signedIn(env, org.users.worker.email);
+    await call(manager, 'patch', '/api/auth/me', { flagMail: 'immediate' }).expect(200);
+    await call(worker, 'patch', '/api/auth/me', { flagMail: 'immediate' }).expect(200);
+    await call(worker, 'post', '/api/rounds', { farmId: org.farmIds[0], entries: [{ tankId: cone.id, readingMm: 800, temperatureC: 12, idempotencyKey: key() }] }).expect(201);
+    const mail = await waitForMail(env.config.outboxDir, org.users.manager.email);
+    expect(mail.subject).toMatch(/Culture too cold/);
+    expect(mail.text).toMatch(/residual-current/);
+    // Workers hear only of stale tanks.
+    expect((await readOutbox(env.config.outboxDir)).some((m) => m.to.includes(org.users.worker.email))).toBe(false);
+  });
+
+  it('sends one daily summary per person and not again within the day', async () => {
+    const org = await makeOrganisation(env);
+    const { input } = await makeInput(env, org, org.farmIds[0], { onHand: 5, usePerDay: 4, days: 30 });
+    await evaluateInputFlags(env.ctx, org.organisationId, [org.farmIds[0]]);
+    const now = new Date();
+    expect(await sendFlagDigests(env.ctx, now)).toBeGreaterThan(0);
+    const mail = await waitForMail(env.config.outboxDir, org.users.buyer.email);
+    expect(mail.subject).toMatch(/daily summary: 1 flag needs a look/);
+    expect(mail.text).toContain(input.name);
+    const before = (await readOutbox(env.config.outboxDir)).length;
+    await sendFlagDigests(env.ctx, new Date(now.getTime() + 3_600_000));
+    expect((await readOutbox(env.config.outboxDir)).length).toBe(before);
   });
 });

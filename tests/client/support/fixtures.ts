@@ -10,6 +10,7 @@ export function makeUser(role: Role, overrides: Partial<SessionUser> = {}): Sess
     organisationId: 7,
     organisationName: 'Hollowbrook Growers',
     unitSystem: 'metric',
+    flagMail: 'digest',
     farmIds: [11, 12],
     ...overrides,
   };

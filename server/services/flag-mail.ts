@@ -1,0 +1,75 @@
+// Flags by mail: each person chooses a mail per new flag, a daily summary, or none, for the kinds
+// that concern their role on the farms they may see.
+import { Op } from 'sequelize';
+import { FLAG_CAUTIONS, FLAG_LABELS } from '@shared/flags';
+import type { FlagKind, Role } from '@shared/schemas';
+import type { AppContext } from '../context';
+import { escapeHtml } from '../mail/mailer';
+import type { Flag, User } from '../models';
+
+/** The flag kinds each role hears of: workers their farms' stale tanks, buyers reorders, managers and owners all. */
+export const KINDS_BY_ROLE: Record<Role, readonly FlagKind[] | 'all'> = { owner: 'all', manager: 'all', worker: ['stale-tank'], buyer: ['reorder-due'] };
+
+const concerns = (role: Role, kind: FlagKind) => KINDS_BY_ROLE[role] === 'all' || (KINDS_BY_ROLE[role] as readonly FlagKind[]).includes(kind);
+
+/** The users of an organisation who may see a farm, with their role. */
+async function readersOf(ctx: AppContext, organisationId: number, choice: 'immediate' | 'digest'): Promise<{ user: User; farmIds: Set<number> }[]> {
+  const { User, FarmAccess, Farm } = ctx.db.models;
+  const users = await User.findAll({ where: { organisationId, active: true, flagMail: choice, passwordHash: { [Op.ne]: null } } });
+  const allFarms = (await Farm.findAll({ where: { organisationId }, attributes: ['id'] })).map((f) => f.id);
+  const access = await FarmAccess.findAll({ where: { userId: users.map((u) => u.id) } });
+  return users.map((user) => ({
+    user,
+    farmIds: new Set(user.role === 'owner' || user.role === 'manager' ? allFarms : access.filter((a) => a.userId === user.id).map((a) => a.farmId)),
+  }));
+}
+
+function render(flags: Flag[], farmNames: Map<number, string>, link: string) {
+  const lines = flags.map((f) => `- [${FLAG_LABELS[f.kind]}] ${farmNames.get(f.farmId) ?? ''}: ${f.message}${FLAG_CAUTIONS[f.kind] ? `\n  Caution: ${FLAG_CAUTIONS[f.kind]}` : ''}`);
+  const items = flags.map((f) => `<li><strong>${escapeHtml(FLAG_LABELS[f.kind])}</strong> — ${escapeHtml(farmNames.get(f.farmId) ?? '')}: ${escapeHtml(f.message)}${FLAG_CAUTIONS[f.kind] ? `<br><em>Caution: ${escapeHtml(FLAG_CAUTIONS[f.kind]!)}</em>` : ''}</li>`);
+  return {
+    text: `${lines.join('\n')}\n\nSee and acknowledge them: ${link}\nCautions defer to your local codes, product labels and licensed practice.\n`,
+    html: `<ul>${items.join('')}</ul><p><a href="${escapeHtml(link)}">See and acknowledge them in Brimstock</a></p><p>Cautions defer to your local codes, product labels and licensed practice.</p>`,
+  };
+}
+
+async function farmNamesOf(ctx: AppContext, flags: Flag[]) {
+  return new Map((await ctx.db.models.Farm.findAll({ where: { id: [...new Set(flags.map((f) => f.farmId))] } })).map((f) => [f.id, f.name]));
+}
+
+/** Mails newly raised flags to the people who chose a mail per flag. */
+export async function mailRaisedFlags(ctx: AppContext, organisationId: number, raised: Flag[]): Promise<void> {
+  if (!raised.length) return;
+  const names = await farmNamesOf(ctx, raised);
+  for (const { user, farmIds } of await readersOf(ctx, organisationId, 'immediate')) {
+    const mine = raised.filter((f) => farmIds.has(f.farmId) && concerns(user.role, f.kind));
+    if (!mine.length) continue;
+    const body = render(mine, names, `${ctx.config.publicUrl}/flags`);
+    const subject = mine.length === 1 ? `Brimstock: ${FLAG_LABELS[mine[0].kind]} — ${mine[0].message}`.slice(0, 180) : `Brimstock: ${mine.length} new flags`;
+    await ctx.mailer.send({ to: user.email, subject, ...body }).catch((err) => ctx.logger.error({ err }, 'flag mail failed'));
+  }
+}
+
+/**
+ * Sends each digest reader one summary of the active flags that concern them, at most once every
+ * 20 hours (the sweep calls this hourly). Returns how many mails went out.
+ */
+export async function sendFlagDigests(ctx: AppContext, now = new Date()): Promise<number> {
+  const orgs = await ctx.db.models.Organisation.findAll({ attributes: ['id'] });
+  let sent = 0;
+  for (const org of orgs) {
+    const active = await ctx.db.models.Flag.findAll({ where: { organisationId: org.id, activeKey: 1 }, order: [['raisedAt', 'DESC']] });
+    if (!active.length) continue;
+    const names = await farmNamesOf(ctx, active);
+    for (const { user, farmIds } of await readersOf(ctx, org.id, 'digest')) {
+      if (user.lastDigestAt && now.getTime() - user.lastDigestAt.getTime() < 20 * 3_600_000) continue;
+      const mine = active.filter((f) => farmIds.has(f.farmId) && concerns(user.role, f.kind));
+      if (!mine.length) continue;
+      const body = render(mine, names, `${ctx.config.publicUrl}/flags`);
+      await ctx.mailer.send({ to: user.email, subject: `Brimstock daily summary: ${mine.length} flag${mine.length === 1 ? '' : 's'} need${mine.length === 1 ? 's' : ''} a look`, ...body });
+      await user.update({ lastDigestAt: now });
+      sent++;
+    }
+  }
+  return sent;
+}
