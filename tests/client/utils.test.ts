@@ -54,7 +54,7 @@ describe('useFormErrors', () => {
 
     const data = form.validate(farmCreateSchema, { name: ' Creek site ', timeZone: 'Europe/Lisbon' });
 
-    expect(data).toEqual({ name: 'Creek site', timeZone: 'Europe/Lisbon', location: '' });
+    expect(data).toEqual({ name: 'Creek site', timeZone: 'Europe/Lisbon', location: '', staleAfterDays: 3, coldCultureC: 18, frostRiskC: 2 });
     expect(form.errors.value).toEqual({});
   });
 

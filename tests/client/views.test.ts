@@ -215,7 +215,7 @@ describe('ProfileView', () => {
     await wrapper.get('form').trigger('submit');
     await flushPromises();
 
-    expect(auth.updateProfile).toHaveBeenCalledWith({ name: 'Priya Nand', unitSystem: 'us' });
+    expect(auth.updateProfile).toHaveBeenCalledWith({ name: 'Priya Nand', unitSystem: 'us', flagMail: 'digest' });
   });
 });
 
