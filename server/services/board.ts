@@ -65,7 +65,8 @@ export async function boardOf(ctx: AppContext, organisationId: number, farmIds: 
       takenAt: r.takenAt ? new Date(r.takenAt).toISOString() : null,
       low: r.usableL !== null && r.usableL < r.lowStockL,
       useLPerDay: r.useLPerDay,
-      daysOfCover: r.useLPerDay && r.usableL !== null ? r.usableL / r.useLPerDay : null,
+      // Counted from the reading, not from now: a tank read days ago has been drawn on since.
+      daysOfCover: r.useLPerDay && r.usableL !== null && r.takenAt ? Math.max(0, r.usableL / r.useLPerDay - (Date.now() - new Date(r.takenAt).getTime()) / 86_400_000) : null,
     };
     all.push(tile);
     if (!farms.has(r.farmId)) farms.set(r.farmId, { farmId: r.farmId, name: r.farmName, totals: [], tanks: [] });

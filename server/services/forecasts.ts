@@ -30,8 +30,14 @@ export async function computeForecast(ctx: AppContext, tank: Tank, timeZone: str
     order: [['takenAt', 'ASC']],
   });
   const series = rows.map((r) => ({ takenAt: r.takenAt.getTime(), volumeL: r.grossL }));
+  // Cover runs from the latest reading: the use since then is taken off at the mean rate.
+  const f0 = tankForecast(series, {
+    geometry: tank.geometry, usableL: latest?.usableL ?? 0, levelMm: latest?.levelMm ?? 0, now: latest ? latest.takenAt.getTime() : now, timeZone, windowDays: WINDOW_DAYS,
+  });
+  const sinceDays = latest ? (now - latest.takenAt.getTime()) / 86_400_000 : 0;
+  const usableNowL = Math.max(0, (latest?.usableL ?? 0) - f0.meanLPerDay * sinceDays);
   const f = tankForecast(series, {
-    geometry: tank.geometry, usableL: latest?.usableL ?? 0, levelMm: latest?.levelMm ?? 0, now, timeZone, windowDays: WINDOW_DAYS,
+    geometry: tank.geometry, usableL: usableNowL, levelMm: latest?.levelMm ?? 0, now, timeZone, windowDays: WINDOW_DAYS,
     quietHours: QUIET_HOURS, leakThresholdLPerHour: Math.max(1, tank.lowStockL / 100),
   });
   if (latest) await latest.update({ useLPerDay: f.meanLPerDay, useSdLPerDay: f.sdLPerDay, forecastAt: new Date(now) });

@@ -11,6 +11,34 @@ export interface CalibrationTable {
   rows: { level: number; volume: number }[];
 }
 
+/** A suspected leak: a fall during quiet hours (times ISO, loss in L, rate in L/h). */
+export interface TankLeakWindow {
+  from: string;
+  to: string;
+  lossL: number;
+  rateLPerHour: number;
+}
+
+/** A tank's forecast as GET /api/tanks/:id/forecast returns it (litres, L/day, days, ISO times). */
+export interface TankForecast {
+  tankId: number;
+  /** Usable volume now (L); null before the first reading. */
+  usableL: number | null;
+  /** Local days the forecast looks back over. */
+  windowDays: number;
+  meanLPerDay: number;
+  /** Sample standard deviation of daily use (L/day). */
+  sdLPerDay: number;
+  /** Whole days of readings behind the rate. */
+  days: number;
+  /** Days the usable volume lasts at the mean rate; null when no use was seen. */
+  daysOfCover: number | null;
+  projectedEmptyAt: string | null;
+  /** Half-width of the reading noise band (L). */
+  noiseL: number;
+  leaks: TankLeakWindow[];
+}
+
 /** Tanks the user may see, in walking order; one farm's when farmId is given. */
 export function fetchTanks(options: { farmId?: number; includeArchived?: boolean } = {}): Promise<Tank[]> {
   return http.get<Tank[]>('/api/tanks', { query: { farmId: options.farmId, includeArchived: options.includeArchived ? 'true' : undefined } });
@@ -34,6 +62,11 @@ export function updateTank(tankId: number, input: TankUpdateInput): Promise<Tank
 /** The tank's contents history, newest first. */
 export function fetchContentsHistory(tankId: number): Promise<TankContentsPeriod[]> {
   return http.get<TankContentsPeriod[]>(`/api/tanks/${tankId}/contents`);
+}
+
+/** The tank's use rate, days of cover, projected empty date and suspected leaks, computed now. */
+export function fetchForecast(tankId: number): Promise<TankForecast> {
+  return http.get<TankForecast>(`/api/tanks/${tankId}/forecast`);
 }
 
 /** The calibration table at `step` (mm for metric, inches for US). */

@@ -2,6 +2,7 @@ import { computed, ref, shallowRef, watch } from 'vue';
 import { defineStore } from 'pinia';
 import type { Tank, TankContentsPeriod, TankCreateInput, TankTile, TankUpdateInput } from '@shared/schemas';
 import * as tanksApi from '@/api/tanks';
+import type { TankForecast } from '@/api/tanks';
 import * as boardApi from '@/api/board';
 import { errorMessage } from '@/api/http';
 import type { LoadStatus } from './farms';
@@ -22,6 +23,10 @@ export const useTanksStore = defineStore('tanks', () => {
   /** The latest reading of each tank (board tiles by tank id). */
   const latest = shallowRef<Record<number, TankTile>>({});
   const latestStatus = ref<LoadStatus>('idle');
+  /** Each tank's forecast (use rate, days of cover, suspected leaks) as last fetched, by tank id. */
+  const forecasts = shallowRef<Record<number, TankForecast>>({});
+  const forecastStatus = ref<Record<number, LoadStatus>>({});
+  const forecastError = ref<Record<number, string | null>>({});
 
   const byId = computed(() => new Map(tanks.value.map((t) => [t.id, t])));
 
@@ -67,6 +72,20 @@ export const useTanksStore = defineStore('tanks', () => {
     } catch {
       // The cards still show every tank without its level; the board page reports the failure.
       latestStatus.value = 'error';
+    }
+  }
+
+  /** Fetches a tank's forecast; a forecast already shown stays on screen while the new one loads. */
+  async function loadForecast(tankId: number): Promise<void> {
+    forecastStatus.value = { ...forecastStatus.value, [tankId]: 'loading' };
+    forecastError.value = { ...forecastError.value, [tankId]: null };
+    try {
+      const forecast = await tanksApi.fetchForecast(tankId);
+      forecasts.value = { ...forecasts.value, [tankId]: forecast };
+      forecastStatus.value = { ...forecastStatus.value, [tankId]: 'ready' };
+    } catch (e) {
+      forecastError.value = { ...forecastError.value, [tankId]: errorMessage(e) };
+      forecastStatus.value = { ...forecastStatus.value, [tankId]: 'error' };
     }
   }
 
@@ -125,6 +144,9 @@ export const useTanksStore = defineStore('tanks', () => {
     contents.value = {};
     latest.value = {};
     latestStatus.value = 'idle';
+    forecasts.value = {};
+    forecastStatus.value = {};
+    forecastError.value = {};
   }
 
   // Tanks cached for one person must not show to the next one on this device.
@@ -142,12 +164,16 @@ export const useTanksStore = defineStore('tanks', () => {
     contents,
     latest,
     latestStatus,
+    forecasts,
+    forecastStatus,
+    forecastError,
     byId,
     tanksOf,
     statusOf,
     loadFarm,
     loadTank,
     loadLatest,
+    loadForecast,
     nextWalkOrder,
     create,
     update,

@@ -65,6 +65,29 @@ describe('FarmView', () => {
     expect(wrapper.find('[data-testid="farm-add-tank"]').exists()).toBe(true);
   });
 
+  it('shows each read tank’s days of cover, amber when under three days are left', async () => {
+    as('manager');
+    const water = makeTank(1, { walkOrder: 1 });
+    const tote = makeTank(2, { walkOrder: 2, contents: 'fertilizer' });
+    const idle = makeTank(3, { walkOrder: 3 });
+    tanks.fetchTanks.mockResolvedValue([water, tote, idle]);
+    board.fetchBoard.mockResolvedValue(
+      boardOf([
+        { ...makeTile(water, 1_200), useLPerDay: 95, daysOfCover: 12.6 },
+        { ...makeTile(tote, 90), useLPerDay: 40, daysOfCover: 2.25 },
+        { ...makeTile(idle, 800), useLPerDay: 0, daysOfCover: null },
+      ]),
+    );
+    const { wrapper } = await mountWithApp(FarmView, { pinia, path: '/farms/11' });
+
+    expect(wrapper.get('[data-testid="tank-cover-1"]').text()).toMatch(/≈ 13 days left\s*at 95 L\/day/);
+    expect(wrapper.get('[data-testid="tank-cover-1"]').classes()).not.toContain('cover--short');
+    // Two days and more are shown in whole days: 2.25 → 2.
+    expect(wrapper.get('[data-testid="tank-cover-2"]').text()).toContain('≈ 2 days left');
+    expect(wrapper.get('[data-testid="tank-cover-2"]').classes()).toContain('cover--short');
+    expect(wrapper.get('[data-testid="tank-cover-3"]').text()).toBe('No use seen');
+  });
+
   it('offers no adding or reordering to a worker', async () => {
     as('worker');
     tanks.fetchTanks.mockResolvedValue([makeTank(1), makeTank(2)]);

@@ -68,10 +68,48 @@ describe('BoardTankTile', () => {
     expect(link.get('svg').attributes('aria-label')).toMatch(/low$/);
   });
 
+  it('shows days of cover and the use per day when use was seen', async () => {
+    const tile = makeTile({ tankId: 10, code: 'CS-W2', grossL: 6_000, usableL: 5_400, percentFull: 60, takenAt: '2026-03-02T09:00:00.000Z', useLPerDay: 600, daysOfCover: 9 });
+    const { wrapper } = await mountWithApp(BoardTankTile, { pinia, path: '/', props: { tile, unitSystem: 'metric', now: NOW } });
+
+    const cover = wrapper.get('[data-testid="board-cover-CS-W2"]');
+    expect(cover.text()).toContain('≈ 9 days left');
+    expect(cover.text()).toContain('at 600 L/day');
+    expect(cover.classes()).not.toContain('cover--short');
+  });
+
+  it('shows the use per day in US gallons for a US-units user', async () => {
+    // 600 L ÷ 3.785411784 L/gal (NIST Handbook 44, Appendix C) = 158.5 gal.
+    const tile = makeTile({ tankId: 10, code: 'CS-W2', grossL: 6_000, usableL: 5_400, percentFull: 60, takenAt: '2026-03-02T09:00:00.000Z', useLPerDay: 600, daysOfCover: 9 });
+    const { wrapper } = await mountWithApp(BoardTankTile, { pinia, path: '/', props: { tile, unitSystem: 'us', now: NOW } });
+
+    expect(wrapper.get('[data-testid="board-cover-CS-W2"]').text()).toContain('159 gal/day');
+  });
+
+  it('turns the days of cover amber with one decimal when under three days are left', async () => {
+    const tile = makeTile({ tankId: 11, code: 'CS-F2', contents: 'fertilizer', grossL: 120, usableL: 84, percentFull: 40, takenAt: '2026-03-02T09:00:00.000Z', useLPerDay: 60, daysOfCover: 1.4 });
+    const { wrapper } = await mountWithApp(BoardTankTile, { pinia, path: '/', props: { tile, unitSystem: 'metric', now: NOW } });
+
+    const cover = wrapper.get('[data-testid="board-cover-CS-F2"]');
+    expect(cover.classes()).toContain('cover--short');
+    expect(cover.text()).toContain('≈ 1.4 days left');
+    expect(cover.text()).toContain('60 L/day');
+  });
+
+  it('says no use was seen when the board has no days of cover', async () => {
+    const tile = makeTile({ tankId: 12, code: 'CS-W3', grossL: 6_000, usableL: 5_400, percentFull: 60, takenAt: '2026-03-02T09:00:00.000Z', useLPerDay: 0, daysOfCover: null });
+    const { wrapper } = await mountWithApp(BoardTankTile, { pinia, path: '/', props: { tile, unitSystem: 'metric', now: NOW } });
+
+    const cover = wrapper.get('[data-testid="board-cover-CS-W3"]');
+    expect(cover.text()).toBe('No use seen');
+    expect(cover.classes()).not.toContain('cover--short');
+  });
+
   it('says when a tank has no reading yet', async () => {
     const { wrapper } = await mountWithApp(BoardTankTile, { pinia, path: '/', props: { tile: makeTile({ tankId: 9, code: 'CS-W9' }), unitSystem: 'metric', now: NOW } });
 
     expect(wrapper.get('[data-testid="board-tile-CS-W9"]').text()).toContain('No reading yet');
+    expect(wrapper.find('[data-testid="board-cover-CS-W9"]').exists()).toBe(false);
     expect(wrapper.get('svg').attributes('aria-label')).toMatch(/^No reading/);
   });
 });

@@ -8,12 +8,11 @@ const env = useTestApp();
 const L_PER_MM = Math.PI / 4;
 
 describe('tank forecasts', () => {
-  it('gives the use rate and days of cover of a steady draw, on the tank and on the board', async () => {
+  it('gives the use rate and days of cover of a steady draw, counted from the latest reading, on the tank and on the board', async () => {
     const org = await makeOrganisation(env);
     const tank = await makeTank(env, org, org.farmIds[0], { code: 'F1' });
-    // Daily readings at 06:00 UTC falling 40 mm (31.4 L) a day for 18 days, ending today.
-    const today = new Date();
-    today.setUTCHours(6, 0, 0, 0);
+    // Daily readings falling 40 mm (31.4 L) a day for 18 days, the last an hour ago.
+    const today = new Date(Date.now() - 3_600_000);
     const rows: NewReading[] = Array.from({ length: 18 }, (_, i) => {
       const levelMm = 1380 - 40 * i;
       return {
@@ -26,10 +25,12 @@ describe('tank forecasts', () => {
     const f = (await manager.get(`/api/tanks/${tank.id}/forecast`).expect(200)).body;
     // 40 mm a day of a 1 m cylinder = 40 · π/4 = 31.416 L/day (hand derivation); usable now (700 − 100) mm.
     expect(f.meanLPerDay).toBeCloseTo(40 * L_PER_MM, 3);
-    expect(f.daysOfCover).toBeCloseTo(600 / 40, 2);
+    // Cover counts from the last reading: what has been drawn since then is already gone.
+    const sinceDays = (Date.now() - today.getTime()) / 86_400_000;
+    expect(f.daysOfCover).toBeCloseTo(600 / 40 - sinceDays, 2);
     expect(f.leaks).toEqual([]);
     const board = (await manager.get('/api/board').expect(200)).body;
     const tile = board.farms[0].tanks.find((t: { tankId: number }) => t.tankId === tank.id);
-    expect(tile.daysOfCover).toBeCloseTo(15, 2);
+    expect(tile.daysOfCover).toBeCloseTo(15 - (Date.now() - today.getTime()) / 86_400_000, 2);
   });
 });
