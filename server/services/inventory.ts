@@ -268,11 +268,15 @@ export async function createOrder(ctx: AppContext, actor: SessionUser, body: Ord
 
 /** Drafts one order per supplier and farm from every due input (or the chosen ones), at the suggested quantities. */
 export async function ordersFromSuggestions(ctx: AppContext, actor: SessionUser, q: { farmId?: number; inputIds?: number[] }): Promise<OrderDto[]> {
+  // Due inputs already on a draft are left out, so pressing the button twice drafts nothing twice.
+  const drafts = await ctx.db.models.PurchaseOrder.findAll({ where: { organisationId: actor.organisationId, status: 'draft' }, attributes: ['id'] });
+  const drafted = new Set(drafts.length ? (await ctx.db.models.PurchaseOrderLine.findAll({ where: { orderId: drafts.map((d) => d.id) }, attributes: ['inputId'] })).map((l) => l.inputId) : []);
   // Inputs picked by hand are ordered even when not due yet (at least one pack); otherwise every due one.
   const statuses = (await listInputs(ctx, actor, { farmId: q.farmId }))
+    .filter((i) => q.inputIds !== undefined || !drafted.has(i.id))
     .filter((i) => (q.inputIds ? q.inputIds.includes(i.id) : i.due && i.suggestedQuantity > 0) && i.supplierId)
     .map((i) => ({ ...i, suggestedQuantity: i.suggestedQuantity > 0 ? i.suggestedQuantity : Math.max(i.packSize, i.minimumOrder) }));
-  if (!statuses.length) throw new AppError(409, 'nothing_due', 'No input with a supplier needs ordering right now');
+  if (!statuses.length) throw new AppError(409, 'nothing_due', 'No input with a supplier needs ordering right now (inputs already on a draft order are left out)');
   const groups = new Map<string, typeof statuses>();
   for (const s of statuses) groups.set(`${s.supplierId}|${s.farmId}`, [...(groups.get(`${s.supplierId}|${s.farmId}`) ?? []), s]);
   const out: OrderDto[] = [];

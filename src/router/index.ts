@@ -37,6 +37,10 @@ export const routes: RouteRecordRaw[] = [
   { path: '/farms', name: 'farms', component: () => import('@/views/FarmsView.vue'), meta: { title: 'Farms' } },
   { path: '/farms/:farmId(\\d+)', name: 'farm', component: () => import('@/views/FarmView.vue'), meta: { title: 'Farm' } },
   { path: '/tanks/:id(\\d+)', name: 'tank', component: () => import('@/views/TankView.vue'), meta: { title: 'Tank' } },
+  { path: '/inputs', name: 'inputs', component: () => import('@/views/InputsView.vue'), meta: { title: 'Inputs', roles: ['owner', 'manager', 'buyer', 'worker'] } },
+  { path: '/orders', name: 'orders', component: () => import('@/views/OrdersView.vue'), meta: { title: 'Orders', roles: ['owner', 'manager', 'buyer'] } },
+  { path: '/suppliers', name: 'suppliers', component: () => import('@/views/SuppliersView.vue'), meta: { title: 'Suppliers', roles: ['owner', 'manager', 'buyer'] } },
+  { path: '/flags', name: 'flags', component: () => import('@/views/FlagsView.vue'), meta: { title: 'Flags' } },
   { path: '/people', name: 'people', component: () => import('@/views/PeopleView.vue'), meta: { title: 'People', roles: ['owner'] } },
   // Public so a signed-out developer can read a reset mail; the server answers 404 where the outbox is off.
   { path: '/outbox', name: 'outbox', component: () => import('@/views/OutboxView.vue'), meta: { title: 'Mail outbox', public: true } },

@@ -40,10 +40,10 @@ async function mountAs(role: Role) {
 
 describe('TheNavBar', () => {
   it.each([
-    ['owner', ['home', 'round', 'imports', 'farms', 'people', 'outbox', 'profile']],
-    ['manager', ['home', 'round', 'imports', 'farms', 'profile']],
-    ['worker', ['home', 'round', 'imports', 'farms', 'profile']],
-    ['buyer', ['home', 'farms', 'profile']],
+    ['owner', ['home', 'round', 'imports', 'farms', 'inputs', 'orders', 'suppliers', 'flags', 'people', 'outbox', 'profile']],
+    ['manager', ['home', 'round', 'imports', 'farms', 'inputs', 'orders', 'suppliers', 'flags', 'profile']],
+    ['worker', ['home', 'round', 'imports', 'farms', 'inputs', 'flags', 'profile']],
+    ['buyer', ['home', 'farms', 'inputs', 'orders', 'suppliers', 'flags', 'profile']],
   ] as const)('shows a %s the links %j', async (role, expected) => {
     const { wrapper } = await mountAs(role);
 

@@ -70,6 +70,8 @@ describe('purchase orders', () => {
     const line = order.lines[0];
     expect(line.inputId).toBe(input.id);
 
+    // A second press drafts nothing twice.
+    await call(buyer, 'post', '/api/orders/from-suggestions', {}).expect(409);
     const sent = await call(buyer, 'post', `/api/orders/${order.id}/send`).expect(200);
     expect(sent.body.status).toBe('sent');
     const mail = await waitForMail(env.config.outboxDir, supplier.email);

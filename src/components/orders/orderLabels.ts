@@ -1,0 +1,56 @@
+import type { OrderStatus, PurchaseOrder } from '@shared/schemas';
+import type { TagSeverity } from '@/components/inputs/inputsFormat';
+
+/** Our words for the order states, with the tag colour each one gets. */
+export const ORDER_STATUS_LABELS: Record<OrderStatus, { label: string; severity: TagSeverity }> = {
+  draft: { label: 'Draft', severity: 'secondary' },
+  sent: { label: 'Sent', severity: 'info' },
+  'part-received': { label: 'Part received', severity: 'warn' },
+  received: { label: 'Received', severity: 'success' },
+  cancelled: { label: 'Cancelled', severity: 'contrast' },
+};
+
+/** What is still to come on a line of a sent order (units of the input). */
+export function openQuantity(line: PurchaseOrder['lines'][number]): number {
+  return Math.max(0, line.quantity - line.receivedQuantity);
+}
+
+/** Whether a delivery can still be booked in against this order. */
+export function canReceive(order: Pick<PurchaseOrder, 'status'>): boolean {
+  return order.status === 'sent' || order.status === 'part-received';
+}
+
+/** Whether the order may still be cancelled. */
+export function canCancel(order: Pick<PurchaseOrder, 'status'>): boolean {
+  return order.status === 'draft' || order.status === 'sent';
+}
+
+/**
+ * Field names for useFormErrors that put a zod or server error such as "lines.3.quantity" under
+ * its own line; the whole-list field comes last so it only catches what names no line.
+ */
+export function lineFieldNames(count: number, parts: readonly string[], rest: readonly string[] = []): string[] {
+  const names: string[] = [];
+  for (let i = 0; i < count; i++) for (const part of parts) names.push(`lines.${i}.${part}`);
+  return [...names, ...rest, 'lines'];
+}
+
+/** One order line being edited; `key` keeps Vue's rows stable while lines come and go. */
+export interface EditLine {
+  key: number;
+  inputId: number | null;
+  quantity: number | null;
+  unitPrice: number | null;
+}
+
+let lineKey = 0;
+/** A fresh key for an EditLine. */
+export function nextLineKey(): number {
+  lineKey += 1;
+  return lineKey;
+}
+
+/** The body lines of an order form (empty unit price: the input's own). */
+export function linesForBody(lines: readonly EditLine[]): { inputId: number | undefined; quantity: number | null; unitPrice: number | undefined }[] {
+  return lines.map((l) => ({ inputId: l.inputId ?? undefined, quantity: l.quantity, unitPrice: l.unitPrice ?? undefined }));
+}

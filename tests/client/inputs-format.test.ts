@@ -1,0 +1,68 @@
+import { describe, expect, it } from 'vitest';
+import { adviceSentences, formatCover, formatDays, formatPacks, movementEffect, orderTag } from '@/components/inputs/inputsFormat';
+import { makeInput, makeMovement } from './support/inventoryFixtures';
+
+// Phrasing only: every figure is the server's (shared/inventory), so the cases check words and rounding.
+describe('orderTag', () => {
+  it.each([
+    ['due with stock left', { due: true, onHand: 12, orderBy: '2026-03-02T09:00:00.000Z' }, 'Order now', 'warn'],
+    ['due and empty', { due: true, onHand: 0, orderBy: '2026-03-02T09:00:00.000Z' }, 'Out of stock · order now', 'danger'],
+    ['no use recorded', { due: false, onHand: 40, orderBy: null }, 'No use recorded', 'secondary'],
+  ] as const)('says %s', (_case, input, label, severity) => {
+    expect(orderTag(input)).toEqual({ label, severity });
+  });
+
+  it('gives the order-by day of an input not due yet, with the year when it is another year', () => {
+    const tag = orderTag({ due: false, onHand: 40, orderBy: '2027-01-15T12:00:00.000Z' }, new Date('2026-12-01T12:00:00.000Z'));
+    expect(tag.severity).toBe('info');
+    expect(tag.label).toMatch(/^Order by .*15.*2027$/);
+  });
+});
+
+describe('formatDays and formatCover', () => {
+  it.each([
+    [0.4, 'less than a day'],
+    [1, '1 day'],
+    [9.06, '9.1 days'],
+    [104.3, '104 days'],
+  ])('prints %f days as "%s"', (days, text) => {
+    expect(formatDays(days)).toBe(text);
+  });
+
+  it('says when nothing is used or nothing is left', () => {
+    expect(formatCover({ daysOfCover: null })).toBe('No use recorded');
+    expect(formatCover({ daysOfCover: 0 })).toBe('None left');
+  });
+});
+
+describe('adviceSentences', () => {
+  it('explains a zero suggestion instead of suggesting 0 L', () => {
+    const words = adviceSentences(makeInput(1, { dailyDemand: 0, dailyDemandSd: 0, daysOfCover: null, reorderPoint: 0, safetyStock: 0, eoq: 0, suggestedQuantity: 0, due: false, orderBy: null }));
+    expect(words.order).toBe('Nothing to order: no use is recorded and stock is above the reorder point.');
+    expect(words.orderWhy).toBeNull();
+    expect(words.reorderPoint).toBe('Reorder point 0 L: with no use recorded, nothing is expected to be used in the 6 days of lead time.');
+  });
+
+  it('names what is on order and the minimum order when there are any', () => {
+    const words = adviceSentences(makeInput(1, { onOrder: 40, minimumOrder: 100 }));
+    expect(words.onOrder).toBe('40 L is on order already and counts toward the reorder point.');
+    expect(words.orderWhy).toContain('rounded up to whole packs and to at least the minimum order of 100 L.');
+  });
+
+  it('says how many packs the suggestion is', () => {
+    expect(formatPacks(340, 20, 'L')).toBe('17 packs of 20 L');
+    expect(formatPacks(5, 5, 'kg')).toBe('1 pack of 5 kg');
+  });
+});
+
+describe('movementEffect', () => {
+  it.each([
+    ['use', { kind: 'use' as const, quantity: 4.25 }, '−4.25 L'],
+    ['receipt', { kind: 'receipt' as const, quantity: 240 }, '+240 L'],
+    ['adjustment down', { kind: 'adjustment' as const, quantity: -3 }, '−3 L'],
+    ['count above the records', { kind: 'count' as const, quantity: 50, difference: 2 }, 'Counted 50 L, 2 L more than the records'],
+    ['count as recorded', { kind: 'count' as const, quantity: 50, difference: 0 }, 'Counted 50 L, as the records said'],
+  ])('words a %s', (_case, movement, text) => {
+    expect(movementEffect(makeMovement(1, 1, movement), 'L')).toBe(text);
+  });
+});
