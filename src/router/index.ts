@@ -40,6 +40,7 @@ export const routes: RouteRecordRaw[] = [
   { path: '/inputs', name: 'inputs', component: () => import('@/views/InputsView.vue'), meta: { title: 'Inputs', roles: ['owner', 'manager', 'buyer', 'worker'] } },
   { path: '/orders', name: 'orders', component: () => import('@/views/OrdersView.vue'), meta: { title: 'Orders', roles: ['owner', 'manager', 'buyer'] } },
   { path: '/suppliers', name: 'suppliers', component: () => import('@/views/SuppliersView.vue'), meta: { title: 'Suppliers', roles: ['owner', 'manager', 'buyer'] } },
+  { path: '/brews', name: 'brews', component: () => import('@/views/BrewsView.vue'), meta: { title: 'Brews', roles: ['owner', 'manager', 'worker'] } },
   { path: '/flags', name: 'flags', component: () => import('@/views/FlagsView.vue'), meta: { title: 'Flags' } },
   { path: '/people', name: 'people', component: () => import('@/views/PeopleView.vue'), meta: { title: 'People', roles: ['owner'] } },
   // Public so a signed-out developer can read a reset mail; the server answers 404 where the outbox is off.

@@ -25,6 +25,7 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { name: 'inputs', to: '/inputs', label: 'Inputs', icon: 'pi pi-box', roles: EVERYONE, description: 'Purchased inputs: stock, days of cover and when to reorder.' },
   { name: 'orders', to: '/orders', label: 'Orders', icon: 'pi pi-shopping-cart', roles: ['owner', 'manager', 'buyer'], description: 'Purchase orders: draft, send to suppliers, book deliveries in.' },
   { name: 'suppliers', to: '/suppliers', label: 'Suppliers', icon: 'pi pi-truck', roles: ['owner', 'manager', 'buyer'], description: 'Who you buy from, their contacts and lead times.' },
+  { name: 'brews', to: '/brews', label: 'Brews', icon: 'pi pi-filter', roles: ['owner', 'manager', 'worker'], description: 'Log batches of culture, fertilizer and pest solution, with the mixing calculator.' },
   { name: 'flags', to: '/flags', label: 'Flags', icon: 'pi pi-flag', roles: EVERYONE, description: 'Everything that needs a person: low stock, leaks, cold cultures, frost and more.' },
   { name: 'people', to: '/people', label: 'People', icon: 'pi pi-users', roles: ['owner'], description: 'Invite people, set roles and farm access.' },
   { name: 'outbox', to: '/outbox', label: 'Outbox (dev)', icon: 'pi pi-envelope', roles: ['owner'], description: 'Mail the development server captured.' },
