@@ -78,6 +78,7 @@ export async function createBrew(ctx: AppContext, actor: SessionUser, body: Brew
     }
     return b;
   });
+  if (body.inputs.length) ctx.events.emit('stock', { organisationId: actor.organisationId, farmIds: [tank.farmId] });
   if (tank.contents !== body.kind || tank.contentsNote !== body.name) await updateTank(ctx, actor, tank.id, { contents: body.kind, contentsNote: body.name.slice(0, 120) });
   return (await toDtos(ctx, [brew]))[0];
 }

@@ -177,9 +177,12 @@ export async function recordMovement(ctx: AppContext, actor: SessionUser, inputI
       { transaction },
     );
   };
-  const row = opts.transaction ? await run(opts.transaction) : await ctx.db.sequelize.transaction(run);
-  ctx.events.emit('stock', { organisationId: actor.organisationId, farmIds: [row.farmId] });
-  const all = await ctx.db.models.StockMovement.findAll({ where: { inputId: row.inputId } });
+  // Inside a caller's transaction (a brew) the row is not committed yet: the caller announces the
+  // change after its commit, and reads are kept inside the transaction.
+  const transaction = opts.transaction;
+  const row = transaction ? await run(transaction) : await ctx.db.sequelize.transaction(run);
+  if (!transaction) ctx.events.emit('stock', { organisationId: actor.organisationId, farmIds: [row.farmId] });
+  const all = await ctx.db.models.StockMovement.findAll({ where: { inputId: row.inputId }, transaction });
   return (await toMovementDtos(ctx, all)).find((m) => m.id === Number(row.id))!;
 }
 
