@@ -8,7 +8,7 @@ import { createReadStream } from 'node:fs';
 import { open, rm, stat } from 'node:fs/promises';
 import { join } from 'node:path';
 import Papa from 'papaparse';
-import { Op, type Transaction, type WhereOptions } from 'sequelize';
+import { Op, UniqueConstraintError, type Transaction, type WhereOptions } from 'sequelize';
 import {
   SNIFF_BYTES,
   createImportReader,
@@ -240,10 +240,18 @@ const clip = (s: string, n: number) => (s.length > n ? `${s.slice(0, n - 1)}…`
  */
 async function runImport(ctx: AppContext, rec: LoggerImport, tank: Tank, farm: Farm, userId: number, from: ImportStatus): Promise<void> {
   const { LoggerImport, LoggerImportRejection, TankImportMapping } = ctx.db.models;
-  const [claimed] = await LoggerImport.update(
-    { status: 'importing', startedAt: new Date(), finishedAt: null, error: null, rowsTotal: 0, rowsNew: 0, rowsDuplicate: 0, rowsRejected: 0 },
-    { where: { id: rec.id, status: from } },
-  );
+  let claimed: number;
+  try {
+    [claimed] = await LoggerImport.update(
+      { status: 'importing', startedAt: new Date(), finishedAt: null, error: null, rowsTotal: 0, rowsNew: 0, rowsDuplicate: 0, rowsRejected: 0 },
+      { where: { id: rec.id, status: from } },
+    );
+  } catch (err) {
+    // The unique live-file index: the same bytes were imported into this tank (or are being) under another record.
+    if (!(err instanceof UniqueConstraintError)) throw err;
+    const live = await liveImportOf(ctx, rec.tankId, rec.sha256);
+    throw new AppError(409, 'already_imported', `This file was imported into this tank since${live ? ` (import ${live.id})` : ''}, so it is not run again`);
+  }
   if (!claimed) throw new AppError(409, 'import_busy', 'This import is being run already');
   await rec.reload();
   await LoggerImportRejection.destroy({ where: { importId: rec.id } });
@@ -341,14 +349,22 @@ async function runImport(ctx: AppContext, rec: LoggerImport, tank: Tank, farm: F
   try {
     await ctx.db.sequelize.transaction(body);
   } catch (err) {
-    await rec.reload();
-    const counts = { delimiter, rowsTotal: reader.counts.rows, rowsNew: 0, rowsDuplicate: 0, rowsRejected: reader.counts.rejected, finishedAt: new Date() };
-    if (err instanceof FileRefused) {
-      await rec.update({ status: 'rejected', error: clip(err.message, 500), ...counts });
-    } else {
-      ctx.logger.error({ err, importId: rec.id }, 'logger import failed');
-      const why = err instanceof Error ? err.message : String(err);
-      await rec.update({ status: 'failed', error: clip(`The import stopped (${why}); nothing from this file was kept. Retry it.`, 500), ...counts });
+    try {
+      await rec.reload();
+      const counts = { delimiter, rowsTotal: reader.counts.rows, rowsNew: 0, rowsDuplicate: 0, rowsRejected: reader.counts.rejected, finishedAt: new Date() };
+      if (err instanceof FileRefused) {
+        await rec.update({ status: 'rejected', error: clip(err.message, 500), ...counts });
+      } else {
+        ctx.logger.error({ err, importId: rec.id }, 'logger import failed');
+        const why = err instanceof Error ? err.message : String(err);
+        await rec.update({ status: 'failed', error: clip(`The import stopped (${why}); nothing from this file was kept. Retry it.`, 500), ...counts });
+      }
+    } catch (bookkeeping) {
+      // The database itself is gone (the file's transaction died with its connection): the record still
+      // says importing, so it is marked failed as soon as the database answers again.
+      ctx.logger.error({ err, bookkeeping, importId: rec.id }, 'logger import cut off: the database stopped answering');
+      markFailedWhenBack(ctx, rec.id, rec.sizeBytes, userId);
+      throw new AppError(503, 'database_down', 'The database stopped answering while this file was being imported; nothing from it was kept. It will be marked failed once the database is back, and can then be retried.');
     }
   }
   push(rec.status, true);
@@ -375,10 +391,23 @@ export async function importUploads(ctx: AppContext, actor: SessionUser, input: 
     for (const f of files) {
       const sha256 = await sha256Of(f.path);
       const base = { organisationId: tank.organisationId, farmId: tank.farmId, tankId: tank.id, uploadedById: actor.id, originalName: labelOf(f.originalName), sizeBytes: f.sizeBytes, sha256, mapping: input.mapping, policy: input.policy };
-      const earlier = await LoggerImport.findOne({ where: { tankId: tank.id, sha256, status: 'imported' }, order: [['id', 'ASC']] });
+      // The look-up finds an earlier live import of the same bytes; two uploads at the same moment may both
+      // miss it, and then the unique live-file index lets only one insert through and the other sees it.
+      let earlier: LoggerImport | null = null;
+      let rec: LoggerImport | null = null;
+      for (let attempt = 0; attempt < 3 && !earlier && !rec; attempt++) {
+        earlier = await liveImportOf(ctx, tank.id, sha256);
+        if (earlier) break;
+        try {
+          rec = await LoggerImport.create({ ...base, storedName: f.storedName, status: 'queued', delimiter: null, error: null, duplicateOfId: null, startedAt: null, finishedAt: null });
+        } catch (err) {
+          if (!(err instanceof UniqueConstraintError)) throw err;
+        }
+      }
       if (earlier) {
+        const running = earlier.status !== 'imported';
         // The same bytes are on disk already under the earlier import; keep one copy.
-        const rec = await LoggerImport.create({
+        const dup = await LoggerImport.create({
           ...base,
           storedName: earlier.storedName,
           status: 'duplicate',
@@ -387,18 +416,20 @@ export async function importUploads(ctx: AppContext, actor: SessionUser, input: 
           rowsNew: 0,
           rowsDuplicate: earlier.rowsNew + earlier.rowsDuplicate,
           rowsRejected: earlier.rowsRejected,
-          error: `This file was imported into this tank already (import ${earlier.id}, ${earlier.createdAt.toISOString().slice(0, 10)}); nothing was added`,
+          error: running
+            ? `This file is being imported into this tank by another upload right now (import ${earlier.id}); nothing was added from this one`
+            : `This file was imported into this tank already (import ${earlier.id}, ${earlier.createdAt.toISOString().slice(0, 10)}); nothing was added`,
           duplicateOfId: earlier.id,
           startedAt: null,
           finishedAt: new Date(),
         });
         await rm(f.path, { force: true });
         pending.delete(f);
-        ctx.events.emit('user-event', { userId: actor.id, event: 'import:progress', payload: { importId: rec.id, rowsRead: 0, bytesRead: rec.sizeBytes, totalBytes: rec.sizeBytes, status: 'duplicate' } satisfies ImportProgress });
-        done.push(rec);
+        ctx.events.emit('user-event', { userId: actor.id, event: 'import:progress', payload: { importId: dup.id, rowsRead: 0, bytesRead: dup.sizeBytes, totalBytes: dup.sizeBytes, status: 'duplicate' } satisfies ImportProgress });
+        done.push(dup);
         continue;
       }
-      const rec = await LoggerImport.create({ ...base, storedName: f.storedName, status: 'queued', delimiter: null, error: null, duplicateOfId: null, startedAt: null, finishedAt: null });
+      if (!rec) throw new AppError(409, 'import_busy', `files: "${labelOf(f.originalName)}" is being uploaded by someone else at this moment; try again shortly`, 'files');
       pending.delete(f);
       await runImport(ctx, rec, tank, farm, actor.id, 'queued');
       done.push(rec);
@@ -479,13 +510,47 @@ export async function savedMapping(ctx: AppContext, actor: SessionUser, tankId: 
   return { tankId: tank.id, mapping: saved.mapping, policy: saved.policy, savedAt: saved.savedAt.toISOString(), savedBy: user?.name ?? '' };
 }
 
+/** The live (queued, importing or imported) import of these bytes into this tank, if any. */
+function liveImportOf(ctx: AppContext, tankId: number, sha256: string): Promise<LoggerImport | null> {
+  return ctx.db.models.LoggerImport.findOne({ where: { tankId, sha256, status: ['queued', 'importing', 'imported'] }, order: [['id', 'ASC']] });
+}
+
+const INTERRUPTED = 'The server stopped while this file was being imported; nothing from it was kept. Retry it.';
+const DATABASE_LOST = 'The database stopped answering while this file was being imported; nothing from it was kept. Retry it.';
+/** How long a cut-off import is retried for being marked failed; after that the next start-up marks it. */
+const MARK_FAILED_FOR_MS = 15 * 60_000;
+
+/**
+ * Marks an import failed once the database answers again, trying every few seconds (the timers do not
+ * keep the process alive), and tells its uploader. For an import cut off because the database went away.
+ */
+function markFailedWhenBack(ctx: AppContext, id: number, sizeBytes: number, userId: number): void {
+  const until = Date.now() + MARK_FAILED_FOR_MS;
+  let delay = 250;
+  const attempt = () => {
+    ctx.db.models.LoggerImport.update({ status: 'failed', error: DATABASE_LOST, rowsNew: 0, rowsDuplicate: 0, finishedAt: new Date() }, { where: { id, status: ['queued', 'importing'] } }).then(
+      ([marked]) => {
+        if (!marked) return;
+        ctx.logger.warn({ importId: id }, 'logger import cut off by the database marked failed');
+        ctx.events.emit('user-event', { userId, event: 'import:progress', payload: { importId: id, rowsRead: 0, bytesRead: 0, totalBytes: sizeBytes, status: 'failed' } satisfies ImportProgress });
+      },
+      () => {
+        if (Date.now() > until) return;
+        delay = Math.min(delay * 2, 2_000);
+        setTimeout(attempt, delay).unref();
+      },
+    );
+  };
+  setTimeout(attempt, delay).unref();
+}
+
 /**
  * Marks imports left 'queued' or 'importing' by a stopped server as failed (their transaction was rolled
  * back with the connection), so they can be retried. Call once at start-up; returns how many were marked.
  */
 export async function recoverInterruptedImports(ctx: AppContext): Promise<number> {
   const [count] = await ctx.db.models.LoggerImport.update(
-    { status: 'failed', error: 'The server stopped while this file was being imported; nothing from it was kept. Retry it.', finishedAt: new Date() },
+    { status: 'failed', error: INTERRUPTED, finishedAt: new Date() },
     { where: { status: ['queued', 'importing'] } },
   );
   return count;
