@@ -3,6 +3,7 @@
 import { Sequelize, type QueryInterface } from 'sequelize';
 import { Umzug, SequelizeStorage } from 'umzug';
 import type { Config } from './config';
+import { localInfileStream } from './local-infile';
 import { initModels, type Models } from './models';
 import * as m0001 from './migrations/0001-foundation';
 import * as m0002 from './migrations/0002-tanks';
@@ -41,7 +42,8 @@ export function createDatabase(config: Pick<Config, 'db'>, opts: { logging?: fal
     dialect: 'mariadb',
     logging: opts.logging ?? false,
     pool: { max: config.db.poolMax, min: 0, acquire: 20_000, idle: 10_000 },
-    dialectOptions: { connectTimeout: 5_000 },
+    // LOAD DATA LOCAL INFILE streams logger rows from memory only (server/local-infile.ts), never a file by path.
+    dialectOptions: { connectTimeout: 5_000, permitLocalInfile: true, infileStreamFactory: localInfileStream },
     timezone: '+00:00',
   });
   return { sequelize, models: initModels(sequelize) };

@@ -1,6 +1,6 @@
 // Logger file imports: each uploaded file is checked by content, hashed, and then read again from
-// disk as a stream, record by record, through the shared row reader. Good rows go in batches through
-// the one insert path (insertReadings) inside ONE transaction per file, so a file is all-or-nothing
+// disk as a stream, record by record, through the shared row reader. Good rows stream in chunks through
+// the bulk insert path (readingLoader) inside ONE transaction per file, so a file is all-or-nothing
 // and memory stays bounded however long it is. Refused rows are stored apart (outside that
 // transaction) so they survive a rolled-back file and can be downloaded.
 import { createHash, randomUUID } from 'node:crypto';
@@ -27,10 +27,10 @@ import type { AppContext } from '../context';
 import { AppError, forbidden, notFound } from '../errors';
 import { assertFarmAccess } from '../middleware/access';
 import type { Farm, LoggerImport, Tank } from '../models';
-import { insertReadings, tankSetup, type NewReading } from './readings';
+import { readingLoader, tankSetup } from './readings';
 import { tankFor } from './tanks';
 
-/** Rows per INSERT: large enough that a million-row file is a few hundred statements, small enough for one packet. */
+/** Records per parsed batch: the file is paused while a batch is checked, converted and queued for loading. */
 export const READING_BATCH_ROWS = 2_500;
 const REJECTION_BATCH_ROWS = 2_000;
 /** At most this often a progress event goes to the uploader (plus one at the start and one at the end). */
@@ -274,31 +274,13 @@ async function runImport(ctx: AppContext, rec: LoggerImport, tank: Tank, farm: F
   const { delimiter, newline } = layout;
   let rowsNew = 0;
   let rowsGood = 0;
-  const zones = new Map([[farm.id, farm.timeZone]]);
-  const toReading = (r: { takenAtMs: number; levelMm: number; grossL: number; usableL: number; temperatureC: number | null }): NewReading => ({
-    organisationId: tank.organisationId,
-    farmId: tank.farmId,
-    tankId: tank.id,
-    takenAt: new Date(r.takenAtMs),
-    source: 'logger',
-    levelMm: r.levelMm,
-    grossL: r.grossL,
-    usableL: r.usableL,
-    temperatureC: r.temperatureC,
-    calibrationVersion: tank.calibrationVersion,
-    enteredById: null,
-    importId: rec.id,
-    note: '',
-    idempotencyKey: null,
-  });
+  const timings: Record<string, number> = {};
+  const started = performance.now();
 
   const body = async (transaction: Transaction) => {
-    let batch: NewReading[] = [];
+    // Good rows stream into the readings table in chunks while the file is still being read.
+    const loader = readingLoader(ctx, { organisationId: tank.organisationId, farmId: tank.farmId, tankId: tank.id, calibrationVersion: tank.calibrationVersion, importId: rec.id }, farm.timeZone, transaction);
     let problems: ImportProblem[] = [];
-    const flushReadings = async () => {
-      if (batch.length) rowsNew += await insertReadings(ctx, batch, zones, transaction);
-      batch = [];
-    };
     // Outside the file's transaction: the list of refused rows must outlive a rolled-back file.
     const flushProblems = async () => {
       if (problems.length) {
@@ -318,12 +300,11 @@ async function runImport(ctx: AppContext, rec: LoggerImport, tank: Tank, farm: F
           rowsGood++;
           // Under reject-file the first bad row dooms the file: stop inserting, keep reading to report every bad row.
           if (rec.policy === 'valid-rows' || reader.counts.rejected === 0) {
-            batch.push(toReading(r.reading));
-            if (batch.length >= READING_BATCH_ROWS) await flushReadings();
+            const wait = loader.add(r.reading);
+            if (wait) await wait;
           }
         } else if (r.kind === 'rejected') {
           problems.push(...r.problems);
-          if (rec.policy === 'reject-file') batch = [];
           if (problems.length >= REJECTION_BATCH_ROWS) await flushProblems();
         } else if (r.kind === 'fatal') {
           fatal = r.reason;
@@ -341,13 +322,18 @@ async function runImport(ctx: AppContext, rec: LoggerImport, tank: Tank, farm: F
     if (rejected > 0 && rec.policy === 'reject-file') {
       throw new FileRefused(`${rejected.toLocaleString('en-US')} of ${rows.toLocaleString('en-US')} rows have problems, so nothing from this file was imported (policy: reject the whole file)`);
     }
-    await flushReadings();
+    timings.readMs = performance.now() - started;
+    const loaded = await loader.finish();
+    rowsNew = loaded.rowsNew;
+    Object.assign(timings, { waitForDatabaseMs: loaded.waitMs, loadStatementsMs: loaded.loadMs, snapshotsMs: loaded.snapshotsMs });
     await rec.update({ status: 'imported', delimiter, rowsTotal: rows, rowsNew, rowsDuplicate: rowsGood - rowsNew, rowsRejected: rejected, finishedAt: new Date() }, { transaction });
     await TankImportMapping.upsert({ tankId: tank.id, organisationId: tank.organisationId, mapping, policy: rec.policy, savedById: rec.uploadedById, savedAt: new Date() }, { transaction });
   };
 
   try {
     await ctx.db.sequelize.transaction(body);
+    timings.totalMs = performance.now() - started;
+    ctx.logger.info({ importId: rec.id, rows: reader.counts.rows, rowsNew, timings }, 'logger import finished');
   } catch (err) {
     try {
       await rec.reload();

@@ -8,6 +8,7 @@ import type { AppContext } from '../context';
 import { AppError, notFound } from '../errors';
 import { assertFarmAccess } from '../middleware/access';
 import type { Reading, Tank } from '../models';
+import { offerLocalInfile, withdrawLocalInfile } from '../local-infile';
 import { tankFor } from './tanks';
 
 export interface NewReading {
@@ -64,7 +65,7 @@ export async function insertReadings(ctx: Pick<AppContext, 'db'>, rows: NewReadi
 /** Updates each touched tank's latest reading and the daily snapshots of the days touched. */
 async function refreshSnapshots(ctx: Pick<AppContext, 'db'>, rows: NewReading[], timeZones: Map<number, string>, transaction: Transaction) {
   const newestByTank = new Map<number, NewReading>();
-  const lastByDay = new Map<string, NewReading & { day: string }>();
+  const lastByDay = new Map<string, SnapshotRow>();
   for (const r of rows) {
     const cur = newestByTank.get(r.tankId);
     if (!cur || r.takenAt > cur.takenAt) newestByTank.set(r.tankId, r);
@@ -79,23 +80,34 @@ async function refreshSnapshots(ctx: Pick<AppContext, 'db'>, rows: NewReading[],
       'SELECT id FROM readings WHERE tankId = ? AND takenAt = ? AND source = ? AND revision = ? LIMIT 1',
       { replacements: [r.tankId, r.takenAt, r.source, r.revision ?? 0], type: QueryTypes.SELECT, transaction },
     );
-    if (!stored) continue;
-    // Assignments run left to right in MariaDB, so takenAt is updated last.
-    await ctx.db.sequelize.query(
-      `INSERT INTO tank_latest (tankId, organisationId, farmId, readingId, takenAt, levelMm, grossL, usableL, temperatureC, source)
-       VALUES (?,?,?,?,?,?,?,?,?,?)
-       ON DUPLICATE KEY UPDATE
-         readingId = IF(VALUES(takenAt) >= takenAt, VALUES(readingId), readingId),
-         levelMm = IF(VALUES(takenAt) >= takenAt, VALUES(levelMm), levelMm),
-         grossL = IF(VALUES(takenAt) >= takenAt, VALUES(grossL), grossL),
-         usableL = IF(VALUES(takenAt) >= takenAt, VALUES(usableL), usableL),
-         temperatureC = IF(VALUES(takenAt) >= takenAt, VALUES(temperatureC), temperatureC),
-         source = IF(VALUES(takenAt) >= takenAt, VALUES(source), source),
-         takenAt = GREATEST(VALUES(takenAt), takenAt)`,
-      { replacements: [r.tankId, r.organisationId, r.farmId, stored.id, r.takenAt, r.levelMm, r.grossL, r.usableL, r.temperatureC, r.source], type: QueryTypes.INSERT, transaction },
-    );
+    if (stored) await upsertLatest(ctx, { ...r, id: stored.id }, transaction);
   }
-  const days = [...lastByDay.values()];
+  await upsertDays(ctx, [...lastByDay.values()], transaction);
+}
+
+/** What a snapshot row needs of a reading. */
+type SnapshotRow = Pick<NewReading, 'tankId' | 'organisationId' | 'farmId' | 'takenAt' | 'grossL' | 'usableL'> & { day: string };
+
+/** Makes `r` (a stored reading) the tank's latest unless a later one is there already. */
+async function upsertLatest(ctx: Pick<AppContext, 'db'>, r: Pick<NewReading, 'tankId' | 'organisationId' | 'farmId' | 'takenAt' | 'levelMm' | 'grossL' | 'usableL' | 'temperatureC' | 'source'> & { id: number }, transaction: Transaction) {
+  // Assignments run left to right in MariaDB, so takenAt is updated last.
+  await ctx.db.sequelize.query(
+    `INSERT INTO tank_latest (tankId, organisationId, farmId, readingId, takenAt, levelMm, grossL, usableL, temperatureC, source)
+     VALUES (?,?,?,?,?,?,?,?,?,?)
+     ON DUPLICATE KEY UPDATE
+       readingId = IF(VALUES(takenAt) >= takenAt, VALUES(readingId), readingId),
+       levelMm = IF(VALUES(takenAt) >= takenAt, VALUES(levelMm), levelMm),
+       grossL = IF(VALUES(takenAt) >= takenAt, VALUES(grossL), grossL),
+       usableL = IF(VALUES(takenAt) >= takenAt, VALUES(usableL), usableL),
+       temperatureC = IF(VALUES(takenAt) >= takenAt, VALUES(temperatureC), temperatureC),
+       source = IF(VALUES(takenAt) >= takenAt, VALUES(source), source),
+       takenAt = GREATEST(VALUES(takenAt), takenAt)`,
+    { replacements: [r.tankId, r.organisationId, r.farmId, r.id, r.takenAt, r.levelMm, r.grossL, r.usableL, r.temperatureC, r.source], type: QueryTypes.INSERT, transaction },
+  );
+}
+
+/** Makes each row its day's snapshot unless a later reading of that day is there already (500 days a statement). */
+async function upsertDays(ctx: Pick<AppContext, 'db'>, days: SnapshotRow[], transaction: Transaction) {
   for (let i = 0; i < days.length; i += 500) {
     const chunk = days.slice(i, i + 500);
     await ctx.db.sequelize.query(
@@ -106,6 +118,172 @@ async function refreshSnapshots(ctx: Pick<AppContext, 'db'>, rows: NewReading[],
          takenAt = GREATEST(VALUES(takenAt), takenAt)`,
       { replacements: chunk.flatMap((d) => [d.tankId, d.day, d.organisationId, d.farmId, d.takenAt, d.grossL, d.usableL]), type: QueryTypes.INSERT, transaction },
     );
+  }
+}
+
+/**
+ * The local day of an instant in one time zone, remembered per clock hour: an hour whose first and
+ * last millisecond fall on the same local day lies wholly in it (an offset changes at most once in an
+ * hour, and a change at midnight still leaves the hour's ends on different days); other hours are
+ * worked out per instant. Same answers as localDay, without an Intl call per row.
+ */
+export function localDayOf(timeZone: string): (ms: number) => string {
+  const byHour = new Map<number, string>();
+  return (ms) => {
+    const hour = Math.floor(ms / 3_600_000);
+    let day = byHour.get(hour);
+    if (day === undefined) {
+      const first = localDay(new Date(hour * 3_600_000), timeZone);
+      day = first === localDay(new Date(hour * 3_600_000 + 3_599_999), timeZone) ? first : '';
+      if (byHour.size >= 200_000) byHour.clear();
+      byHour.set(hour, day);
+    }
+    return day || localDay(new Date(ms), timeZone);
+  };
+}
+
+/** What every reading of one logger file shares. */
+export interface LoadBase {
+  organisationId: number;
+  farmId: number;
+  tankId: number;
+  calibrationVersion: string;
+  importId: number;
+}
+
+/** One converted logger row: UTC instant (epoch ms), level in mm, volumes in L, temperature in °C or null. */
+export interface LoadRow {
+  takenAtMs: number;
+  levelMm: number;
+  grossL: number;
+  usableL: number;
+  temperatureC: number | null;
+}
+
+/** What a finished load did, and where its time went (ms). */
+export interface LoadSummary {
+  rowsNew: number;
+  /** Time the reader stood waiting for the database to take the previous chunk. */
+  waitMs: number;
+  /** Time MariaDB spent on the LOAD DATA statements (overlaps the reading of the file). */
+  loadMs: number;
+  snapshotsMs: number;
+}
+
+/** Rows per LOAD DATA statement (about 1.5 MB of text); one chunk is loaded while the next is being read. */
+export const LOAD_CHUNK_ROWS = 20_000;
+
+const sqlInstant = (ms: number) => {
+  const iso = new Date(ms).toISOString();
+  return `${iso.slice(0, 10)} ${iso.slice(11, 23)}`;
+};
+
+/**
+ * The bulk insert path of logger imports: the readings of one tank, in any number, streamed into
+ * MariaDB with LOAD DATA LOCAL INFILE … IGNORE in chunks inside `transaction` (rows whose natural key
+ * exists already, in the table or earlier in the same load, are skipped and not counted as new). While
+ * one chunk is being loaded the caller goes on reading the next, so at most two chunks are held. After
+ * the last chunk the tank's latest reading and the daily snapshots of the days touched are brought up to
+ * date with the stored values, as insertReadings does. `add` returns a promise only when the caller has
+ * to wait for the database; `finish` must be called once, after the last row.
+ */
+export function readingLoader(ctx: Pick<AppContext, 'db'>, base: LoadBase, timeZone: string, transaction: Transaction, chunkRows = LOAD_CHUNK_ROWS) {
+  const dayOf = localDayOf(timeZone);
+  const createdAt = new Date();
+  let lines: string[] = [];
+  let inFlight: Promise<void> | null = null;
+  let failure: unknown = null;
+  let rowsNew = 0;
+  let waitMs = 0;
+  let loadMs = 0;
+  let newestMs = -Infinity;
+  const lastOfDay = new Map<string, number>();
+
+  const send = (text: string) => {
+    const started = performance.now();
+    const name = offerLocalInfile(text);
+    inFlight = ctx.db.sequelize
+      .query(
+        `LOAD DATA LOCAL INFILE '${name}' IGNORE INTO TABLE readings CHARACTER SET utf8mb4
+         FIELDS TERMINATED BY '\\t' ESCAPED BY '\\\\' LINES TERMINATED BY '\\n'
+         (takenAt, levelMm, grossL, usableL, temperatureC)
+         SET organisationId = ?, farmId = ?, tankId = ?, source = 'logger', revision = 0, calibrationVersion = ?,
+             enteredById = NULL, importId = ?, note = '', idempotencyKey = NULL, correctedById = NULL, correctsId = NULL, createdAt = ?`,
+        { replacements: [base.organisationId, base.farmId, base.tankId, base.calibrationVersion, base.importId, createdAt], type: QueryTypes.INSERT, transaction },
+      )
+      .then(
+        ([, affected]) => {
+          rowsNew += Number(affected);
+          loadMs += performance.now() - started;
+        },
+        (err: unknown) => {
+          withdrawLocalInfile(name);
+          failure ??= err;
+        },
+      );
+  };
+  const settle = async () => {
+    if (inFlight) {
+      const started = performance.now();
+      await inFlight;
+      waitMs += performance.now() - started;
+      inFlight = null;
+    }
+    if (failure) throw failure;
+  };
+  const flush = async () => {
+    const text = lines.join('');
+    lines = [];
+    await settle();
+    send(text);
+  };
+
+  return {
+    /** Queues one row; returns a promise to await when the previous chunk is still being loaded. */
+    add(r: LoadRow): Promise<void> | undefined {
+      if (failure) return Promise.reject(failure);
+      lines.push(`${sqlInstant(r.takenAtMs)}\t${r.levelMm}\t${r.grossL}\t${r.usableL}\t${r.temperatureC === null ? '\\N' : r.temperatureC}\n`);
+      if (r.takenAtMs > newestMs) newestMs = r.takenAtMs;
+      const day = dayOf(r.takenAtMs);
+      const last = lastOfDay.get(day);
+      if (last === undefined || r.takenAtMs > last) lastOfDay.set(day, r.takenAtMs);
+      return lines.length >= chunkRows ? flush() : undefined;
+    },
+    /** Loads what is left, then updates the latest reading and daily snapshots; returns the counts and timings. */
+    async finish(): Promise<LoadSummary> {
+      if (lines.length) await flush();
+      await settle();
+      const started = performance.now();
+      if (newestMs > -Infinity) await refreshLoadedSnapshots(ctx, base, newestMs, lastOfDay, transaction);
+      return { rowsNew, waitMs, loadMs, snapshotsMs: performance.now() - started };
+    },
+  };
+}
+
+/**
+ * Latest reading and daily snapshots after a load, from the rows as stored at the instants the file
+ * ends each day (the stored row wins over a duplicate in the file, as it does in readings).
+ */
+async function refreshLoadedSnapshots(ctx: Pick<AppContext, 'db'>, base: LoadBase, newestMs: number, lastOfDay: Map<string, number>, transaction: Transaction) {
+  type Stored = { id: number; takenAt: Date; levelMm: number; grossL: number; usableL: number; temperatureC: number | null };
+  const storedAt = async (instants: number[]) =>
+    ctx.db.sequelize.query<Stored>(
+      `SELECT id, takenAt, levelMm, grossL, usableL, temperatureC FROM readings WHERE tankId = ? AND source = 'logger' AND revision = 0 AND takenAt IN (${instants.map(() => '?').join(',')})`,
+      { replacements: [base.tankId, ...instants.map((ms) => new Date(ms))], type: QueryTypes.SELECT, transaction },
+    );
+  const own = { tankId: base.tankId, organisationId: base.organisationId, farmId: base.farmId };
+  const [newest] = await storedAt([newestMs]);
+  if (newest) await upsertLatest(ctx, { ...own, ...newest, takenAt: new Date(newest.takenAt), source: 'logger' }, transaction);
+  const days = [...lastOfDay.entries()];
+  for (let i = 0; i < days.length; i += 500) {
+    const chunk = days.slice(i, i + 500);
+    const byMs = new Map((await storedAt(chunk.map(([, ms]) => ms))).map((s) => [new Date(s.takenAt).getTime(), s]));
+    const rows: SnapshotRow[] = [];
+    for (const [day, ms] of chunk) {
+      const s = byMs.get(ms);
+      if (s) rows.push({ ...own, day, takenAt: new Date(ms), grossL: s.grossL, usableL: s.usableL });
+    }
+    await upsertDays(ctx, rows, transaction);
   }
 }
 
