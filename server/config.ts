@@ -36,6 +36,7 @@ const schema = z.object({
   INVITE_TTL_HOURS: z.coerce.number().positive().default(72),
   RESET_TTL_HOURS: z.coerce.number().positive().default(2),
   UPLOAD_MAX_MB: z.coerce.number().positive().max(1024).default(200),
+  FLAG_DIGEST_HOUR: z.coerce.number().int().min(0).max(23).default(7),
 });
 
 export type Config = ReturnType<typeof loadConfig>;
@@ -75,5 +76,6 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     signInLimits: { perIp: c.SIGN_IN_LIMIT_PER_IP, perAccount: c.SIGN_IN_LIMIT_PER_ACCOUNT, windowMs: c.SIGN_IN_WINDOW_MINUTES * 60_000 },
     tokenTtlMs: { invite: c.INVITE_TTL_HOURS * 3_600_000, reset: c.RESET_TTL_HOURS * 3_600_000 },
     uploadMaxBytes: Math.round(c.UPLOAD_MAX_MB * 1024 * 1024),
+    flagDigestHour: c.FLAG_DIGEST_HOUR,
   };
 }

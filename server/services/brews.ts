@@ -86,6 +86,8 @@ export async function createBrew(ctx: AppContext, actor: SessionUser, body: Brew
 export async function updateBrew(ctx: AppContext, actor: SessionUser, id: number, body: BrewUpdateInput): Promise<BrewDto> {
   const brew = await brewFor(ctx, actor, id);
   await brew.update({ ...(body.status ? { status: body.status } : {}), ...(body.readyAt !== undefined ? { readyAt: body.readyAt ? new Date(body.readyAt) : null } : {}), ...(body.notes !== undefined ? { notes: body.notes } : {}) });
+  // A brew that ends no longer speaks for its tank's temperature.
+  if (body.status) ctx.events.emit('brew-temperature', { organisationId: actor.organisationId, farmIds: [brew.farmId] });
   return (await toDtos(ctx, [brew]))[0];
 }
 
@@ -93,5 +95,7 @@ export async function updateBrew(ctx: AppContext, actor: SessionUser, id: number
 export async function logBrewTemperature(ctx: AppContext, actor: SessionUser, id: number, body: { temperatureC: number; at?: string }): Promise<BrewDto> {
   const brew = await brewFor(ctx, actor, id);
   await ctx.db.models.BrewTemperature.create({ brewId: brew.id, at: body.at ? new Date(body.at) : new Date(), temperatureC: body.temperatureC, byUserId: actor.id });
+  // The flag rules read a working brew's newest temperature as its tank's (cold culture, frost risk).
+  ctx.events.emit('brew-temperature', { organisationId: actor.organisationId, farmIds: [brew.farmId] });
   return (await toDtos(ctx, [brew]))[0];
 }

@@ -50,9 +50,26 @@ export async function mailRaisedFlags(ctx: AppContext, organisationId: number, r
   }
 }
 
+/** The calendar day (YYYY-MM-DD) and hour (0–23) of an instant in an IANA time zone. */
+export function localDayAndHour(at: Date, timeZone: string): { day: string; hour: number } {
+  const parts = new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', hourCycle: 'h23' }).formatToParts(at);
+  const get = (type: string) => parts.find((p) => p.type === type)?.value ?? '';
+  return { day: `${get('year')}-${get('month')}-${get('day')}`, hour: Number(get('hour')) };
+}
+
 /**
- * Sends each digest reader one summary of the active flags that concern them, at most once every
- * 20 hours (the sweep calls this hourly). Returns how many mails went out.
+ * Whether a person's daily summary is due: it goes once per local day, on the first sweep at or
+ * after the digest hour in the time zone of the first farm they may see.
+ */
+export function digestDue(now: Date, lastSentAt: Date | null, timeZone: string, digestHour: number): boolean {
+  const today = localDayAndHour(now, timeZone);
+  if (today.hour < digestHour) return false;
+  return !lastSentAt || localDayAndHour(lastSentAt, timeZone).day < today.day;
+}
+
+/**
+ * Sends each digest reader whose local digest hour has come one summary of the active flags that
+ * concern them, once per local day (the sweep calls this every few minutes). Returns how many mails went out.
  */
 export async function sendFlagDigests(ctx: AppContext, now = new Date()): Promise<number> {
   const orgs = await ctx.db.models.Organisation.findAll({ attributes: ['id'] });
@@ -61,8 +78,10 @@ export async function sendFlagDigests(ctx: AppContext, now = new Date()): Promis
     const active = await ctx.db.models.Flag.findAll({ where: { organisationId: org.id, activeKey: 1 }, order: [['raisedAt', 'DESC']] });
     if (!active.length) continue;
     const names = await farmNamesOf(ctx, active);
+    const zones = new Map((await ctx.db.models.Farm.findAll({ where: { organisationId: org.id }, attributes: ['id', 'timeZone'], order: [['id', 'ASC']] })).map((f) => [f.id, f.timeZone]));
     for (const { user, farmIds } of await readersOf(ctx, org.id, 'digest')) {
-      if (user.lastDigestAt && now.getTime() - user.lastDigestAt.getTime() < 20 * 3_600_000) continue;
+      const firstFarm = [...zones.keys()].find((id) => farmIds.has(id));
+      if (firstFarm === undefined || !digestDue(now, user.lastDigestAt, zones.get(firstFarm)!, ctx.config.flagDigestHour)) continue;
       const mine = active.filter((f) => farmIds.has(f.farmId) && concerns(user.role, f.kind));
       if (!mine.length) continue;
       const body = render(mine, names, `${ctx.config.publicUrl}/flags`);

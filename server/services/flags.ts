@@ -1,6 +1,6 @@
 // Flags: raised and cleared by the rules of shared/flags whenever stock changes (and on a timer
 // for stale tanks), one active flag per kind and subject, acknowledged by a person, kept as history.
-import { Op, type WhereOptions } from 'sequelize';
+import { Op, QueryTypes, type WhereOptions } from 'sequelize';
 import { tankFlagConditions, type FlagCondition } from '@shared/flags';
 import type { Flag as FlagDto, FlagKind, SessionUser } from '@shared/schemas';
 import type { AppContext } from '../context';
@@ -42,6 +42,23 @@ async function reconcile(ctx: AppContext, subject: { organisationId: number; far
   return changed;
 }
 
+/** The newest temperature logged on a working brew of each tank of a farm (tank id → °C and when). */
+async function latestBrewTemperatures(ctx: AppContext, farmId: number): Promise<Map<number, { at: Date; temperatureC: number }>> {
+  const rows = await ctx.db.sequelize.query<{ tankId: number; at: Date; temperatureC: number }>(
+    `SELECT b.tankId, t.at, t.temperatureC FROM brew_temperatures t JOIN brews b ON b.id = t.brewId
+      WHERE b.farmId = :farmId AND b.status IN ('brewing', 'ready')
+      AND t.at = (SELECT MAX(t2.at) FROM brew_temperatures t2 JOIN brews b2 ON b2.id = t2.brewId WHERE b2.tankId = b.tankId AND b2.status IN ('brewing', 'ready'))`,
+    { replacements: { farmId }, type: QueryTypes.SELECT },
+  );
+  return new Map(rows.map((r) => [r.tankId, { at: new Date(r.at), temperatureC: r.temperatureC }]));
+}
+
+/** A tank's temperature now: the newer of its latest reading's and a temperature logged on its working brew. */
+function newestTemperature(latest: { takenAt: Date; temperatureC: number | null } | null, brew: { at: Date; temperatureC: number } | null): number | null {
+  if (brew && (!latest || latest.temperatureC === null || brew.at.getTime() >= latest.takenAt.getTime())) return brew.temperatureC;
+  return latest?.temperatureC ?? null;
+}
+
 /** Evaluates every tank of some farms; returns the farms whose flags changed. */
 export async function evaluateTankFlags(ctx: AppContext, organisationId: number, farmIds: number[]): Promise<number[]> {
   const { Tank, Farm, TankLatest } = ctx.db.models;
@@ -52,14 +69,16 @@ export async function evaluateTankFlags(ctx: AppContext, organisationId: number,
   for (const farm of farms) {
     const tanks = await Tank.findAll({ where: { farmId: farm.id, archivedAt: null } });
     const latest = new Map((await TankLatest.findAll({ where: { tankId: tanks.map((t) => t.id) } })).map((l) => [l.tankId, l]));
+    const brewTemps = await latestBrewTemperatures(ctx, farm.id);
     for (const tank of tanks) {
       const l = latest.get(tank.id);
+      const temperatureC = newestTemperature(l ?? null, brewTemps.get(tank.id) ?? null);
       const leaks = l ? (await computeForecast(ctx, tank, farm.timeZone)).leaks : [];
       const holding = farm.archivedAt
         ? []
         : tankFlagConditions({
             name: tank.name, contents: tank.contents, usableL: l?.usableL ?? null, lowStockL: tank.lowStockL, levelMm: l?.levelMm ?? null, safeFillLevelMm: tank.safeFillLevelMm,
-            temperatureC: l?.temperatureC ?? null, takenAt: l ? l.takenAt.getTime() : null, now, staleAfterDays: farm.staleAfterDays, coldCultureC: farm.coldCultureC, frostRiskC: farm.frostRiskC,
+            temperatureC, takenAt: l ? l.takenAt.getTime() : null, now, staleAfterDays: farm.staleAfterDays, coldCultureC: farm.coldCultureC, frostRiskC: farm.frostRiskC,
             leaks: leaks.map((x) => ({ lossL: x.lossL, rateLPerHour: x.rateLPerHour })),
           });
       if (await reconcile(ctx, { organisationId, farmId: farm.id, type: 'tank', id: tank.id }, TANK_KINDS, holding, raised)) changedFarms.add(farm.id);
@@ -164,6 +183,7 @@ export function attachFlagRules(ctx: AppContext, opts: { delayMs?: number; sweep
   const onReadings = schedule('tanks');
   const onStock = schedule('inputs');
   ctx.events.on('readings', onReadings);
+  ctx.events.on('brew-temperature', onReadings);
   ctx.events.on('stock', onStock);
   const sweep = setInterval(async () => {
     const farms = await ctx.db.models.Farm.findAll({ where: { archivedAt: { [Op.is]: null } }, attributes: ['id', 'organisationId'] }).catch(() => []);
@@ -173,6 +193,7 @@ export function attachFlagRules(ctx: AppContext, opts: { delayMs?: number; sweep
   sweep.unref();
   return () => {
     ctx.events.off('readings', onReadings);
+    ctx.events.off('brew-temperature', onReadings);
     ctx.events.off('stock', onStock);
     clearInterval(sweep);
     for (const p of pending.values()) clearTimeout(p.timer);

@@ -39,7 +39,9 @@ export interface TankFlagInput {
   lowStockL: number;
   levelMm: number | null;
   safeFillLevelMm: number;
+  /** The newest temperature known: a reading's, or one logged on the tank's working brew. */
   temperatureC: number | null;
+  /** When the tank's level was last read (null: never). */
   takenAt: number | null;
   now: number;
   staleAfterDays: number;
@@ -61,12 +63,12 @@ const n = (v: number, d = 1) => formatNumberTrimmed(v, d);
 /** Every flag condition that holds for a tank now (empty when all is well). */
 export function tankFlagConditions(t: TankFlagInput): FlagCondition[] {
   const out: FlagCondition[] = [];
-  if (t.takenAt === null) return out;
+  if (t.takenAt === null && t.temperatureC === null) return out;
   if (t.usableL !== null && t.lowStockL > 0 && t.usableL < t.lowStockL) {
     out.push({ kind: 'low-stock', value: t.usableL, message: `${t.name} has ${n(t.usableL, 0)} L usable, under its ${n(t.lowStockL, 0)} L threshold` });
   }
-  const ageDays = (t.now - t.takenAt) / 86_400_000;
-  if (ageDays >= t.staleAfterDays) out.push({ kind: 'stale-tank', value: ageDays, message: `${t.name} has not been read for ${n(Math.floor(ageDays), 0)} days` });
+  const ageDays = t.takenAt === null ? 0 : (t.now - t.takenAt) / 86_400_000;
+  if (t.takenAt !== null && ageDays >= t.staleAfterDays) out.push({ kind: 'stale-tank', value: ageDays, message: `${t.name} has not been read for ${n(Math.floor(ageDays), 0)} days` });
   if (t.temperatureC !== null) {
     if (t.temperatureC <= t.frostRiskC && (t.contents === 'water' || t.contents === 'culture' || t.contents === 'fertilizer' || t.contents === 'pest-solution')) {
       out.push({ kind: 'frost-risk', value: t.temperatureC, message: `${t.name} is at ${n(t.temperatureC)} °C (at or under ${n(t.frostRiskC)} °C): drain or protect` });

@@ -5,7 +5,7 @@
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { readScenario } from '../../server/services/demo';
-import { launch, screenshot, type Browser } from '../support/browser';
+import { launch, pickOption, screenshot, type Browser } from '../support/browser';
 
 const { baseUrl } = inject('app');
 const people = readScenario().people;
@@ -48,8 +48,7 @@ describe('flags on the board and the Flags screen', () => {
 
     const phone = worker.page;
     await phone.goto(`${baseUrl}/round`);
-    await phone.getByTestId('round-farm').click();
-    await phone.getByRole('option', { name: 'Hollin Ridge' }).click();
+    await pickOption(phone, 'round-farm', 'Hollin Ridge');
     await phone.getByTestId('round-input-HR-C1').fill('800');
     await phone.getByTestId('round-temperature-HR-C1').fill('15');
     await phone.getByTestId('round-submit').click();

@@ -7,7 +7,7 @@ import { join } from 'node:path';
 import { afterEach, beforeEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { readScenario } from '../../server/services/demo';
-import { launch, screenshot, type Browser } from '../support/browser';
+import { launch, pickOption, screenshot, type Browser } from '../support/browser';
 
 const { baseUrl } = inject('app');
 const worker = readScenario().people.find((p) => p.role === 'worker')!;
@@ -39,8 +39,7 @@ async function signIn(page: Page) {
 
 /** Opens a PrimeVue Select and clicks the option with exactly this text. */
 async function pick(page: Page, testId: string, option: string) {
-  await page.getByTestId(testId).click();
-  await page.locator('.p-select-overlay').getByRole('option', { name: option, exact: true }).click();
+  await pickOption(page, testId, option);
   await expect.poll(() => page.getByTestId(testId).innerText()).toContain(option);
   // The list fades out; the next Select's list must be the only one on the page.
   await expect.poll(() => page.locator('.p-select-overlay').count()).toBe(0);

@@ -5,7 +5,7 @@
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { readScenario } from '../../server/services/demo';
-import { launch, screenshot, type Browser } from '../support/browser';
+import { launch, pickOption, screenshot, type Browser } from '../support/browser';
 
 const { baseUrl } = inject('app');
 const people = readScenario().people;
@@ -52,8 +52,7 @@ describe('round and live stock board', () => {
 
     const phone = worker.page;
     await phone.goto(`${baseUrl}/round`);
-    await phone.getByTestId('round-farm').click();
-    await phone.getByRole('option', { name: 'Hollin Ridge' }).click();
+    await pickOption(phone, 'round-farm', 'Hollin Ridge');
     await phone.getByTestId('round-tank-HR-W1').waitFor();
 
     // Litres appear while typing: 1140 mm + 60 mm datum = 1.2 m in a cylinder 3.2 m across,

@@ -69,6 +69,27 @@ describe('flag rules', () => {
     expect(cleared.map((f) => f.kind).sort()).toEqual(['frost-risk', 'low-stock']);
   });
 
+  it('reads a temperature logged on a working brew as its tank\'s: cold culture, then frost risk, cleared when the brew ends', async () => {
+    const org = await makeOrganisation(env);
+    const cone = await makeTank(env, org, org.farmIds[0], { code: 'B1', contents: 'culture', lowStockL: 0 });
+    const worker = await signedIn(env, org.users.worker.email);
+    const brew = (await call(worker, 'post', '/api/brews', { tankId: cone.id, kind: 'culture', name: 'Starter', waterL: 150, startedAt: new Date(Date.now() - 7_200_000).toISOString() }).expect(201)).body;
+    const coneFlags = async () => (await flagsOf(worker)()).filter((f) => f.subjectId === cone.id).map((f) => f.kind).sort().join(',');
+    // No level reading yet: the brew's own log is all the rules know of the tank.
+    await call(worker, 'post', `/api/brews/${brew.id}/temperatures`, { temperatureC: 17.9 }).expect(201);
+    await until(coneFlags, (k) => k === 'cold-culture');
+    // A round reading taken earlier than the brew's log does not override it …
+    await call(worker, 'post', '/api/rounds', { farmId: org.farmIds[0], takenAt: new Date(Date.now() - 3_600_000).toISOString(), entries: [{ tankId: cone.id, readingMm: 800, temperatureC: 21, idempotencyKey: key() }] }).expect(201);
+    await new Promise((r) => setTimeout(r, 300));
+    expect(await coneFlags()).toBe('cold-culture');
+    // … a newer brew temperature at the frost line does.
+    await call(worker, 'post', `/api/brews/${brew.id}/temperatures`, { temperatureC: 2 }).expect(201);
+    await until(coneFlags, (k) => k === 'frost-risk');
+    // Once the brew is used up its log stops speaking for the tank; the round reading (21 °C) holds.
+    await call(worker, 'patch', `/api/brews/${brew.id}`, { status: 'used-up' }).expect(200);
+    await until(coneFlags, (k) => k === '');
+  });
+
   it('raises a stale-tank flag for a reading older than the farm setting', async () => {
     const org = await makeOrganisation(env);
     const tank = await makeTank(env, org, org.farmIds[0], { code: 'S1', lowStockL: 0 });
@@ -110,17 +131,24 @@ describe('flag mail', () => {
     expect((await readOutbox(env.config.outboxDir)).some((m) => m.to.includes(org.users.worker.email))).toBe(false);
   });
 
-  it('sends one daily summary per person and not again within the day', async () => {
+  it('sends one daily summary per person from the local digest hour, and not again that day', async () => {
     const org = await makeOrganisation(env);
     const { input } = await makeInput(env, org, org.farmIds[0], { onHand: 5, usePerDay: 4, days: 30 });
     await evaluateInputFlags(env.ctx, org.organisationId, [org.farmIds[0]]);
-    const now = new Date();
-    expect(await sendFlagDigests(env.ctx, now)).toBeGreaterThan(0);
+    const buyerMails = async () => (await readOutbox(env.config.outboxDir)).filter((m) => m.to.includes(org.users.buyer.email)).length;
+    // The farms keep Europe/Dublin time: 05:30 UTC on 10 June is 06:30 there, before the 07:00 digest hour.
+    expect(env.ctx.config.flagDigestHour).toBe(7);
+    await sendFlagDigests(env.ctx, new Date('2030-06-10T05:30:00Z'));
+    expect(await buyerMails()).toBe(0);
+    await sendFlagDigests(env.ctx, new Date('2030-06-10T06:10:00Z'));
     const mail = await waitForMail(env.config.outboxDir, org.users.buyer.email);
     expect(mail.subject).toMatch(/daily summary: 1 flag needs a look/);
     expect(mail.text).toContain(input.name);
-    const before = (await readOutbox(env.config.outboxDir)).length;
-    await sendFlagDigests(env.ctx, new Date(now.getTime() + 3_600_000));
-    expect((await readOutbox(env.config.outboxDir)).length).toBe(before);
+    // Later the same local day: nothing more; the next local morning: the next summary.
+    await sendFlagDigests(env.ctx, new Date('2030-06-10T21:00:00Z'));
+    await sendFlagDigests(env.ctx, new Date('2030-06-11T05:59:00Z'));
+    expect(await buyerMails()).toBe(1);
+    await sendFlagDigests(env.ctx, new Date('2030-06-11T06:00:00Z'));
+    await expect.poll(buyerMails).toBe(2);
   });
 });

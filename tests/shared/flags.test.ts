@@ -47,4 +47,10 @@ describe('tankFlagConditions', () => {
   it('says nothing of a tank that was never read', () => {
     expect(kinds({ takenAt: null, usableL: null, temperatureC: null })).toEqual([]);
   });
+
+  it('judges the temperature of a tank whose level was never read but whose brew was logged, and never calls it stale', () => {
+    expect(kinds({ takenAt: null, usableL: null, levelMm: null, temperatureC: 17.9 })).toEqual(['cold-culture']);
+    expect(kinds({ takenAt: null, usableL: null, levelMm: null, temperatureC: 2 })).toEqual(['frost-risk']);
+    expect(kinds({ takenAt: null, usableL: null, levelMm: null, temperatureC: 25 })).toEqual([]);
+  });
 });

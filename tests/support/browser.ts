@@ -40,3 +40,23 @@ export async function screenshot(page: Page, name: string): Promise<void> {
   mkdirSync(dir, { recursive: true });
   await page.screenshot({ path: join(dir, `${name}.png`), fullPage: true });
 }
+
+/**
+ * Picks `option` (exact text, or a pattern) from the PrimeVue Select with data-testid `testId`. The select may still be
+ * loading its options, or re-render as they arrive and close its overlay, so the overlay is
+ * opened again until the option shows (bounded to a few tries).
+ */
+export async function pickOption(page: Page, testId: string, option: string | RegExp): Promise<void> {
+  const choice = page.locator('.p-select-overlay').getByRole('option', { name: option, exact: typeof option === 'string' });
+  for (let attempt = 1; ; attempt++) {
+    if (!(await choice.isVisible())) await page.getByTestId(testId).click();
+    try {
+      await choice.waitFor({ state: 'visible', timeout: 4000 });
+      await choice.click();
+      return;
+    } catch (error) {
+      if (attempt >= 4) throw error;
+      await page.keyboard.press('Escape');
+    }
+  }
+}
