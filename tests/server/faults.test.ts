@@ -154,6 +154,24 @@ describe('faults on the shared test database', () => {
     expect(Object.fromEntries(records.map((r) => [r.status, r.n]))).toEqual({ imported: 4, duplicate: 4 });
   }, 60_000);
 
+  it('refuses to retry a failed import when the same file was imported into the tank since', async () => {
+    const tankId = await newTank(s, 'RC');
+    const worker = await Client.signIn(s.server.baseUrl, s.org.users.worker.email);
+    const file = levelFile('2022-06-01T00:00:00Z', 500);
+    const first = (await worker.upload(tankId, 'june.csv', file, MAPPING)).body as { imports: LoggerImportDetail[] };
+    const firstId = first.imports[0].id;
+    // As if that import had failed: its rows gone with the transaction, the record failed (it then holds no claim on the file).
+    await sql(s.dbServer.socketPath, s.dbName, 'DELETE FROM readings WHERE importId = ?', [firstId]);
+    await sql(s.dbServer.socketPath, s.dbName, "UPDATE logger_imports SET status = 'failed', rowsNew = 0 WHERE id = ?", [firstId]);
+    const second = await worker.upload(tankId, 'june again.csv', file, MAPPING);
+    expect((second.body as { imports: LoggerImportDetail[] }).imports[0]).toMatchObject({ status: 'imported', rowsNew: 500 });
+    const retry = await worker.request('POST', `/api/imports/${firstId}/retry`);
+    expect(retry.status).toBe(409);
+    expect(retry.body).toEqual({ error: { code: 'already_imported', message: expect.stringMatching(/imported into this tank since \(import \d+\)/) } });
+    expect((await importRow(s, firstId)).status).toBe('failed');
+    expect(await readingsOfTank(s, tankId)).toEqual({ n: 500, instants: 500 });
+  }, 30_000);
+
   it('gives a client that lost its socket during a burst of readings the right totals when it resyncs', async () => {
     const tanks = [await newTank(s, 'R1'), await newTank(s, 'R2'), await newTank(s, 'R3')];
     const farmId = s.org.farmIds[0];
