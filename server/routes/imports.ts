@@ -6,7 +6,8 @@ import { importListQuerySchema, importUploadSchema } from '@shared/schemas';
 import type { AppContext } from '../context';
 import { AppError } from '../errors';
 import { actorOf, requireRole, requireSignIn } from '../middleware/access';
-import { discardUploads, getImport, importUploads, listImports, rejectedRowsCsv, retryImport, savedMapping, storedNameFor, type UploadedFile } from '../services/imports';
+import { discardUploads, getImport, importUploads, labelOf, listImports, rejectedRowsCsv, retryImport, savedMapping, storedNameFor, type UploadedFile } from '../services/imports';
+import { assertUploadsReadable, declaredTypeProblem } from '../services/upload-checks';
 import { idParam, parse } from '../validate';
 
 /** Files one upload may carry. */
@@ -31,11 +32,18 @@ function receiveFiles(ctx: AppContext) {
     // Browsers send the file name as UTF-8 without saying so.
     defParamCharset: 'utf8',
     limits: { fileSize: ctx.config.uploadMaxBytes, files: MAX_FILES_PER_UPLOAD, fields: 10, fieldSize: 64 * 1024 },
+    // A file declared as an image, archive or document is refused before anything of it is stored.
+    fileFilter: (_req, file, cb) => {
+      const problem = declaredTypeProblem(file.mimetype);
+      if (problem) cb(new AppError(415, 'not_csv', `files: "${labelOf(file.originalname)}" cannot be imported: ${problem}`, 'files'));
+      else cb(null, true);
+    },
   }).fields(FILE_FIELDS.map((name) => ({ name, maxCount: MAX_FILES_PER_UPLOAD })));
   const limit = `${megabytes(ctx.config.uploadMaxBytes)} (${ctx.config.uploadMaxBytes.toLocaleString('en-US')} bytes)`;
   return (req: Request, res: Response, next: NextFunction) => {
     upload(req, res, (err?: unknown) => {
       if (!err) return next();
+      if (err instanceof AppError) return next(err);
       if (err instanceof multer.MulterError) {
         switch (err.code) {
           case 'LIMIT_FILE_SIZE':
@@ -67,9 +75,14 @@ export function importsRouter(ctx: AppContext) {
 
   router.post('/imports', importers, receiveFiles(ctx), async (req, res) => {
     const files = uploadedFiles(req);
+    // Neither a form upload nor a JSON object (plain text, an array, no body): nothing names a field.
+    if (!req.is('multipart/form-data') && (typeof req.body !== 'object' || req.body === null || Array.isArray(req.body))) {
+      throw new AppError(415, 'bad_upload', 'files: send the CSV files as a multipart/form-data upload (the "files" field, with tankId and mapping beside them)', 'files');
+    }
     let input;
     try {
       input = parse(importUploadSchema, req.body);
+      await assertUploadsReadable(files, input.mapping);
     } catch (err) {
       await discardUploads(files);
       throw err;

@@ -12,3 +12,5 @@ export { TEMPERATURE_RANGE_C, FUTURE_TOLERANCE_MS, mappingProblem, createImportR
 export type { ImportField, ImportProblem, ImportedReading, FeedResult, ImportCounts, ImportReader, ImportReaderOptions } from './rows';
 export { SNIFF_BYTES, sniffCsv } from './sniff';
 export type { SniffResult } from './sniff';
+export { MAX_RECORD_BYTES, createRecordGuard } from './guard';
+export type { RecordGuard, RecordProblem } from './guard';

@@ -1,6 +1,6 @@
 // Is an upload CSV text at all? Decided from its first bytes, never from the name or the type the
-// browser claims: archive, compressed, document and image signatures, UTF-16 text, NUL bytes and a
-// high share of control characters all mean "not a text file we can read".
+// browser claims: archive, compressed, document and image signatures, UTF-16 text, NUL bytes, a
+// high share of control characters and bytes that are not UTF-8 all mean "not a text file we can read".
 
 /** How many leading bytes the check looks at. */
 export const SNIFF_BYTES = 64 * 1024;
@@ -28,6 +28,21 @@ const SIGNATURES: { bytes: number[]; what: string }[] = [
   { bytes: [0x7f, 0x45, 0x4c, 0x46], what: 'a program (ELF executable)' },
 ];
 
+/** The 1-based line of the first byte sequence that is not UTF-8, or null; a character cut off at the end of `head` is not counted. */
+function firstNonUtf8Line(head: Uint8Array): number | null {
+  try {
+    // stream: true leaves a character cut off at the end of the head undecoded instead of failing on it.
+    new TextDecoder('utf-8', { fatal: true }).decode(head, { stream: true });
+    return null;
+  } catch {
+    const text = new TextDecoder('utf-8').decode(head, { stream: true });
+    const at = text.indexOf('\uFFFD');
+    let line = 1;
+    for (let i = 0; i < at; i++) if (text.charCodeAt(i) === 10 || (text.charCodeAt(i) === 13 && text.charCodeAt(i + 1) !== 10)) line++;
+    return line;
+  }
+}
+
 const startsWith = (b: Uint8Array, sig: number[]) => b.length >= sig.length && sig.every((v, i) => b[i] === v);
 
 /** Whether the first bytes of an upload (up to SNIFF_BYTES) look like CSV text, or what they look like instead. */
@@ -43,5 +58,9 @@ export function sniffCsv(head: Uint8Array): SniffResult {
     if (b < 0x20 && (b < 0x09 || b > 0x0d) && b !== 0x1a) control++;
   }
   if (n > 0 && control / n > 0.01) return { ok: false, reason: 'it is mostly control characters, so it is a binary file, not CSV text' };
+  const notUtf8 = firstNonUtf8Line(head.subarray(0, n));
+  if (notUtf8 !== null) {
+    return { ok: false, reason: `it is not UTF-8 text (line ${notUtf8} has bytes that are not UTF-8, as in a Latin-1 or Windows-1252 file); save or export it as UTF-8 CSV` };
+  }
   return { ok: true };
 }
