@@ -1,6 +1,6 @@
-// Storing readings: the one insert path for rounds, logger imports and corrections. Each batch
-// is inserted in one statement, and the tank's latest reading and daily snapshot are kept
-// current in the same transaction, so the board never scans history.
+// Storing readings: insertReadings for rounds and corrections (each batch in one statement) and
+// readingLoader for logger files (LOAD DATA in chunks). Either way the tank's latest reading and
+// daily snapshot are kept current in the same transaction, so the board never scans history.
 import { Op, QueryTypes, type Transaction } from 'sequelize';
 import { readingToVolumes, type ReadingInput } from '@shared/readings';
 import type { CorrectionInput, Reading as ReadingDto, RoundEntryResult, RoundSubmitInput, SeriesPoint, SessionUser } from '@shared/schemas';
