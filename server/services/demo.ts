@@ -8,6 +8,7 @@ import { hashPassword } from './passwords';
 import { insertReadings, type NewReading } from './readings';
 import { readingToVolumes } from '@shared/readings';
 import { heightMm } from '@shared/calibration';
+import { QUIET_HOURS } from './forecasts';
 
 interface Scenario {
   organisation: { name: string };
@@ -66,7 +67,7 @@ const DEMO_DAYS = 21;
  * spread, a refill or new brew when the level runs low, and warm cultures (one cooling off). The
  * numbers come from a fixed pseudo-random sequence, so every demo database is the same.
  */
-function demoReadings(tank: import('../models').Tank, index: number, workerId: number | null): NewReading[] {
+function demoReadings(tank: import('../models').Tank, index: number, workerId: number | null, timeZone: string): NewReading[] {
   let seed = 9_301 + index * 49_297;
   const random = () => ((seed = (seed * 16_807) % 2_147_483_647) / 2_147_483_647);
   const setup = { geometry: tank.geometry, datumOffsetMm: tank.datumOffsetMm, outletHeightMm: tank.outletHeightMm, safeFillLevelMm: tank.safeFillLevelMm, specificGravity: tank.specificGravity };
@@ -86,12 +87,52 @@ function demoReadings(tank: import('../models').Tank, index: number, workerId: n
     if (!v.ok) continue;
     const takenAt = new Date(today.getTime() - d * 86_400_000 + Math.round(random() * 40) * 60_000);
     const cooling = tank.code === 'HR-C2' && d <= 2;
+    // This morning's round: the cistern's float valve stuck open overnight, and the fertigation tote stood in a hard frost.
+    const overfilled = tank.code === 'SO-W1' && d === 0;
+    const frosty = tank.code === 'MF-F1' && d === 0;
+    const readLevelMm = overfilled ? tank.safeFillLevelMm + 35 : levelMm;
+    const rv = overfilled ? readingToVolumes(setup, { kind: 'level', levelMm: readLevelMm }) : v;
+    if (!rv.ok) continue;
     out.push({
-      organisationId: tank.organisationId, farmId: tank.farmId, tankId: tank.id, takenAt, source: 'round', levelMm, grossL: v.grossL, usableL: v.usableL,
-      temperatureC: tank.contents === 'culture' ? Math.round((cooling ? 17.2 - d * 0.4 : 21 + random() * 3) * 10) / 10 : null,
-      calibrationVersion: tank.calibrationVersion, enteredById: workerId, importId: null, note: '', idempotencyKey: null,
+      organisationId: tank.organisationId, farmId: tank.farmId, tankId: tank.id, takenAt, source: 'round', levelMm: readLevelMm, grossL: rv.grossL, usableL: rv.usableL,
+      temperatureC: tank.contents === 'culture' ? Math.round((cooling ? 17.2 - d * 0.4 : 21 + random() * 3) * 10) / 10 : frosty ? 1.5 : null,
+      calibrationVersion: tank.calibrationVersion, enteredById: workerId, importId: null, note: frosty ? 'Ice on the lid' : '', idempotencyKey: null,
     });
   }
+  return tank.code === 'MF-W1' ? [...out, ...demoLeakNight(tank, out, setup, timeZone)] : out;
+}
+
+/**
+ * The header tank's logger saw a steady loss through last night's quiet hours (about 30 L/h, with
+ * no irrigation planned): a fitting weeping somewhere. Readings every 30 minutes inside the quiet
+ * hours before the latest round, ending just above that round's level (invented figures).
+ */
+function demoLeakNight(tank: import('../models').Tank, rounds: NewReading[], setup: Parameters<typeof readingToVolumes>[0], zone: string): NewReading[] {
+  const last = rounds[rounds.length - 1];
+  if (!last) return [];
+  const hourOf = (at: number) => Number(new Intl.DateTimeFormat('en-GB', { timeZone: zone, hour: '2-digit', hourCycle: 'h23' }).format(new Date(at)));
+  const quiet = (at: number) => hourOf(at) >= QUIET_HOURS.startHour || hourOf(at) < QUIET_HOURS.endHour;
+  const steps: number[] = [];
+  const start = Math.floor((last.takenAt.getTime() - 30 * 3_600_000) / 1_800_000) * 1_800_000;
+  for (let at = start; at < last.takenAt.getTime() - 1_800_000; at += 1_800_000) if (quiet(at)) steps.push(at);
+  // The last whole quiet period: the newest run of back-to-back half hours at least five hours long.
+  const runs: number[][] = [];
+  for (const at of steps) {
+    const run = runs[runs.length - 1];
+    if (run && at - run[run.length - 1] === 1_800_000) run.push(at);
+    else runs.push([at]);
+  }
+  const night = runs.filter((r) => r.length >= 10).pop() ?? [];
+  const out: NewReading[] = [];
+  night.forEach((at, i) => {
+    const levelMm = Math.round(last.levelMm! + 10 + (night.length - 1 - i) * 2.5);
+    const v = readingToVolumes(setup, { kind: 'level', levelMm });
+    if (!v.ok) return;
+    out.push({
+      organisationId: tank.organisationId, farmId: tank.farmId, tankId: tank.id, takenAt: new Date(at), source: 'logger', levelMm, grossL: v.grossL, usableL: v.usableL,
+      temperatureC: null, calibrationVersion: tank.calibrationVersion, enteredById: null, importId: null, note: '', idempotencyKey: null,
+    });
+  });
   return out;
 }
 
@@ -119,6 +160,7 @@ export async function loadDemoScenario(db: Database, opts: { onlyIfEmpty?: boole
     }
     const since = new Date(Date.now() - 60 * 86_400_000);
     const readings: NewReading[] = [];
+    let rounds = 0;
     const worker = await User.findOne({ where: { organisationId: org.id, role: 'worker' }, transaction });
     const manager = await User.findOne({ where: { organisationId: org.id, role: 'manager' }, transaction });
     const workerFarms = new Set((await FarmAccess.findAll({ where: { userId: worker?.id ?? 0 }, transaction })).map((a) => a.farmId));
@@ -131,7 +173,9 @@ export async function loadDemoScenario(db: Database, opts: { onlyIfEmpty?: boole
       const tank = await Tank.create({ ...t, organisationId: org.id, farmId: farmIds.get(farm)!, sensorHeightMm: null, calibrationVersion: version, archivedAt: null }, { transaction });
       await TankCalibration.create({ organisationId: org.id, tankId: tank.id, version, geometry: t.geometry, datumOffsetMm: t.datumOffsetMm }, { transaction });
       await TankContentsPeriod.create({ organisationId: org.id, tankId: tank.id, contents: t.contents, contentsNote: t.contentsNote, specificGravity: t.specificGravity, fromAt: since, toAt: null, changedById: null }, { transaction });
-      readings.push(...demoReadings(tank, readings.length, readerOf(tank.farmId)));
+      const made = demoReadings(tank, rounds, readerOf(tank.farmId), timeZoneOf(tank.farmId));
+      rounds += made.filter((r) => r.source === 'round').length;
+      readings.push(...made);
     }
     const supplierIds = new Map<string, number>();
     for (const { key, ...sup } of scenario.suppliers) supplierIds.set(key, (await Supplier.create({ ...sup, organisationId: org.id, archivedAt: null }, { transaction })).id);

@@ -155,9 +155,9 @@ export async function acknowledgeFlag(ctx: AppContext, actor: SessionUser, id: n
 
 /**
  * Runs the rules after every commit that changes stock (folded per farm, at most every `delayMs`)
- * and every `sweepMs` for stale tanks. Returns a stop function.
+ * and every `sweepMs` for stale tanks (plus once `firstSweepMs` after start; null: not). Returns a stop function.
  */
-export function attachFlagRules(ctx: AppContext, opts: { delayMs?: number; sweepMs?: number } = {}): () => void {
+export function attachFlagRules(ctx: AppContext, opts: { delayMs?: number; sweepMs?: number; firstSweepMs?: number | null } = {}): () => void {
   const delayMs = opts.delayMs ?? 300;
   const pending = new Map<number, { organisationId: number; tanks: boolean; inputs: boolean; timer: NodeJS.Timeout }>();
   let running = Promise.resolve();
@@ -185,13 +185,23 @@ export function attachFlagRules(ctx: AppContext, opts: { delayMs?: number; sweep
   ctx.events.on('readings', onReadings);
   ctx.events.on('brew-temperature', onReadings);
   ctx.events.on('stock', onStock);
-  const sweep = setInterval(async () => {
+  const evaluateAll = async () => {
     const farms = await ctx.db.models.Farm.findAll({ where: { archivedAt: { [Op.is]: null } }, attributes: ['id', 'organisationId'] }).catch(() => []);
-    for (const f of farms) onReadings({ organisationId: f.organisationId, farmIds: [f.id] });
+    for (const f of farms) {
+      onReadings({ organisationId: f.organisationId, farmIds: [f.id] });
+      onStock({ organisationId: f.organisationId, farmIds: [f.id] });
+    }
+  };
+  const sweep = setInterval(async () => {
+    await evaluateAll();
     running = running.then(() => sendFlagDigests(ctx).then(() => undefined)).catch((err) => ctx.logger.error({ err }, 'flag digest failed'));
   }, opts.sweepMs ?? 10 * 60_000);
   sweep.unref();
+  // Shortly after start-up, every farm once: flags of data loaded while no server ran (the demo, a restore).
+  const first = opts.firstSweepMs === null ? null : setTimeout(() => void evaluateAll(), opts.firstSweepMs ?? 1000);
+  first?.unref();
   return () => {
+    if (first) clearTimeout(first);
     ctx.events.off('readings', onReadings);
     ctx.events.off('brew-temperature', onReadings);
     ctx.events.off('stock', onStock);

@@ -12,7 +12,7 @@ import { waitForMail } from '../support/mail';
 const env = useTestApp();
 let stop: () => void;
 beforeAll(() => {
-  stop = attachFlagRules(env.ctx, { delayMs: 0 });
+  stop = attachFlagRules(env.ctx, { delayMs: 0, firstSweepMs: null });
 });
 afterAll(() => stop());
 
