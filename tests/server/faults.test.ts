@@ -184,6 +184,7 @@ describe('faults on the shared test database', () => {
     for (let i = 0; i < 30; i++) {
       // The socket drops its transport a third of the way into the burst and stays away until it ends.
       if (i === 10) {
+        await waitFor('a first board push', async () => (pushes.length ? true : undefined), 10_000);
         const down = new Promise((r) => socket.once('disconnect', r));
         socket.io.engine.close();
         await down;
@@ -196,7 +197,6 @@ describe('faults on the shared test database', () => {
       if (!socket.connected) postedWhileDown++;
     }
     expect(postedWhileDown).toBe(20);
-    expect(pushes.length).toBeGreaterThan(0); // it did get pushes before it lost the socket
 
     const first = new Promise<StockBoard>((r) => socket.once('board', r));
     socket.connect();
