@@ -173,10 +173,33 @@ export interface LoadSummary {
 /** Rows per LOAD DATA statement (about 1.5 MB of text); one chunk is loaded while the next is being read. */
 export const LOAD_CHUNK_ROWS = 20_000;
 
-const sqlInstant = (ms: number) => {
-  const iso = new Date(ms).toISOString();
-  return `${iso.slice(0, 10)} ${iso.slice(11, 23)}`;
-};
+const TWO_DIGITS = Array.from({ length: 60 }, (_, i) => String(i).padStart(2, '0'));
+const THREE_DIGITS = Array.from({ length: 1000 }, (_, i) => String(i).padStart(3, '0'));
+
+/**
+ * A formatter of UTC instants as 'YYYY-MM-DD HH:MM:SS.mmm' for a DATETIME(3) column; the date part is
+ * kept per day, so a row costs a few divisions instead of a Date and toISOString (about 10× less).
+ */
+function sqlInstants(): (ms: number) => string {
+  let dayNumber = NaN;
+  let dayText = '';
+  return (instant) => {
+    // A Date drops a fraction of a millisecond the same way (toward zero).
+    const ms = Math.trunc(instant);
+    const day = Math.floor(ms / 86_400_000);
+    if (day !== dayNumber) {
+      dayNumber = day;
+      dayText = `${new Date(day * 86_400_000).toISOString().slice(0, 10)} `;
+    }
+    let rest = ms - day * 86_400_000;
+    const h = Math.floor(rest / 3_600_000);
+    rest -= h * 3_600_000;
+    const m = Math.floor(rest / 60_000);
+    rest -= m * 60_000;
+    const s = Math.floor(rest / 1000);
+    return `${dayText}${TWO_DIGITS[h]}:${TWO_DIGITS[m]}:${TWO_DIGITS[s]}.${THREE_DIGITS[rest - s * 1000]}`;
+  };
+}
 
 /**
  * The bulk insert path of logger imports: the readings of one tank, in any number, streamed into
@@ -189,6 +212,7 @@ const sqlInstant = (ms: number) => {
  */
 export function readingLoader(ctx: Pick<AppContext, 'db'>, base: LoadBase, timeZone: string, transaction: Transaction, chunkRows = LOAD_CHUNK_ROWS) {
   const dayOf = localDayOf(timeZone);
+  const sqlInstant = sqlInstants();
   const createdAt = new Date();
   let lines: string[] = [];
   let inFlight: Promise<void> | null = null;

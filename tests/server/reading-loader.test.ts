@@ -42,14 +42,14 @@ const daysOf = (tankId: number) =>
 describe('readingLoader', () => {
   it('stores every row with its values and counts them all new', async () => {
     const { tank, base } = await world();
-    const rows = [row('2025-06-01T00:00:00Z', 1200), row('2025-06-01T01:00:00Z', 1190, null), row('2025-06-01T02:00:00Z', 1180.25), row('2025-06-01T03:00:00Z', 1170), row('2025-06-01T04:00:00Z', 1160)];
+    const rows = [row('2025-06-01T00:00:00Z', 1200), row('2025-06-01T01:00:00Z', 1190, null), row('2025-06-01T02:34:56.789Z', 1180.25), row('2025-06-01T03:00:00Z', 1170), row('2025-06-01T04:00:00Z', 1160)];
     const summary = await load(base, rows);
     expect(summary.rowsNew).toBe(5);
     const stored = await env.ctx.db.models.Reading.findAll({ where: { tankId: tank.id }, order: [['takenAt', 'ASC']] });
     expect(stored.map((r) => [r.takenAt.toISOString(), r.levelMm, r.temperatureC])).toEqual([
       ['2025-06-01T00:00:00.000Z', 1200, 12.5],
       ['2025-06-01T01:00:00.000Z', 1190, null],
-      ['2025-06-01T02:00:00.000Z', 1180.25, 12.5],
+      ['2025-06-01T02:34:56.789Z', 1180.25, 12.5],
       ['2025-06-01T03:00:00.000Z', 1170, 12.5],
       ['2025-06-01T04:00:00.000Z', 1160, 12.5],
     ]);
