@@ -5,12 +5,18 @@ import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { randomUUID } from 'node:crypto';
+import { createServer, type Socket as TcpSocket } from 'node:net';
 import mariadb from 'mariadb';
+import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import type { Socket } from 'socket.io-client';
 import type { ImportMappingInput } from '@shared/imports';
 import type { ImportProgress, LoggerImportDetail, StockBoard } from '@shared/schemas';
+import { createApp } from '../../server/app';
+import { loadConfig } from '../../server/config';
 import type { Database } from '../../server/db';
+import { HEALTH_DB_TIMEOUT_MS } from '../../server/routes/health';
+import { createContext } from '../../server/start';
 import { ensureDatabase, startMariaDb, type MariaDbServer } from '../../scripts/lib/mariadb';
 import { freePort } from '../../scripts/lib/ports';
 import { makeOrganisation, type OrgFixture } from '../support/fixtures';
@@ -283,4 +289,32 @@ describe('faults of MariaDB itself', () => {
     expect(retry.body).toMatchObject({ id: importId, status: 'imported', rowsTotal: KILL_FILE_ROWS, rowsNew: KILL_FILE_ROWS, rowsDuplicate: 0, error: null });
     expect(await readingsOfTank(s, tankId)).toEqual({ n: KILL_FILE_ROWS, instants: KILL_FILE_ROWS });
   }, 150_000);
+});
+
+describe('GET /api/health against a database that never answers', () => {
+  it('answers 503 within its time limit when the database accepts connections but says nothing', async () => {
+    // A TCP listener that takes connections and never speaks: the connector would wait its whole connect timeout.
+    const held: TcpSocket[] = [];
+    const silent = createServer((sock) => void held.push(sock));
+    await new Promise<void>((r) => silent.listen(0, '127.0.0.1', () => r()));
+    const addr = silent.address();
+    const dataDir = mkdtempSync(join(tmpdir(), 'brimstock-fault-health-'));
+    const ctx = createContext(loadConfig({ NODE_ENV: 'test', DB_PORT: String(typeof addr === 'object' && addr ? addr.port : 0), DATA_DIR: dataDir, LOG_LEVEL: 'silent' }));
+    try {
+      const app = createApp(ctx, { staticDir: join(dataDir, 'no-client') });
+      const asked = Date.now();
+      const res = await request(app).get('/api/health');
+      const took = Date.now() - asked;
+      expect(res.status).toBe(503);
+      expect(res.body).toEqual({ status: 'degraded', database: 'down' });
+      expect(took).toBeGreaterThanOrEqual(HEALTH_DB_TIMEOUT_MS - 50);
+      expect(took).toBeLessThan(HEALTH_DB_TIMEOUT_MS + 1_500);
+    } finally {
+      for (const sock of held) sock.destroy();
+      await new Promise((r) => silent.close(r));
+      ctx.mailer.close();
+      await ctx.db.sequelize.close().catch(() => undefined);
+      rmSync(dataDir, { recursive: true, force: true });
+    }
+  }, 30_000);
 });
