@@ -363,6 +363,7 @@ export async function cancelOrder(ctx: AppContext, actor: SessionUser, id: numbe
  */
 export async function receiveOrder(ctx: AppContext, actor: SessionUser, id: number, body: OrderReceiptInput): Promise<OrderDto> {
   const at = body.at ? new Date(body.at) : new Date();
+  if (at.getTime() > Date.now() + 5 * 60_000) throw new AppError(400, 'invalid_input', 'at: a delivery cannot be booked in before it arrives (the date is in the future)', 'at');
   const farmId = await ctx.db.sequelize.transaction(async (transaction) => {
     const order = await orderFor(ctx, actor, id, transaction, true);
     if (order.status === 'received') throw new AppError(409, 'already_received', `${order.number} has been received in full already`);

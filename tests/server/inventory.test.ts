@@ -123,6 +123,9 @@ describe('purchase orders', () => {
     expect(part.body.status).toBe('part-received');
     const over = await call(buyer, 'post', `/api/orders/${o.id}/receipts`, { lines: [{ lineId: o.lines[0].id, quantity: 30 }] }).expect(422);
     expect(over.body.error.field).toBe('lines.0.quantity');
+    const tomorrow = await call(buyer, 'post', `/api/orders/${o.id}/receipts`, { at: new Date(Date.now() + 86_400_000).toISOString(), lines: [{ lineId: o.lines[0].id, quantity: 5 }] }).expect(400);
+    expect(tomorrow.body.error.field).toBe('at');
+    expect((await buyer.get(`/api/orders/${o.id}`)).body.lines[0].receivedQuantity).toBe(15);
     const rest = await call(buyer, 'post', `/api/orders/${o.id}/receipts`, { lines: [{ lineId: o.lines[0].id, quantity: 25 }] }).expect(200);
     expect(rest.body.status).toBe('received');
   });
