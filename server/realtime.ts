@@ -21,7 +21,13 @@ export function attachRealtime(ctx: AppContext, http: HttpServer, sessionMiddlew
   io.use(async (socket, next) => {
     const session = (socket.request as unknown as { session?: { userId?: number; signedInAt?: number } }).session;
     const fresh = session?.signedInAt && Date.now() - session.signedInAt <= ctx.config.session.absoluteMs;
-    const actor = session?.userId && fresh ? await sessionUserFor(ctx, session.userId) : null;
+    let actor: SessionUser | null;
+    try {
+      actor = session?.userId && fresh ? await sessionUserFor(ctx, session.userId) : null;
+    } catch (err) {
+      ctx.logger.error({ err }, 'socket sign-in check failed');
+      return next(new Error('unavailable'));
+    }
     if (!actor) return next(new Error('unauthenticated'));
     socket.data.actor = actor;
     next();
@@ -32,18 +38,28 @@ export function attachRealtime(ctx: AppContext, http: HttpServer, sessionMiddlew
     await socket.join([userRoom(actor.id), ...actor.farmIds.map(farmRoom)]);
   };
 
-  io.on('connection', async (socket) => {
+  // A failed board read (database gone for a moment) must not end the process: the socket is
+  // dropped and the client reconnects for a fresh board.
+  const failed = (socket: import('socket.io').Socket) => (err: unknown) => {
+    ctx.logger.error({ err }, 'board for a socket failed');
+    socket.disconnect(true);
+  };
+  io.on('connection', (socket) => {
     const actor = socket.data.actor as SessionUser;
-    await joinRooms(socket, actor);
-    socket.emit('board', await stockBoard(ctx, actor));
+    void (async () => {
+      await joinRooms(socket, actor);
+      socket.emit('board', await stockBoard(ctx, actor));
+    })().catch(failed(socket));
     // A client that lost its connection (or suspects it missed pushes) asks for the whole board again;
     // access is re-read so changed farm access applies.
-    socket.on('board:resync', async () => {
-      const now = await sessionUserFor(ctx, actor.id);
-      if (!now) return void socket.disconnect(true);
-      socket.data.actor = now;
-      await joinRooms(socket, now);
-      socket.emit('board', await stockBoard(ctx, now));
+    socket.on('board:resync', () => {
+      void (async () => {
+        const now = await sessionUserFor(ctx, actor.id);
+        if (!now) return void socket.disconnect(true);
+        socket.data.actor = now;
+        await joinRooms(socket, now);
+        socket.emit('board', await stockBoard(ctx, now));
+      })().catch(failed(socket));
     });
   });
 
@@ -92,11 +108,14 @@ export function attachRealtime(ctx: AppContext, http: HttpServer, sessionMiddlew
   };
   ctx.events.on('flags', onFlags);
   ctx.events.on('readings', onReadings);
+  // Newer cached use rates (computed off the request path) change days of cover: push those farms too.
+  ctx.events.on('forecasts', onReadings);
   ctx.events.on('user-changed', onUserChanged);
   ctx.events.on('user-event', onUserEvent);
   io.on('close', () => {
     ctx.events.off('flags', onFlags);
     ctx.events.off('readings', onReadings);
+    ctx.events.off('forecasts', onReadings);
     ctx.events.off('user-changed', onUserChanged);
     ctx.events.off('user-event', onUserEvent);
     for (const p of pending.values()) if (p.timer) clearTimeout(p.timer);

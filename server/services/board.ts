@@ -5,7 +5,7 @@ import { capacityL, type TankGeometry } from '@shared/calibration';
 import { totalsOf } from '@shared/board';
 import { TANK_CONTENTS, type BoardHistory, type FarmBoard, type SessionUser, type StockBoard, type TankContents, type TankTile } from '@shared/schemas';
 import type { AppContext } from '../context';
-import { refreshStaleForecasts } from './forecasts';
+import { queueForecastRefresh } from './forecasts';
 
 interface Row {
   tankId: number;
@@ -21,6 +21,21 @@ interface Row {
   temperatureC: number | null;
   takenAt: Date | null;
   useLPerDay: number | null;
+  forecastAt: Date | null;
+}
+
+// Capacity by geometry (as stored): the closed forms cost tens of microseconds a tank, and a
+// board of a thousand tanks is read on every request and every push.
+const capacities = new Map<string, number>();
+function capacityOf(stored: TankGeometry | string): number {
+  const key = typeof stored === 'string' ? stored : JSON.stringify(stored);
+  let cap = capacities.get(key);
+  if (cap === undefined) {
+    cap = capacityL(typeof stored === 'string' ? (JSON.parse(stored) as TankGeometry) : stored);
+    if (capacities.size >= 10_000) capacities.clear();
+    capacities.set(key, cap);
+  }
+  return cap;
 }
 
 /** The board for the farms the actor may see. */
@@ -30,14 +45,10 @@ export function stockBoard(ctx: AppContext, actor: SessionUser): Promise<StockBo
 
 /** The board of some farms of one organisation (callers check access). */
 export async function boardOf(ctx: AppContext, organisationId: number, farmIds: number[]): Promise<StockBoard> {
-  if (farmIds.length) {
-    const tankIds = (await ctx.db.models.Tank.findAll({ where: { organisationId, farmId: farmIds, archivedAt: null }, attributes: ['id'] })).map((t) => t.id);
-    await refreshStaleForecasts(ctx, tankIds);
-  }
   const rows = farmIds.length
     ? await ctx.db.sequelize.query<Row>(
         `SELECT t.id AS tankId, t.farmId, f.name AS farmName, t.name, t.code, t.contents, t.geometry, t.lowStockL,
-                l.grossL, l.usableL, l.temperatureC, l.takenAt, l.useLPerDay
+                l.grossL, l.usableL, l.temperatureC, l.takenAt, l.useLPerDay, l.forecastAt
            FROM tanks t JOIN farms f ON f.id = t.farmId
            LEFT JOIN tank_latest l ON l.tankId = t.id
           WHERE t.organisationId = ? AND t.farmId IN (?) AND t.archivedAt IS NULL AND f.archivedAt IS NULL
@@ -48,8 +59,7 @@ export async function boardOf(ctx: AppContext, organisationId: number, farmIds: 
   const farms = new Map<number, FarmBoard>();
   const all: TankTile[] = [];
   for (const r of rows) {
-    const geometry = typeof r.geometry === 'string' ? (JSON.parse(r.geometry) as TankGeometry) : r.geometry;
-    const cap = capacityL(geometry);
+    const cap = capacityOf(r.geometry);
     const tile: TankTile = {
       tankId: r.tankId,
       farmId: r.farmId,
@@ -73,6 +83,10 @@ export async function boardOf(ctx: AppContext, organisationId: number, farmIds: 
     farms.get(r.farmId)!.tanks.push(tile);
   }
   for (const f of farms.values()) f.totals = totalsOf(f.tanks);
+  // A rate older than the tank's latest reading is recomputed in the background (it reads up to
+  // 16 days of readings per tank); the board answers now with the rate cached so far.
+  const stale = rows.filter((r) => r.takenAt && (!r.forecastAt || new Date(r.forecastAt) < new Date(r.takenAt))).map((r) => r.tankId);
+  if (stale.length) void queueForecastRefresh(ctx, stale);
   return { generatedAt: new Date().toISOString(), totals: totalsOf(all), farms: [...farms.values()] };
 }
 

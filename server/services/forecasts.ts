@@ -1,6 +1,6 @@
 // Tank forecasts: use rate, days of cover and suspected leaks from shared/forecast, over the
 // tank's effective readings. The rate is cached in tank_latest so the board reads it cheaply.
-import { Op } from 'sequelize';
+import { col, Op } from 'sequelize';
 import { tankForecast, type TankForecast } from '@shared/forecast';
 import type { SessionUser } from '@shared/schemas';
 import type { AppContext } from '../context';
@@ -58,13 +58,57 @@ export async function forecastFor(ctx: AppContext, actor: SessionUser, tankId: n
   return computeForecast(ctx, tank, farm.timeZone);
 }
 
-/** Refreshes cached rates that are older than the tank's latest reading (at most `limit` tanks). */
-export async function refreshStaleForecasts(ctx: AppContext, tankIds: number[], limit = 50): Promise<void> {
-  if (!tankIds.length) return;
+/**
+ * Refreshes cached rates that are older than the tank's latest reading (at most `limit` tanks).
+ * Only the stale tanks are read. Returns the farms whose tanks got a new rate.
+ */
+export async function refreshStaleForecasts(ctx: AppContext, tankIds: number[], limit = 50): Promise<{ organisationId: number; farmIds: number[] }[]> {
+  if (!tankIds.length) return [];
   const { TankLatest, Tank, Farm } = ctx.db.models;
-  const stale = (await TankLatest.findAll({ where: { tankId: tankIds } })).filter((l) => !l.forecastAt || l.forecastAt < l.takenAt).slice(0, limit);
-  if (!stale.length) return;
+  const stale = await TankLatest.findAll({
+    where: { tankId: tankIds, [Op.or]: [{ forecastAt: null }, { forecastAt: { [Op.lt]: col('takenAt') } }] },
+    attributes: ['tankId'],
+    limit,
+  });
+  if (!stale.length) return [];
   const tanks = await Tank.findAll({ where: { id: stale.map((s) => s.tankId) } });
   const zones = new Map((await Farm.findAll({ where: { id: [...new Set(tanks.map((t) => t.farmId))] } })).map((f) => [f.id, f.timeZone]));
-  for (const t of tanks) await computeForecast(ctx, t, zones.get(t.farmId) ?? 'UTC');
+  const touched = new Map<number, Set<number>>();
+  for (const t of tanks) {
+    await computeForecast(ctx, t, zones.get(t.farmId) ?? 'UTC');
+    if (!touched.has(t.organisationId)) touched.set(t.organisationId, new Set());
+    touched.get(t.organisationId)!.add(t.farmId);
+  }
+  return [...touched].map(([organisationId, farms]) => ({ organisationId, farmIds: [...farms] }));
+}
+
+const refreshQueues = new WeakMap<AppContext, { pending: Set<number>; running: Promise<void> | null }>();
+
+/**
+ * Queues tanks whose cached rate is stale and refreshes them one batch at a time, off the request
+ * path: the board answers with the rate cached so far, and a 'forecasts' event { organisationId,
+ * farmIds } follows once newer rates are stored (the live board pushes those farms again).
+ * Returns a promise that settles when the queue has drained.
+ */
+export function queueForecastRefresh(ctx: AppContext, tankIds: number[]): Promise<void> {
+  let queue = refreshQueues.get(ctx);
+  if (!queue) refreshQueues.set(ctx, (queue = { pending: new Set(), running: null }));
+  for (const id of tankIds) queue.pending.add(id);
+  if (!queue.running && queue.pending.size) {
+    const q = queue;
+    q.running = (async () => {
+      while (q.pending.size) {
+        const batch = [...q.pending].slice(0, 50);
+        for (const id of batch) q.pending.delete(id);
+        try {
+          for (const farms of await refreshStaleForecasts(ctx, batch, batch.length)) ctx.events.emit('forecasts', farms);
+        } catch (err) {
+          ctx.logger.warn({ err }, 'forecast refresh failed');
+        }
+      }
+    })().finally(() => {
+      q.running = null;
+    });
+  }
+  return queue.running ?? Promise.resolve();
 }
