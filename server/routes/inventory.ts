@@ -36,7 +36,7 @@ export function inventoryRouter(ctx: AppContext) {
 
   router.get('/orders', purchasing, async (req, res) => {
     const q = parse(orderListQuery, req.query);
-    if (q.format === 'csv') return void res.type('text/csv').attachment('orders.csv').send(await ordersCsv(ctx, actorOf(req)));
+    if (q.format === 'csv') return void res.type('text/csv').attachment('orders.csv').send(await ordersCsv(ctx, actorOf(req), q));
     res.json(await listOrders(ctx, actorOf(req), q));
   });
   router.get('/orders/:id', purchasing, async (req, res) => void res.json(await getOrder(ctx, actorOf(req), idParam(req.params.id, 'Order'))));

@@ -231,11 +231,12 @@ async function toOrderDtos(ctx: AppContext, orders: PurchaseOrder[]): Promise<Or
   });
 }
 
-export async function listOrders(ctx: AppContext, actor: SessionUser, q: { status?: string; farmId?: number } = {}): Promise<OrderDto[]> {
+/** Orders newest first; the screen gets the newest `limit`, the CSV export (limit null) all of them. */
+export async function listOrders(ctx: AppContext, actor: SessionUser, q: { status?: string; farmId?: number } = {}, limit: number | null = 200): Promise<OrderDto[]> {
   const orders = await ctx.db.models.PurchaseOrder.findAll({
     where: { organisationId: actor.organisationId, farmId: q.farmId ? [q.farmId].filter((f) => actor.farmIds.includes(f)) : actor.farmIds, ...(q.status ? { status: q.status } : {}) },
     order: [['createdAt', 'DESC'], ['id', 'DESC']],
-    limit: 200,
+    ...(limit === null ? {} : { limit }),
   });
   return toOrderDtos(ctx, orders);
 }
@@ -390,8 +391,8 @@ export async function receiveOrder(ctx: AppContext, actor: SessionUser, id: numb
 }
 
 /** Orders as CSV, one row per line (cells starting with = + - @ defused). */
-export async function ordersCsv(ctx: AppContext, actor: SessionUser): Promise<string> {
-  const orders = await listOrders(ctx, actor);
+export async function ordersCsv(ctx: AppContext, actor: SessionUser, q: { status?: string; farmId?: number } = {}): Promise<string> {
+  const orders = await listOrders(ctx, actor, q, null);
   return Papa.unparse(
     {
       fields: ['order', 'status', 'farm', 'supplier', 'created', 'sent', 'item', 'quantity', 'unit', 'unit_price', 'line_total', 'received'],

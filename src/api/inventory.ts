@@ -97,9 +97,9 @@ export function fetchOrders(filter: OrderFilter = {}): Promise<PurchaseOrder[]> 
   return http.get<PurchaseOrder[]>(`/api/orders${query(filter)}`);
 }
 
-/** Where the browser downloads every order line as CSV. */
-export function ordersCsvUrl(): string {
-  return '/api/orders?format=csv';
+/** Where the browser downloads the order lines as CSV, with the same filter as the list. */
+export function ordersCsvUrl(filter: OrderFilter = {}): string {
+  return `/api/orders${query(filter, { format: 'csv' })}`;
 }
 
 /** One order with its lines. */

@@ -139,6 +139,10 @@ describe('purchase orders', () => {
     await call(buyer, 'patch', `/api/orders/${o.id}`, { notes: 'late' }).expect(409);
     const csv = await buyer.get('/api/orders?format=csv').expect(200);
     expect(csv.text.split('\n')[0]).toContain('order,status,farm,supplier');
+    expect(csv.text).toContain(o.number);
+    // The export follows the list's filter.
+    expect((await buyer.get('/api/orders?format=csv&status=sent').expect(200)).text).toContain(o.number);
+    expect((await buyer.get('/api/orders?format=csv&status=draft').expect(200)).text).not.toContain(o.number);
   });
 
   it('refuses a line for an input of another farm, naming the line', async () => {
