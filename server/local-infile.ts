@@ -7,10 +7,10 @@ import { Readable } from 'node:stream';
 const offered = new Map<string, Buffer>();
 const PREFIX = 'brimstock-memory/';
 
-/** Offers `text` to the next LOAD DATA LOCAL INFILE naming the returned name (the name goes in the SQL). */
-export function offerLocalInfile(text: string): string {
+/** Offers `data` to the next LOAD DATA LOCAL INFILE naming the returned name (the name goes in the SQL). */
+export function offerLocalInfile(data: Buffer): string {
   const name = `${PREFIX}${randomUUID()}`;
-  offered.set(name, Buffer.from(text, 'utf8'));
+  offered.set(name, data);
   return name;
 }
 
