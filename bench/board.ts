@@ -203,7 +203,9 @@ async function buildFixture(socketPath: string, dbName: string, perTank: number)
 }
 
 function startServer(env: Record<string, string>): Promise<ChildProcess> {
-  const server = spawn(process.execPath, ['--import', 'tsx', join(root, 'server/index.ts')], { cwd: root, env, stdio: ['ignore', 'pipe', 'inherit'] });
+  // BENCH_BOARD_CPU_PROF=<folder> writes a V8 CPU profile of the server there when it stops.
+  const profile = process.env.BENCH_BOARD_CPU_PROF ? ['--cpu-prof', `--cpu-prof-dir=${resolve(process.env.BENCH_BOARD_CPU_PROF)}`] : [];
+  const server = spawn(process.execPath, [...profile, '--import', 'tsx', join(root, 'server/index.ts')], { cwd: root, env, stdio: ['ignore', 'pipe', 'inherit'] });
   return new Promise((ok, fail) => {
     const timer = setTimeout(() => fail(new Error('server did not start in 60 s')), 60_000);
     server.stdout!.on('data', (chunk: Buffer) => {
