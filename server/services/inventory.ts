@@ -14,7 +14,7 @@ import type { Input, PurchaseOrder, StockMovement, Supplier } from '../models';
 import { escapeHtml } from '../mail/mailer';
 
 const DAY_MS = 86_400_000;
-/** Demand is estimated from the use of the last 60 days. */
+/** Demand is estimated from the use of the last 60 days (or of the days since the input's first movement, when fewer). */
 const DEMAND_WINDOW_DAYS = 60;
 
 // ---------- suppliers ----------
@@ -61,7 +61,10 @@ const asMovements = (rows: StockMovement[]) => rows.map((m) => ({ kind: m.kind, 
 function statusOf(input: Input, movements: StockMovement[], extra: { farmName: string; supplier: Supplier | null; onOrder: number; now: number }): InputStatus {
   const ms = asMovements(movements);
   const { onHand } = stockOnHand(ms);
-  const demand = demandFromMovements(ms, { windowDays: DEMAND_WINDOW_DAYS, now: extra.now });
+  // An input kept for less than the window is averaged over the days it has been kept, not over 60.
+  const firstAt = ms.reduce((t, m) => Math.min(t, m.at), extra.now);
+  const keptDays = Math.max(1, Math.round((extra.now - firstAt) / 86_400_000));
+  const demand = demandFromMovements(ms, { windowDays: Math.min(DEMAND_WINDOW_DAYS, keptDays), now: extra.now });
   const leadTimeDays = input.leadTimeDays ?? extra.supplier?.leadTimeDays ?? 7;
   const advice = suggestOrder({
     now: extra.now, onHand, onOrder: extra.onOrder, dailyDemand: demand.dailyMean, dailyDemandSd: demand.dailySd, leadTimeDays,

@@ -15,8 +15,9 @@ describe('inputs', () => {
     const res = await buyer.get('/api/inputs').expect(200);
     const row = res.body.find((r: { id: number }) => r.id === input.id);
     expect(row.onHand).toBeCloseTo(30, 9);
-    // 5 L on each of the last 20 of 60 days: mean 5·20/60 per day, and ROP = d·L + z·σ·√L from the shared function.
-    expect(row.dailyDemand).toBeCloseTo(100 / 60, 9);
+    // 5 L on each of the last 20 days of an input kept for 21 (opening stock 21 days ago, under the
+    // 60-day window): mean 5·20/21 per day, and ROP = d·L + z·σ·√L from the shared function.
+    expect(row.dailyDemand).toBeCloseTo(100 / 21, 9);
     expect(row.reorderPoint).toBeCloseTo(reorderPoint({ dailyDemand: row.dailyDemand, dailyDemandSd: row.dailyDemandSd, leadTimeDays: 7, serviceLevel: 0.95 }), 9);
     expect(row.due).toBe(row.onHand <= row.reorderPoint);
     expect(row.suggestedQuantity % 20).toBe(0);
