@@ -119,6 +119,18 @@ describe('realtime board', () => {
     expect(watch.farms.filter((f) => f.farmId === org.farmIds[1])).toEqual([]);
   });
 
+  it('pushes a farm again once a new tank reading\'s use rate has been worked out in the background', async () => {
+    const tankC = (await makeTank(env, org, org.farmIds[0], { code: 'C' })).id;
+    const manager = await session(org.users.manager.email);
+    const watch = await open(manager.cookie);
+    await round(manager, org.farmIds[0], tankC, 900);
+    const tileC = (f: FarmBoard) => f.tanks.find((t) => t.tankId === tankC);
+    await until(() => watch.farms.some((f) => tileC(f)?.grossL != null));
+    // The first push answers at once, before the rate exists; the refreshed rate follows in a later push.
+    expect(tileC(watch.farms.find((f) => tileC(f)?.grossL != null)!)!.useLPerDay).toBeNull();
+    await until(() => watch.farms.some((f) => tileC(f)?.useLPerDay != null));
+  });
+
   it('sends the whole board again when a client asks to resync', async () => {
     const manager = await session(org.users.manager.email);
     const watch = await open(manager.cookie);
