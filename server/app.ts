@@ -90,6 +90,13 @@ function errorHandler(ctx: AppContext): ErrorRequestHandler {
     } else if (err?.type === 'entity.too.large') {
       status = 413;
       body = { code: 'too_large', message: 'The request body is too large' };
+    } else if (err?.type === 'encoding.unsupported' || err?.type === 'charset.unsupported') {
+      status = 415;
+      body = { code: 'unsupported_body', message: 'The request body is sent in an encoding or character set the server does not read; send plain or gzip-compressed UTF-8 JSON' };
+    } else if (err?.expose === true && Number.isInteger(err.status) && err.status >= 400 && err.status < 500) {
+      // Other body-reading failures the parser marks as the client's (a body that is not the gzip it claims, an aborted request).
+      status = err.status;
+      body = { code: 'bad_body', message: `The request body could not be read (${String(err.message).slice(0, 200)})` };
     } else if (err?.name === 'SequelizeConnectionError' || err?.name === 'SequelizeConnectionRefusedError' || err?.name === 'SequelizeConnectionAcquireTimeoutError') {
       status = 503;
       body = { code: 'database_down', message: 'The database is not reachable right now; try again shortly' };

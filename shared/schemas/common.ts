@@ -10,8 +10,14 @@ export const UNIT_SYSTEMS = ['metric', 'us'] as const;
 /** A unit system name. */
 export type UnitSystem = (typeof UNIT_SYSTEMS)[number];
 
-/** Positive integer id from a route parameter or body (accepts "12"). */
-export const idSchema = z.coerce.number().int().positive();
+/**
+ * Positive integer id from a route parameter or body: a number, or its digits as text ("12"). Nothing
+ * else is turned into a number, so true, [1] or "1e3" are refused rather than read as ids 1 and 1000.
+ */
+export const idSchema = z.preprocess(
+  (v) => (typeof v === 'string' && /^\s*\d+\s*$/.test(v) ? Number(v) : v),
+  z.number({ error: 'must be a whole number id' }).int('must be a whole number id').positive('must be a whole number id above 0'),
+);
 
 /** Trimmed, non-empty text of at most `max` characters. */
 export const text = (max: number) => z.string().trim().min(1, 'Required').max(max, `At most ${max} characters`);
