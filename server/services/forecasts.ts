@@ -19,17 +19,36 @@ export interface TankForecastDto extends Omit<TankForecast, 'projectedEmptyAt' |
   leaks: { from: string; to: string; lossL: number; rateLPerHour: number }[];
 }
 
-/** Computes a tank's forecast now and caches its use rate beside the latest reading. */
-export async function computeForecast(ctx: AppContext, tank: Tank, timeZone: string): Promise<TankForecastDto> {
-  const { Reading, TankLatest } = ctx.db.models;
-  const now = Date.now();
-  const latest = await TankLatest.findByPk(tank.id);
-  const rows = await Reading.findAll({
-    where: { tankId: tank.id, correctedById: null, takenAt: { [Op.gte]: new Date(now - (WINDOW_DAYS + 2) * 86_400_000) } },
+/** The tank's effective readings of the forecast window (plus two days), oldest first, as plain rows. */
+async function seriesOf(ctx: AppContext, tankId: number, now: number): Promise<{ takenAt: number; volumeL: number }[]> {
+  const rows = await ctx.db.models.Reading.findAll({
+    where: { tankId, correctedById: null, takenAt: { [Op.gte]: new Date(now - (WINDOW_DAYS + 2) * 86_400_000) } },
     attributes: ['takenAt', 'grossL'],
     order: [['takenAt', 'ASC']],
+    // Up to ~1,500 rows for a logger every 15 min: plain rows, no model instances.
+    raw: true,
   });
-  const series = rows.map((r) => ({ takenAt: r.takenAt.getTime(), volumeL: r.grossL }));
+  return rows.map((r) => ({ takenAt: new Date(r.takenAt).getTime(), volumeL: r.grossL }));
+}
+
+/**
+ * Recomputes only the cached use rate (what the board shows): the same windowed daily use as
+ * computeForecast, without its cover and leak passes.
+ */
+async function refreshRate(ctx: AppContext, tank: Tank, timeZone: string): Promise<void> {
+  const latest = await ctx.db.models.TankLatest.findByPk(tank.id);
+  if (!latest) return;
+  const now = Date.now();
+  const f = tankForecast(await seriesOf(ctx, tank.id, now), { geometry: tank.geometry, usableL: latest.usableL, levelMm: latest.levelMm, now, timeZone, windowDays: WINDOW_DAYS });
+  await latest.update({ useLPerDay: f.meanLPerDay, useSdLPerDay: f.sdLPerDay, forecastAt: new Date(now) });
+}
+
+/** Computes a tank's forecast now and caches its use rate beside the latest reading. */
+export async function computeForecast(ctx: AppContext, tank: Tank, timeZone: string): Promise<TankForecastDto> {
+  const { TankLatest } = ctx.db.models;
+  const now = Date.now();
+  const latest = await TankLatest.findByPk(tank.id);
+  const series = await seriesOf(ctx, tank.id, now);
   // Cover runs from the latest reading: the use since then is taken off at the mean rate.
   const f0 = tankForecast(series, {
     geometry: tank.geometry, usableL: latest?.usableL ?? 0, levelMm: latest?.levelMm ?? 0, now: latest ? latest.takenAt.getTime() : now, timeZone, windowDays: WINDOW_DAYS,
@@ -75,7 +94,7 @@ export async function refreshStaleForecasts(ctx: AppContext, tankIds: number[], 
   const zones = new Map((await Farm.findAll({ where: { id: [...new Set(tanks.map((t) => t.farmId))] } })).map((f) => [f.id, f.timeZone]));
   const touched = new Map<number, Set<number>>();
   for (const t of tanks) {
-    await computeForecast(ctx, t, zones.get(t.farmId) ?? 'UTC');
+    await refreshRate(ctx, t, zones.get(t.farmId) ?? 'UTC');
     if (!touched.has(t.organisationId)) touched.set(t.organisationId, new Set());
     touched.get(t.organisationId)!.add(t.farmId);
   }
