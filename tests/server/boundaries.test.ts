@@ -4,20 +4,27 @@
 // strings, SQL-looking text, null, lists and objects in place of scalars. The field list and the bounds
 // come from the shared zod schemas the routes parse with. Every answer must be below 500; a 400 names
 // the field in both `field` and the message; a refused request changes no stored row; nonsense is
-// never accepted; and text that is accepted is stored exactly as sent (trimmed).
+// never accepted; and text that is accepted is stored exactly as sent (trimmed). Query strings of the
+// list routes and the :id of every route get the same treatment.
 import { gzipSync } from 'node:zlib';
 import { QueryTypes } from 'sequelize';
 import { z } from 'zod';
 import { beforeAll, describe, expect, it } from 'vitest';
 import {
   brewCreateSchema,
+  brewListQuerySchema,
   brewTemperatureSchema,
+  calibrationQuerySchema,
   brewUpdateSchema,
   correctionSchema,
   farmCreateSchema,
   farmUpdateSchema,
   flagAckSchema,
+  flagListQuerySchema,
+  gaugeStripQuerySchema,
+  importListQuerySchema,
   inputCreateSchema,
+  inputListQuerySchema,
   inputUpdateSchema,
   invitationSchema,
   movementCreateSchema,
@@ -28,7 +35,9 @@ import {
   passwordResetSchema,
   personUpdateSchema,
   profileSchema,
+  readingsQuerySchema,
   roundSubmitSchema,
+  seriesQuerySchema,
   setPasswordSchema,
   signInSchema,
   supplierCreateSchema,
@@ -410,5 +419,48 @@ describe('boundary values through every JSON body route', () => {
       expect(res.status).toBeLessThan(500);
       expect(typeof res.body.error?.message).toBe('string');
     }
+  });
+});
+
+describe('boundary values in query strings and route parameters', () => {
+  const QUERIES: { name: string; url: () => string; schema: z.ZodType }[] = [
+    { name: '/api/imports', url: () => '/api/imports', schema: importListQuerySchema },
+    { name: '/api/tanks/:id/readings', url: () => `/api/tanks/${tankId}/readings`, schema: readingsQuerySchema },
+    { name: '/api/tanks/:id/series', url: () => `/api/tanks/${tankId}/series`, schema: seriesQuerySchema },
+    { name: '/api/tanks/:id/calibration', url: () => `/api/tanks/${tankId}/calibration`, schema: calibrationQuerySchema },
+    { name: '/api/tanks/:id/gauge-strip.pdf', url: () => `/api/tanks/${tankId}/gauge-strip.pdf`, schema: gaugeStripQuerySchema },
+    { name: '/api/flags', url: () => '/api/flags', schema: flagListQuerySchema },
+    { name: '/api/brews', url: () => '/api/brews', schema: brewListQuerySchema },
+    { name: '/api/inputs', url: () => '/api/inputs', schema: inputListQuerySchema },
+  ];
+  // As a browser or a hand-typed URL sends them; a repeated key arrives as a list.
+  const QUERY_VALUES = ['-1', '0', 'NaN', 'Infinity', '1e308', '1.5', '', SQL, UNICODE, 'x'.repeat(4000), '%00', ['1', '2']];
+
+  it.each(QUERIES.map((q) => [q.name, q] as const))('%s: every query field answers below 500 and a 400 names it', async (_name, q) => {
+    const problems: string[] = [];
+    for (const key of Object.keys(shapeOf(q.schema) ?? {})) {
+      for (const value of QUERY_VALUES) {
+        const res = await owner.get(q.url()).query({ [key]: value });
+        const err = res.body?.error;
+        if (res.status >= 500) problems.push(`${key}=${String(value).slice(0, 20)}: ${res.status}`);
+        else if (res.status === 400 && !(typeof err?.field === 'string' && err.field.split('.')[0] === key && err.message.startsWith(`${err.field}: `))) problems.push(`${key}=${String(value).slice(0, 20)}: 400 ${JSON.stringify(err)}`);
+      }
+    }
+    expect(problems).toEqual([]);
+  });
+
+  it('answers a route id that is not a positive whole number with 404 on every route, never a server error', async () => {
+    const routes: string[] = env.app.locals.apiRoutes;
+    const withId = routes.filter((r) => r.includes('/:id') && !r.startsWith('GET /api/dev'));
+    expect(withId.length).toBeGreaterThan(10);
+    const problems: string[] = [];
+    for (const r of withId) {
+      const [method, path] = r.split(' ');
+      for (const id of ['0', '-1', '1.5', '1e3', 'abc', '9007199254740993', `1;${encodeURIComponent(SQL)}`, '%00', encodeURIComponent(UNICODE)]) {
+        const res = await call(owner, method.toLowerCase() as 'get' | 'post' | 'patch', path.replace(':id', id), method === 'GET' ? undefined : {});
+        if (res.status !== 404) problems.push(`${method} ${path.replace(':id', id)}: ${res.status} ${res.text.slice(0, 120)}`);
+      }
+    }
+    expect(problems).toEqual([]);
   });
 });
