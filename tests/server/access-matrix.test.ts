@@ -1,6 +1,7 @@
 // The access matrix: every API route × role × target (own farm, another farm of the same
 // organisation, another organisation) with the status the server must answer. The route list
 // comes from the app itself, so a new route without a row here fails the first test.
+import { createHash } from 'node:crypto';
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
@@ -217,7 +218,7 @@ async function freshImport(w: World, s: Scope, status: 'imported' | 'failed'): P
   const content = `time,level_mm\n${new Date(Date.UTC(2025, 0, 1) + seq * 60_000).toISOString()},500\n`;
   mkdirSync(env.ctx.config.uploadDir, { recursive: true });
   writeFileSync(join(env.ctx.config.uploadDir, storedName), content);
-  const r = await env.ctx.db.models.LoggerImport.create({ organisationId: t.organisationId, farmId: t.farmId, tankId: t.id, uploadedById: null, originalName: 'matrix.csv', storedName, sizeBytes: content.length, sha256: '0'.repeat(64), mapping: MATRIX_MAPPING, policy: 'reject-file', status, delimiter: null, error: null, duplicateOfId: null, startedAt: null, finishedAt: null });
+  const r = await env.ctx.db.models.LoggerImport.create({ organisationId: t.organisationId, farmId: t.farmId, tankId: t.id, uploadedById: null, originalName: 'matrix.csv', storedName, sizeBytes: content.length, sha256: createHash('sha256').update(content).digest('hex'), mapping: MATRIX_MAPPING, policy: 'reject-file', status, delimiter: null, error: null, duplicateOfId: null, startedAt: null, finishedAt: null });
   return r.id;
 }
 
