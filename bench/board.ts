@@ -236,7 +236,9 @@ async function warmForecasts(base: string, manager: Session, staleCount: () => P
 /** (a) autocannon against the board data endpoint. */
 async function boardLoad(base: string, manager: Session): Promise<BenchFigure[]> {
   const opts = { url: `${base}/api/board`, headers: { cookie: manager.cookie } };
-  await autocannon({ ...opts, connections: 10, duration: 3 }); // warm-up, not reported
+  // Warm-up, not a figure: one connection shows what a single request costs with no queueing.
+  const single = await autocannon({ ...opts, connections: 1, duration: 5 });
+  log(`board warm-up, 1 connection: ${single.requests.total} requests, ${single.latency.p50} ms p50, ${single.latency.p99} ms p99, ${Math.round(single.throughput.average / 1024)} kB/s`);
   const r = await autocannon({ ...opts, connections: BOARD_CONNECTIONS, duration: BOARD_SECONDS });
   const label = `GET /api/board (manager, ${FARMS * TANKS_PER_FARM} tanks), ${BOARD_CONNECTIONS} connections, ${BOARD_SECONDS} s`;
   const failed = r.non2xx + r.errors + r.timeouts;
