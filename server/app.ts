@@ -19,6 +19,7 @@ import { inventoryRouter } from './routes/inventory';
 import { flagsRouter } from './routes/flags';
 import { brewsRouter } from './routes/brews';
 import { importsRouter } from './routes/imports';
+import { invalidateBoards } from './services/board';
 
 export function createApp(ctx: AppContext, opts: { staticDir?: string } = {}) {
   const app = express();
@@ -36,6 +37,11 @@ export function createApp(ctx: AppContext, opts: { staticDir?: string } = {}) {
   api.use(sessionMiddleware);
   api.use(csrfProtection(csrf));
   api.use(loadActor(ctx));
+  // Any write may change what a board shows: kept boards are rebuilt after it.
+  api.use((req, res, next) => {
+    if (req.method !== 'GET' && req.method !== 'HEAD') res.once('finish', invalidateBoards);
+    next();
+  });
   const mounts: [string, Router][] = [
     ['/auth', authRouter(ctx, csrf)],
     ['/farms', farmsRouter(ctx)],

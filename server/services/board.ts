@@ -1,5 +1,6 @@
 // The stock board: totals of water, fertilizer, pest solution and culture from each tank's
 // latest reading (tank_latest), across the farms a user may see and per farm.
+import { createHash } from 'node:crypto';
 import { QueryTypes } from 'sequelize';
 import { capacityL, type TankGeometry } from '@shared/calibration';
 import { totalsOf } from '@shared/board';
@@ -102,6 +103,50 @@ export async function boardOf(ctx: AppContext, organisationId: number, farmIds: 
   const stale = rows.filter((r) => r.takenAt && (!r.forecastAt || new Date(r.forecastAt) < new Date(r.takenAt))).map((r) => r.tankId);
   if (stale.length) void queueForecastRefresh(ctx, stale);
   return { generatedAt: new Date().toISOString(), totals: totalsOf(all), farms: [...farms.values()] };
+}
+
+/**
+ * The board as JSON text, kept per organisation and farm set while nothing it shows has changed.
+ * A cheap fingerprint query (counts and maxima over tanks, farms and tank_latest) and a generation
+ * the app bumps after every write request validate a kept copy; days of cover count down with the
+ * clock, so a copy is also rebuilt after `BOARD_CACHE_MS`.
+ */
+const BOARD_CACHE_MS = 30_000;
+const boardCache = new Map<string, { fingerprint: string; generation: number; builtAt: number; json: string; etag: string }>();
+let boardGeneration = 0;
+
+/** Marks every kept board out of date (called after any write request). */
+export function invalidateBoards(): void {
+  boardGeneration++;
+}
+
+async function boardFingerprint(ctx: AppContext, organisationId: number, farmIds: number[]): Promise<string> {
+  const [row] = await ctx.db.sequelize.query<{ t: string; f: string; l: string }>(
+    `SELECT
+       (SELECT CONCAT(COUNT(*), '/', COALESCE(MAX(updatedAt), '')) FROM tanks WHERE organisationId = :org AND farmId IN (:farms)) AS t,
+       (SELECT CONCAT(COUNT(*), '/', COALESCE(MAX(updatedAt), '')) FROM farms WHERE organisationId = :org AND id IN (:farms)) AS f,
+       (SELECT CONCAT(COUNT(*), '/', COALESCE(SUM(readingId), 0), '/', COALESCE(MAX(takenAt), ''), '/', COALESCE(MAX(forecastAt), ''), '/',
+               COALESCE(SUM(grossL), 0), '/', COALESCE(SUM(temperatureC), 0), '/', COALESCE(SUM(useLPerDay), 0))
+          FROM tank_latest WHERE organisationId = :org AND farmId IN (:farms)) AS l`,
+    { replacements: { org: organisationId, farms: farmIds }, type: QueryTypes.SELECT },
+  );
+  return `${row.t}|${row.f}|${row.l}`;
+}
+
+/** The actor's board as JSON text with an entity tag, from the kept copy when it is still right. */
+export async function stockBoardJson(ctx: AppContext, actor: SessionUser): Promise<{ json: string; etag: string }> {
+  if (!actor.farmIds.length) return { json: JSON.stringify(await stockBoard(ctx, actor)), etag: '"board-empty"' };
+  const farmIds = [...actor.farmIds].sort((a, b) => a - b);
+  const key = `${actor.organisationId}:${farmIds.join(',')}`;
+  const generation = boardGeneration;
+  const fingerprint = await boardFingerprint(ctx, actor.organisationId, farmIds);
+  const kept = boardCache.get(key);
+  if (kept && kept.fingerprint === fingerprint && kept.generation === generation && Date.now() - kept.builtAt < BOARD_CACHE_MS) return kept;
+  const json = JSON.stringify(await boardOf(ctx, actor.organisationId, farmIds));
+  const entry = { fingerprint, generation, builtAt: Date.now(), json, etag: `"board-${createHash('sha1').update(json).digest('base64url')}"` };
+  if (boardCache.size >= 1_000) boardCache.clear();
+  boardCache.set(key, entry);
+  return entry;
 }
 
 /** Usable litres per contents for each of the last `days` days, carrying each tank's last known value forward. */
