@@ -5,7 +5,7 @@ import { tankFlagConditions, type FlagCondition } from '@shared/flags';
 import type { Flag as FlagDto, FlagKind, SessionUser } from '@shared/schemas';
 import type { AppContext } from '../context';
 import { AppError, forbidden, notFound } from '../errors';
-import type { Flag } from '../models';
+import type { Flag, Tank } from '../models';
 import { computeForecast } from './forecasts';
 import { listInputs } from './inventory';
 import { mailRaisedFlags, sendFlagDigests } from './flag-mail';
@@ -59,6 +59,19 @@ function newestTemperature(latest: { takenAt: Date; temperatureC: number | null 
   return latest?.temperatureC ?? null;
 }
 
+// Suspected leaks read up to 16 days of readings per tank; they change only with a new latest
+// reading (or a correction) or as the window moves on, so each tank's are kept until then.
+const leakCache = new Map<number, { key: string; leaks: { lossL: number; rateLPerHour: number }[] }>();
+async function leaksOf(ctx: AppContext, tank: Tank, timeZone: string, latest: { readingId: number; takenAt: Date }) {
+  const key = `${latest.readingId}:${latest.takenAt.getTime()}:${Math.floor(Date.now() / 3_600_000)}:${tank.lowStockL}:${timeZone}`;
+  const kept = leakCache.get(tank.id);
+  if (kept?.key === key) return kept.leaks;
+  const leaks = (await computeForecast(ctx, tank, timeZone, { store: false })).leaks.map((x) => ({ lossL: x.lossL, rateLPerHour: x.rateLPerHour }));
+  if (leakCache.size >= 50_000) leakCache.clear();
+  leakCache.set(tank.id, { key, leaks });
+  return leaks;
+}
+
 /** Evaluates every tank of some farms; returns the farms whose flags changed. */
 export async function evaluateTankFlags(ctx: AppContext, organisationId: number, farmIds: number[]): Promise<number[]> {
   const { Tank, Farm, TankLatest } = ctx.db.models;
@@ -73,7 +86,7 @@ export async function evaluateTankFlags(ctx: AppContext, organisationId: number,
     for (const tank of tanks) {
       const l = latest.get(tank.id);
       const temperatureC = newestTemperature(l ?? null, brewTemps.get(tank.id) ?? null);
-      const leaks = l ? (await computeForecast(ctx, tank, farm.timeZone)).leaks : [];
+      const leaks = l ? await leaksOf(ctx, tank, farm.timeZone, l) : [];
       const holding = farm.archivedAt
         ? []
         : tankFlagConditions({

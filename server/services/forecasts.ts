@@ -43,8 +43,8 @@ async function refreshRate(ctx: AppContext, tank: Tank, timeZone: string): Promi
   await latest.update({ useLPerDay: f.meanLPerDay, useSdLPerDay: f.sdLPerDay, forecastAt: new Date(now) });
 }
 
-/** Computes a tank's forecast now and caches its use rate beside the latest reading. */
-export async function computeForecast(ctx: AppContext, tank: Tank, timeZone: string): Promise<TankForecastDto> {
+/** Computes a tank's forecast now and caches its use rate beside the latest reading (unless `store` is false). */
+export async function computeForecast(ctx: AppContext, tank: Tank, timeZone: string, opts: { store?: boolean } = {}): Promise<TankForecastDto> {
   const { TankLatest } = ctx.db.models;
   const now = Date.now();
   const latest = await TankLatest.findByPk(tank.id);
@@ -59,7 +59,7 @@ export async function computeForecast(ctx: AppContext, tank: Tank, timeZone: str
     geometry: tank.geometry, usableL: usableNowL, levelMm: latest?.levelMm ?? 0, now, timeZone, windowDays: WINDOW_DAYS,
     quietHours: QUIET_HOURS, leakThresholdLPerHour: Math.max(1, tank.lowStockL / 100),
   });
-  if (latest) await latest.update({ useLPerDay: f.meanLPerDay, useSdLPerDay: f.sdLPerDay, forecastAt: new Date(now) });
+  if (latest && opts.store !== false) await latest.update({ useLPerDay: f.meanLPerDay, useSdLPerDay: f.sdLPerDay, forecastAt: new Date(now) });
   return {
     ...f,
     tankId: tank.id,
