@@ -41,6 +41,17 @@ export function sessions(ctx: AppContext): RequestHandler {
       userId: s.userId ?? null,
     }),
   });
+  // A rolling session is touched on every request; writing its new expiry at most once a minute
+  // per session keeps reads (the board, polling clients) from costing a database write each.
+  const touchedAt = new Map<string, number>();
+  const touch = store.touch.bind(store);
+  store.touch = (sid: string, data: session.SessionData, done?: (err?: unknown) => void) => {
+    const now = Date.now();
+    if (now - (touchedAt.get(sid) ?? 0) < 60_000) return done?.();
+    if (touchedAt.size >= 100_000) touchedAt.clear();
+    touchedAt.set(sid, now);
+    return touch(sid, data, done);
+  };
   return session({
     name: ctx.config.session.cookieName,
     secret: ctx.config.session.secret,
