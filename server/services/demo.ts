@@ -99,41 +99,45 @@ function demoReadings(tank: import('../models').Tank, index: number, workerId: n
       calibrationVersion: tank.calibrationVersion, enteredById: workerId, importId: null, note: frosty ? 'Ice on the lid' : '', idempotencyKey: null,
     });
   }
-  return tank.code === 'MF-W1' ? [...out, ...demoLeakNight(tank, out, setup, timeZone)] : out;
+  return tank.code === 'MF-W1' ? withLeakNight(out, setup, timeZone) : out;
 }
 
 /**
- * The header tank's logger saw a steady loss through last night's quiet hours (about 30 L/h, with
- * no irrigation planned): a fitting weeping somewhere. Readings every 30 minutes inside the quiet
- * hours before the latest round, ending just above that round's level (invented figures).
+ * The header tank's logger saw a steady loss through last night's quiet hours (about 60 L/h, with
+ * no irrigation planned): a fitting weeping somewhere. Readings every 30 minutes through the newest
+ * stretch of quiet hours clear of any round, falling from the round before it; the rounds after
+ * the night carry the loss on (invented figures).
  */
-function demoLeakNight(tank: import('../models').Tank, rounds: NewReading[], setup: Parameters<typeof readingToVolumes>[0], zone: string): NewReading[] {
+function withLeakNight(rounds: NewReading[], setup: Parameters<typeof readingToVolumes>[0], zone: string): NewReading[] {
   const last = rounds[rounds.length - 1];
-  if (!last) return [];
+  if (!last) return rounds;
   const hourOf = (at: number) => Number(new Intl.DateTimeFormat('en-GB', { timeZone: zone, hour: '2-digit', hourCycle: 'h23' }).format(new Date(at)));
   const quiet = (at: number) => hourOf(at) >= QUIET_HOURS.startHour || hourOf(at) < QUIET_HOURS.endHour;
+  const nearRound = (at: number) => rounds.some((r) => Math.abs(r.takenAt.getTime() - at) < 45 * 60_000);
   const steps: number[] = [];
   const start = Math.floor((last.takenAt.getTime() - 30 * 3_600_000) / 1_800_000) * 1_800_000;
-  for (let at = start; at < last.takenAt.getTime() - 1_800_000; at += 1_800_000) if (quiet(at)) steps.push(at);
-  // The last whole quiet period: the newest run of back-to-back half hours at least five hours long.
+  for (let at = start; at < last.takenAt.getTime(); at += 1_800_000) if (quiet(at) && !nearRound(at)) steps.push(at);
+  // The newest run of back-to-back half hours at least two hours long (a round in the night splits it).
   const runs: number[][] = [];
   for (const at of steps) {
     const run = runs[runs.length - 1];
     if (run && at - run[run.length - 1] === 1_800_000) run.push(at);
     else runs.push([at]);
   }
-  const night = runs.filter((r) => r.length >= 10).pop() ?? [];
-  const out: NewReading[] = [];
-  night.forEach((at, i) => {
-    const levelMm = Math.round(last.levelMm! + 10 + (night.length - 1 - i) * 2.5);
+  const night = runs.filter((r) => r.length >= 4).pop();
+  const before = night && [...rounds].reverse().find((r) => r.takenAt.getTime() < night[0]);
+  if (!night || !before) return rounds;
+  const levelAt = (i: number) => Math.round(before.levelMm! - 5 - i * 5);
+  const dropMm = before.levelMm! - levelAt(night.length - 1);
+  const reading = (r: NewReading, levelMm: number): NewReading => {
     const v = readingToVolumes(setup, { kind: 'level', levelMm });
-    if (!v.ok) return;
-    out.push({
-      organisationId: tank.organisationId, farmId: tank.farmId, tankId: tank.id, takenAt: new Date(at), source: 'logger', levelMm, grossL: v.grossL, usableL: v.usableL,
-      temperatureC: null, calibrationVersion: tank.calibrationVersion, enteredById: null, importId: null, note: '', idempotencyKey: null,
-    });
-  });
-  return out;
+    return v.ok ? { ...r, levelMm, grossL: v.grossL, usableL: v.usableL } : r;
+  };
+  const logger = night.map((at, i) =>
+    reading({ ...before, takenAt: new Date(at), source: 'logger', temperatureC: null, enteredById: null, note: '', idempotencyKey: null }, levelAt(i)),
+  );
+  const end = night[night.length - 1];
+  return [...rounds.map((r) => (r.takenAt.getTime() > end ? reading(r, r.levelMm! - dropMm) : r)), ...logger];
 }
 
 /** Loads the scenario; with onlyIfEmpty, does nothing when an organisation exists. Returns true when loaded. */

@@ -32,6 +32,11 @@ describe('flags of the demo scenario', () => {
     expect(bySubject('cold-culture')).toEqual(['Culture cone B (HR-C2)']);
     expect(bySubject('frost-risk')).toEqual(['Fertigation tote (MF-F1)']);
     expect(bySubject('suspected-leak')).toEqual(['Flats header tank (MF-W1)']);
+    // The logger's night: 5 mm a half hour off a drum 1.6 m across and 3.8 m long, roughly 40–80 L/h.
+    const leak = flags.find((f) => f.kind === 'suspected-leak')!;
+    const rate = Number(/\(([\d.,]+) L\/h\)/.exec(leak.message)![1].replace(/,/g, ''));
+    expect(rate).toBeGreaterThan(15);
+    expect(rate).toBeLessThan(120);
     expect(bySubject('overfill')).toEqual(['Orchard cistern (SO-W1)']);
     expect(bySubject('stale-tank')).toEqual(['Ball tank by the gate (SO-W2)']);
     expect(bySubject('reorder-due')).toContain('Blackstrap molasses');
