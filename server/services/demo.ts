@@ -105,8 +105,7 @@ function demoReadings(tank: import('../models').Tank, index: number, workerId: n
 /**
  * The header tank's logger saw a steady loss through last night's quiet hours (about 60 L/h, with
  * no irrigation planned): a fitting weeping somewhere. Readings every 30 minutes through the newest
- * stretch of quiet hours clear of any round, falling from the round before it; the rounds after
- * the night carry the loss on (invented figures).
+ * stretch of quiet hours clear of any round before the latest one (invented figures).
  */
 function withLeakNight(rounds: NewReading[], setup: Parameters<typeof readingToVolumes>[0], zone: string): NewReading[] {
   const last = rounds[rounds.length - 1];
@@ -125,19 +124,28 @@ function withLeakNight(rounds: NewReading[], setup: Parameters<typeof readingToV
     else runs.push([at]);
   }
   const night = runs.filter((r) => r.length >= 4).pop();
-  const before = night && [...rounds].reverse().find((r) => r.takenAt.getTime() < night[0]);
-  if (!night || !before) return rounds;
-  const levelAt = (i: number) => Math.round(before.levelMm! - 5 - i * 5);
-  const dropMm = before.levelMm! - levelAt(night.length - 1);
-  const reading = (r: NewReading, levelMm: number): NewReading => {
-    const v = readingToVolumes(setup, { kind: 'level', levelMm });
-    return v.ok ? { ...r, levelMm, grossL: v.grossL, usableL: v.usableL } : r;
-  };
-  const logger = night.map((at, i) =>
-    reading({ ...before, takenAt: new Date(at), source: 'logger', temperatureC: null, enteredById: null, note: '', idempotencyKey: null }, levelAt(i)),
-  );
+  if (!night) return rounds;
+  const first = night[0];
   const end = night[night.length - 1];
-  return [...rounds.map((r) => (r.takenAt.getTime() > end ? reading(r, r.levelMm! - dropMm) : r)), ...logger];
+  const before = [...rounds].reverse().find((r) => r.takenAt.getTime() < first);
+  const after = rounds.find((r) => r.takenAt.getTime() > end);
+  // Quiet all the way between two instants: one quiet period, which the leak rule reads as a whole.
+  const oneQuietPeriod = (a: number, b: number) => {
+    for (let at = a; at <= b; at += 15 * 60_000) if (!quiet(at)) return false;
+    return true;
+  };
+  // The readings fall 5 mm a half hour from the round that shares their quiet period (or into the
+  // next round), so the quiet hours hold only the leak, never a day's draw.
+  const fromBefore = before !== undefined && oneQuietPeriod(before.takenAt.getTime(), first);
+  const anchor = fromBefore ? before : after;
+  if (!anchor) return rounds;
+  const levelAt = (i: number) => Math.round(fromBefore ? anchor.levelMm! - 5 - i * 5 : anchor.levelMm! + 5 + (night.length - 1 - i) * 5);
+  const logger = night.flatMap((at, i) => {
+    const levelMm = levelAt(i);
+    const v = readingToVolumes(setup, { kind: 'level', levelMm });
+    return v.ok ? [{ ...anchor, takenAt: new Date(at), source: 'logger' as const, levelMm, grossL: v.grossL, usableL: v.usableL, temperatureC: null, enteredById: null, note: '', idempotencyKey: null }] : [];
+  });
+  return [...rounds, ...logger];
 }
 
 /** Loads the scenario; with onlyIfEmpty, does nothing when an organisation exists. Returns true when loaded. */
