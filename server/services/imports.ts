@@ -5,17 +5,15 @@
 // transaction) so they survive a rolled-back file and can be downloaded.
 import { createHash, randomUUID } from 'node:crypto';
 import { createReadStream } from 'node:fs';
-import { open, rm, stat } from 'node:fs/promises';
+import { rm, stat } from 'node:fs/promises';
 import { join } from 'node:path';
 import Papa from 'papaparse';
 import { Op, UniqueConstraintError, type Transaction, type WhereOptions } from 'sequelize';
 import {
-  SNIFF_BYTES,
   createImportReader,
   csvParseOptions,
   delimiterCandidates,
   mappingProblem,
-  sniffCsv,
   stripBom,
   type FieldDelimiter,
   type ImportMapping,
@@ -28,6 +26,7 @@ import { AppError, forbidden, notFound } from '../errors';
 import { assertFarmAccess } from '../middleware/access';
 import type { Farm, LoggerImport, Tank } from '../models';
 import { readingLoader, tankSetup } from './readings';
+import { assertUploadsReadable, readHead } from './upload-checks';
 import { tankFor } from './tanks';
 
 /** Records per parsed batch: the file is paused while a batch is checked, converted and queued for loading. */
@@ -60,16 +59,6 @@ export async function discardUploads(files: UploadedFile[]): Promise<void> {
   await Promise.all(files.map((f) => rm(f.path, { force: true })));
 }
 
-async function readHead(path: string): Promise<Uint8Array> {
-  const fh = await open(path, 'r');
-  try {
-    const buf = Buffer.alloc(SNIFF_BYTES);
-    const { bytesRead } = await fh.read(buf, 0, SNIFF_BYTES, 0);
-    return buf.subarray(0, bytesRead);
-  } finally {
-    await fh.close();
-  }
-}
 
 async function sha256Of(path: string): Promise<string> {
   const hash = createHash('sha256');
@@ -368,10 +357,7 @@ export async function importUploads(ctx: AppContext, actor: SessionUser, input: 
     const { tank, farm } = await writableTank(ctx, actor, input.tankId);
     if (!files.length) throw new AppError(400, 'invalid_input', 'files: attach at least one CSV file', 'files');
     assertMappingFits(input.mapping, tank);
-    for (const f of files) {
-      const verdict = sniffCsv(await readHead(f.path));
-      if (!verdict.ok) throw new AppError(415, 'not_csv', `files: "${labelOf(f.originalName)}" cannot be imported: ${verdict.reason}`, 'files');
-    }
+    await assertUploadsReadable(files, input.mapping);
     const { LoggerImport } = ctx.db.models;
     const done: LoggerImport[] = [];
     for (const f of files) {

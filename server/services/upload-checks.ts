@@ -20,7 +20,8 @@ export function declaredTypeProblem(mimetype: string | undefined): string | null
   return `it was sent as ${type.slice(0, 100)}, not as CSV text; choose the logger's CSV export`;
 }
 
-async function readHead(path: string): Promise<Uint8Array> {
+/** The first SNIFF_BYTES bytes of a stored upload. */
+export async function readHead(path: string): Promise<Uint8Array> {
   const fh = await open(path, 'r');
   try {
     const buf = Buffer.alloc(SNIFF_BYTES);
