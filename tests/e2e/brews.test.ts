@@ -5,25 +5,13 @@
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { readScenario } from '../../server/services/demo';
-import { launch, pickOption, screenshot, type Browser } from '../support/browser';
+import { launch, pickOption, quantityOf, screenshot, signInAs, type Browser } from '../support/browser';
 
 const { baseUrl } = inject('app');
 const worker = readScenario().people.find((p) => p.role === 'worker')!;
 const PHONE = { viewport: { width: 360, height: 740 }, isMobile: true };
 
-async function signIn(page: Page) {
-  await page.goto(`${baseUrl}/sign-in`);
-  await page.getByTestId('signin-email').fill(worker.email);
-  await page.locator('[data-testid="signin-password"] input, input[data-testid="signin-password"]').first().fill(worker.password);
-  await page.getByTestId('signin-submit').click();
-  await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
-}
-
-function quantityOf(text: string): number {
-  const m = /(-?[\d,]+(?:\.\d+)?)/.exec(text);
-  if (!m) throw new Error(`no number in "${text}"`);
-  return Number(m[1]!.replace(/,/g, ''));
-}
+const signIn = (page: Page) => signInAs(page, baseUrl, worker);
 
 async function molassesOnHand(page: Page): Promise<number> {
   await page.goto(`${baseUrl}/inputs`);

@@ -5,7 +5,7 @@
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { readScenario } from '../../server/services/demo';
-import { launch, screenshot, type Browser } from '../support/browser';
+import { launch, quantityOf, screenshot, signInAs, type Browser } from '../support/browser';
 import { waitForMail } from '../support/mail';
 
 const { baseUrl, outboxDir } = inject('app');
@@ -13,21 +13,9 @@ const scenario = readScenario();
 const buyer = scenario.people.find((p) => p.role === 'buyer')!;
 const PHONE = { viewport: { width: 360, height: 740 }, isMobile: true };
 
-async function signIn(page: Page) {
-  await page.goto(`${baseUrl}/sign-in`);
-  await page.getByTestId('signin-email').fill(buyer.email);
-  await page.locator('[data-testid="signin-password"] input, input[data-testid="signin-password"]').first().fill(buyer.password);
-  await page.getByTestId('signin-submit').click();
-  await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
-}
+const signIn = (page: Page) => signInAs(page, baseUrl, buyer);
 
 /** A quantity as the screen prints it ("1,021.5 L") as a number. */
-function quantityOf(text: string): number {
-  const m = /(-?[\d,]+(?:\.\d+)?)/.exec(text);
-  if (!m) throw new Error(`no number in "${text}"`);
-  return Number(m[1]!.replace(/,/g, ''));
-}
-
 /** The demo supplier of a demo input, by the input's name. */
 function supplierOf(inputName: string) {
   const input = scenario.inputs.find((i) => i.name === inputName);

@@ -5,21 +5,14 @@
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { readScenario } from '../../server/services/demo';
-import { launch, pickOption, screenshot, type Browser } from '../support/browser';
+import { launch, pickOption, screenshot, signInAs, type Browser } from '../support/browser';
 
 const { baseUrl } = inject('app');
 const people = readScenario().people;
 const demo = (role: string) => people.find((p) => p.role === role)!;
 const PHONE = { viewport: { width: 360, height: 740 }, isMobile: true };
 
-async function signIn(page: Page, role: string) {
-  const who = demo(role);
-  await page.goto(`${baseUrl}/sign-in`);
-  await page.getByTestId('signin-email').fill(who.email);
-  await page.locator('[data-testid="signin-password"] input, input[data-testid="signin-password"]').first().fill(who.password);
-  await page.getByTestId('signin-submit').click();
-  await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
-}
+const signIn = (page: Page, role: string) => signInAs(page, baseUrl, demo(role));
 
 const opened: Browser[] = [];
 afterEach(async () => {

@@ -7,7 +7,7 @@ import { join } from 'node:path';
 import { afterEach, beforeEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { readScenario } from '../../server/services/demo';
-import { launch, pickOption, screenshot, type Browser } from '../support/browser';
+import { launch, pickOption, screenshot, signInAs, type Browser } from '../support/browser';
 
 const { baseUrl } = inject('app');
 const worker = readScenario().people.find((p) => p.role === 'worker')!;
@@ -29,13 +29,7 @@ function spanOf(path: string): [string, string] {
   return [new Date(Math.min(...stamps)).toISOString(), new Date(Math.max(...stamps)).toISOString()];
 }
 
-async function signIn(page: Page) {
-  await page.goto(`${baseUrl}/sign-in`);
-  await page.getByTestId('signin-email').fill(worker.email);
-  await page.locator('[data-testid="signin-password"] input, input[data-testid="signin-password"]').first().fill(worker.password);
-  await page.getByTestId('signin-submit').click();
-  await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
-}
+const signIn = (page: Page) => signInAs(page, baseUrl, worker);
 
 /** Opens a PrimeVue Select and clicks the option with exactly this text. */
 async function pick(page: Page, testId: string, option: string) {

@@ -9,7 +9,7 @@ import type { Page } from 'playwright-core';
 import { capacityL, TANK_SHAPES, type TankGeometry } from '@shared/calibration';
 import { formatVolume } from '@shared/units';
 import { readScenario } from '../../server/services/demo';
-import { launch, screenshot, type Browser } from '../support/browser';
+import { launch, screenshot, signInAs, type Browser } from '../support/browser';
 
 const { baseUrl } = inject('app');
 const manager = readScenario().people.find((p) => p.role === 'manager')!;
@@ -27,13 +27,7 @@ afterEach(async () => {
   while (opened.length) await opened.pop()!.close();
 });
 
-async function signIn(page: Page) {
-  await page.goto(`${baseUrl}/sign-in`);
-  await page.getByTestId('signin-email').fill(manager.email);
-  await page.locator('[data-testid="signin-password"] input, input[data-testid="signin-password"]').first().fill(manager.password);
-  await page.getByTestId('signin-submit').click();
-  await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
-}
+const signIn = (page: Page) => signInAs(page, baseUrl, manager);
 
 async function openFarm(page: Page) {
   await page.goto(`${baseUrl}/farms`);

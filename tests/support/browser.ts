@@ -60,3 +60,19 @@ export async function pickOption(page: Page, testId: string, option: string | Re
     }
   }
 }
+
+/** Signs a demo person in through the sign-in screen and waits to leave it. */
+export async function signInAs(page: Page, baseUrl: string, who: { email: string; password: string }): Promise<void> {
+  await page.goto(`${baseUrl}/sign-in`);
+  await page.getByTestId('signin-email').fill(who.email);
+  await page.locator('[data-testid="signin-password"] input, input[data-testid="signin-password"]').first().fill(who.password);
+  await page.getByTestId('signin-submit').click();
+  await page.waitForURL((url) => !url.pathname.startsWith('/sign-in'));
+}
+
+/** The first number in a shown quantity ("1,234.5 L" → 1234.5). */
+export function quantityOf(text: string): number {
+  const m = /(-?[\d,]+(?:\.\d+)?)/.exec(text);
+  if (!m) throw new Error(`no number in "${text}"`);
+  return Number(m[1]!.replace(/,/g, ''));
+}
