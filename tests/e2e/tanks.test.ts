@@ -58,8 +58,20 @@ async function startTank(page: Page, name: string, code: string) {
   await page.getByTestId('tank-code').fill(code);
 }
 
+/**
+ * Saves the new tank and opens its page. Waits for the editor to have taken every size (its capacity
+ * shows) first; when the save is never sent or refused, fails with what the dialog says.
+ */
 async function createAndOpen(page: Page): Promise<number> {
+  await page.getByTestId('tank-capacity-value').waitFor();
+  const saved = page.waitForResponse((r) => r.request().method() === 'POST' && new URL(r.url()).pathname === '/api/tanks', { timeout: 20_000 }).catch(() => null);
   await page.getByTestId('tank-submit').click();
+  const answer = await saved;
+  if (answer?.status() !== 201) {
+    await screenshot(page, 'tank-create-failed');
+    const dialog = await page.getByTestId('tank-dialog').innerText().catch(() => '(no dialog)');
+    throw new Error(`the new tank was ${answer ? `refused (${answer.status()}: ${await answer.text()})` : 'never sent'}; the dialog says:\n${dialog}`);
+  }
   await page.waitForURL(/\/tanks\/\d+/);
   await page.getByTestId('tank-title').waitFor();
   return Number(new URL(page.url()).pathname.split('/').pop());
