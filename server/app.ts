@@ -1,6 +1,7 @@
 // Builds the Express app (no listening here: tests drive it with supertest).
 import { existsSync } from 'node:fs';
 import { join } from 'node:path';
+import compression from 'compression';
 import express, { type ErrorRequestHandler, type Router } from 'express';
 import { pinoHttp } from 'pino-http';
 import type { AppContext } from './context';
@@ -26,6 +27,7 @@ export function createApp(ctx: AppContext, opts: { staticDir?: string } = {}) {
   app.disable('x-powered-by');
   app.set('trust proxy', ctx.config.session.secureCookie ? 1 : false);
   app.use(securityHeaders());
+  app.use(compression());
   app.use(pinoHttp({ logger: ctx.logger, autoLogging: { ignore: (req) => req.url === '/api/health' } }));
 
   const api = express.Router();
@@ -39,7 +41,7 @@ export function createApp(ctx: AppContext, opts: { staticDir?: string } = {}) {
   api.use(loadActor(ctx));
   // Any write may change what a board shows: kept boards are rebuilt after it.
   api.use((req, res, next) => {
-    if (req.method !== 'GET' && req.method !== 'HEAD') res.once('finish', invalidateBoards);
+    if (req.method !== 'GET' && req.method !== 'HEAD') res.once('finish', () => invalidateBoards(ctx));
     next();
   });
   const mounts: [string, Router][] = [

@@ -6,9 +6,9 @@ import type { RequestHandler } from 'express';
 import { Server } from 'socket.io';
 import type { SessionUser } from '@shared/schemas';
 import type { AppContext } from './context';
-import { sessionUserFor } from './services/auth';
 import { boardOf, stockBoard } from './services/board';
 import { activeFlagsOf } from './services/flags';
+import { keptSessionUser } from './services/kept-identity';
 
 export const THROTTLE_MS = 250;
 const farmRoom = (id: number) => `farm:${id}`;
@@ -23,7 +23,7 @@ export function attachRealtime(ctx: AppContext, http: HttpServer, sessionMiddlew
     const fresh = session?.signedInAt && Date.now() - session.signedInAt <= ctx.config.session.absoluteMs;
     let actor: SessionUser | null;
     try {
-      actor = session?.userId && fresh ? await sessionUserFor(ctx, session.userId) : null;
+      actor = session?.userId && fresh ? await keptSessionUser(ctx, session.userId) : null;
     } catch (err) {
       ctx.logger.error({ err }, 'socket sign-in check failed');
       return next(new Error('unavailable'));
@@ -54,7 +54,7 @@ export function attachRealtime(ctx: AppContext, http: HttpServer, sessionMiddlew
     // access is re-read so changed farm access applies.
     socket.on('board:resync', () => {
       void (async () => {
-        const now = await sessionUserFor(ctx, actor.id);
+        const now = await keptSessionUser(ctx, actor.id);
         if (!now) return void socket.disconnect(true);
         socket.data.actor = now;
         await joinRooms(socket, now);

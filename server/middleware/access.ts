@@ -1,10 +1,11 @@
-// Access control in one place: who is signed in (loaded fresh on every request, so role changes
-// and deactivation apply at once), role gates, and the farm scope every query goes through.
+// Access control in one place: who is signed in (kept in memory only until a user, farm or access
+// row is written, so role changes and deactivation apply at once), role gates, and the farm scope
+// every query goes through.
 import type { NextFunction, Request, Response } from 'express';
 import type { Role, SessionUser } from '@shared/schemas';
 import type { AppContext } from '../context';
 import { AppError, forbidden } from '../errors';
-import { sessionUserFor } from '../services/auth';
+import { keptSessionUser } from '../services/kept-identity';
 
 declare module 'express-session' {
   interface SessionData {
@@ -24,7 +25,7 @@ export function loadActor(ctx: AppContext) {
     const { userId, signedInAt } = req.session ?? {};
     if (!userId) return next();
     const expired = !signedInAt || Date.now() - signedInAt > ctx.config.session.absoluteMs;
-    const actor = expired ? null : await sessionUserFor(ctx, userId);
+    const actor = expired ? null : await keptSessionUser(ctx, userId);
     if (!actor) {
       await new Promise<void>((r) => req.session.destroy(() => r()));
       return next();

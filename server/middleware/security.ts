@@ -6,6 +6,7 @@ import helmet from 'helmet';
 import { csrfSync } from 'csrf-sync';
 import type { AppContext } from '../context';
 import { AppError } from '../errors';
+import { keepSessionReads } from '../services/kept-identity';
 
 export type CsrfTools = ReturnType<typeof csrfSync>;
 
@@ -41,6 +42,7 @@ export function sessions(ctx: AppContext): RequestHandler {
       userId: s.userId ?? null,
     }),
   });
+  keepSessionReads(ctx, store);
   // A rolling session is touched on every request; writing its new expiry at most once a minute
   // per session keeps reads (the board, polling clients) from costing a database write each.
   const touchedAt = new Map<string, number>();

@@ -1,13 +1,16 @@
 import { Router } from 'express';
 import type { AppContext } from '../context';
 import { actorOf, requireSignIn } from '../middleware/access';
-import { boardHistory, stockBoardJson } from '../services/board';
+import { boardHistory, gzippedBoard, stockBoardJson } from '../services/board';
 
 export function boardRouter(ctx: AppContext) {
   const router = Router();
   router.get('/', requireSignIn, async (req, res) => {
-    const { json, etag } = await stockBoardJson(ctx, actorOf(req));
-    res.set('ETag', etag).type('application/json').send(json);
+    const board = await stockBoardJson(ctx, actorOf(req));
+    res.set('Vary', 'Accept-Encoding').type('application/json');
+    // The kept copy is gzipped once (its own entity tag); the compression middleware leaves an encoded body alone.
+    if (req.acceptsEncodings('gzip', 'identity') === 'gzip') res.set({ ETag: board.etag.replace(/"$/, '-gz"'), 'Content-Encoding': 'gzip' }).send(await gzippedBoard(board));
+    else res.set('ETag', board.etag).send(board.json);
   });
   router.get('/history', requireSignIn, async (req, res) => {
     res.json(await boardHistory(ctx, actorOf(req), 14));

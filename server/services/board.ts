@@ -1,12 +1,16 @@
 // The stock board: totals of water, fertilizer, pest solution and culture from each tank's
 // latest reading (tank_latest), across the farms a user may see and per farm.
 import { createHash } from 'node:crypto';
+import { promisify } from 'node:util';
+import { gzip } from 'node:zlib';
 import { QueryTypes } from 'sequelize';
 import { capacityL, type TankGeometry } from '@shared/calibration';
 import { totalsOf } from '@shared/board';
 import { TANK_CONTENTS, type BoardHistory, type FarmBoard, type SessionUser, type StockBoard, type TankContents, type TankTile } from '@shared/schemas';
 import type { AppContext } from '../context';
 import { queueForecastRefresh } from './forecasts';
+
+const gzipAsync = promisify(gzip);
 
 interface Row {
   tankId: number;
@@ -106,18 +110,50 @@ export async function boardOf(ctx: AppContext, organisationId: number, farmIds: 
 }
 
 /**
- * The board as JSON text, kept per organisation and farm set while nothing it shows has changed.
- * A cheap fingerprint query (counts and maxima over tanks, farms and tank_latest) and a generation
- * the app bumps after every write request validate a kept copy; days of cover count down with the
- * clock, so a copy is also rebuilt after `BOARD_CACHE_MS`.
+ * The board as JSON, kept per organisation and farm set while nothing it shows has changed. A
+ * generation moves on after every write request and every in-process event that changes stock,
+ * flags or use rates; a cheap fingerprint query (counts and maxima over tanks, farms and
+ * tank_latest) also catches writes from outside this process, at most `FINGERPRINT_MS` late. Days
+ * of cover count down with the clock, so a copy is rebuilt after `BOARD_CACHE_MS` anyway.
  */
 const BOARD_CACHE_MS = 30_000;
-const boardCache = new Map<string, { fingerprint: string; generation: number; builtAt: number; json: string; etag: string }>();
-let boardGeneration = 0;
+const FINGERPRINT_MS = 1_000;
+const BOARD_EVENTS = ['readings', 'stock', 'flags', 'forecasts', 'brew-temperature'];
 
-/** Marks every kept board out of date (called after any write request). */
-export function invalidateBoards(): void {
-  boardGeneration++;
+export interface KeptBoard {
+  json: Buffer;
+  etag: string;
+  /** The same bytes gzipped, made on first ask. */
+  gzip?: Promise<Buffer>;
+}
+interface BoardEntry extends KeptBoard {
+  fingerprint: string;
+  generation: number;
+  builtAt: number;
+  checkedAt: number;
+}
+interface BoardKeep {
+  generation: number;
+  entries: Map<string, BoardEntry>;
+  /** Checks and rebuilds under way, per key. */
+  flights: Map<string, { generation: number; board: Promise<BoardEntry> }>;
+}
+const keeps = new WeakMap<AppContext, BoardKeep>();
+
+function keepOf(ctx: AppContext): BoardKeep {
+  let keep = keeps.get(ctx);
+  if (!keep) {
+    const made: BoardKeep = { generation: 0, entries: new Map(), flights: new Map() };
+    for (const event of BOARD_EVENTS) ctx.events.on(event, () => void made.generation++);
+    keeps.set(ctx, made);
+    keep = made;
+  }
+  return keep;
+}
+
+/** Marks every kept board of this server out of date (called after any write request). */
+export function invalidateBoards(ctx: AppContext): void {
+  keepOf(ctx).generation++;
 }
 
 async function boardFingerprint(ctx: AppContext, organisationId: number, farmIds: number[]): Promise<string> {
@@ -133,20 +169,50 @@ async function boardFingerprint(ctx: AppContext, organisationId: number, farmIds
   return `${row.t}|${row.f}|${row.l}`;
 }
 
-/** The actor's board as JSON text with an entity tag, from the kept copy when it is still right. */
-export async function stockBoardJson(ctx: AppContext, actor: SessionUser): Promise<{ json: string; etag: string }> {
-  if (!actor.farmIds.length) return { json: JSON.stringify(await stockBoard(ctx, actor)), etag: '"board-empty"' };
+/**
+ * The actor's board as JSON bytes with an entity tag, from the kept copy when it is still right.
+ * Requests that find the copy out of date at the same moment share one check and one rebuild.
+ */
+export async function stockBoardJson(ctx: AppContext, actor: SessionUser): Promise<KeptBoard> {
+  if (!actor.farmIds.length) return { json: Buffer.from(JSON.stringify(await stockBoard(ctx, actor))), etag: '"board-empty"' };
+  const keep = keepOf(ctx);
   const farmIds = [...actor.farmIds].sort((a, b) => a - b);
   const key = `${actor.organisationId}:${farmIds.join(',')}`;
-  const generation = boardGeneration;
-  const fingerprint = await boardFingerprint(ctx, actor.organisationId, farmIds);
-  const kept = boardCache.get(key);
-  if (kept && kept.fingerprint === fingerprint && kept.generation === generation && Date.now() - kept.builtAt < BOARD_CACHE_MS) return kept;
-  const json = JSON.stringify(await boardOf(ctx, actor.organisationId, farmIds));
-  const entry = { fingerprint, generation, builtAt: Date.now(), json, etag: `"board-${createHash('sha1').update(json).digest('base64url')}"` };
-  if (boardCache.size >= 1_000) boardCache.clear();
-  boardCache.set(key, entry);
+  const generation = keep.generation;
+  const flight = keep.flights.get(key);
+  if (flight && flight.generation === generation) return flight.board;
+  const kept = keep.entries.get(key);
+  const now = Date.now();
+  const current = kept && kept.generation === generation && now - kept.builtAt < BOARD_CACHE_MS ? kept : undefined;
+  if (current && now - current.checkedAt < FINGERPRINT_MS) return current;
+  const board = refreshBoard(ctx, keep, key, actor.organisationId, farmIds, generation, current).finally(() => {
+    if (keep.flights.get(key)?.board === board) keep.flights.delete(key);
+  });
+  keep.flights.set(key, { generation, board });
+  return board;
+}
+
+async function refreshBoard(ctx: AppContext, keep: BoardKeep, key: string, organisationId: number, farmIds: number[], generation: number, current: BoardEntry | undefined): Promise<BoardEntry> {
+  const fingerprint = await boardFingerprint(ctx, organisationId, farmIds);
+  if (current && current.fingerprint === fingerprint) {
+    current.checkedAt = Date.now();
+    return current;
+  }
+  const json = Buffer.from(JSON.stringify(await boardOf(ctx, organisationId, farmIds)));
+  const builtAt = Date.now();
+  const entry: BoardEntry = { fingerprint, generation, builtAt, checkedAt: builtAt, json, etag: `"board-${createHash('sha1').update(json).digest('base64url')}"` };
+  if (keep.entries.size >= 1_000) keep.entries.clear();
+  keep.entries.set(key, entry);
   return entry;
+}
+
+/** The kept board's bytes gzipped (once per copy, off the main thread). */
+export function gzippedBoard(board: KeptBoard): Promise<Buffer> {
+  board.gzip ??= gzipAsync(board.json).catch((err: unknown) => {
+    board.gzip = undefined;
+    throw err;
+  });
+  return board.gzip;
 }
 
 /** Usable litres per contents for each of the last `days` days, carrying each tank's last known value forward. */
