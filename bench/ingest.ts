@@ -169,6 +169,7 @@ export async function runIngestBench(): Promise<BenchFigure[]> {
     DATA_DIR: dir,
     CLIENT_DIR: join(dir, 'no-client'),
     DB_PORT: String(db.port),
+    DB_SOCKET: db.socketPath,
     DB_NAME: 'brimstock_bench',
     SMTP_PORT: String(smtpPort),
     LOG_LEVEL: 'info',

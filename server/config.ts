@@ -15,6 +15,7 @@ const schema = z.object({
   CLIENT_DIR: z.string().default('dist'),
   DB_HOST: z.string().default('127.0.0.1'),
   DB_PORT: z.coerce.number().int().min(1).max(65535).default(3407),
+  DB_SOCKET: z.string().optional(),
   DB_NAME: z.string().regex(/^[A-Za-z0-9_]+$/).default('brimstock'),
   DB_USER: z.string().default('brimstock'),
   DB_PASSWORD: z.string().default('brimstock-dev'),
@@ -62,7 +63,7 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     clientDir: resolve(c.CLIENT_DIR),
     uploadDir: resolve(dataDir, 'uploads'),
     outboxDir: resolve(dataDir, 'outbox'),
-    db: { host: c.DB_HOST, port: c.DB_PORT, name: c.DB_NAME, user: c.DB_USER, password: c.DB_PASSWORD, poolMax: c.DB_POOL_MAX },
+    db: { host: c.DB_HOST, port: c.DB_PORT, socketPath: c.DB_SOCKET || null, name: c.DB_NAME, user: c.DB_USER, password: c.DB_PASSWORD, poolMax: c.DB_POOL_MAX },
     session: {
       secret: c.SESSION_SECRET,
       cookieName: 'brimstock.sid',

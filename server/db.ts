@@ -43,7 +43,7 @@ export function createDatabase(config: Pick<Config, 'db'>, opts: { logging?: fal
     logging: opts.logging ?? false,
     pool: { max: config.db.poolMax, min: 0, acquire: 20_000, idle: 10_000 },
     // LOAD DATA LOCAL INFILE streams logger rows from memory only (server/local-infile.ts), never a file by path.
-    dialectOptions: { connectTimeout: 5_000, permitLocalInfile: true, infileStreamFactory: localInfileStream },
+    dialectOptions: { connectTimeout: 5_000, permitLocalInfile: true, infileStreamFactory: localInfileStream, ...(config.db.socketPath ? { socketPath: config.db.socketPath } : {}) },
     timezone: '+00:00',
   });
   return { sequelize, models: initModels(sequelize) };

@@ -38,6 +38,7 @@ export default async function setup(project: TestProject) {
     DATA_DIR: dataDir,
     CLIENT_DIR: clientDir,
     DB_PORT: String(db.port),
+    DB_SOCKET: db.socketPath,
     DB_NAME: 'brimstock_e2e',
     SMTP_PORT: String(smtpPort),
     LOG_LEVEL: 'warn',
