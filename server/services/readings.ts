@@ -74,26 +74,34 @@ async function refreshSnapshots(ctx: Pick<AppContext, 'db'>, rows: NewReading[],
     const prev = lastByDay.get(key);
     if (!prev || r.takenAt > prev.takenAt) lastByDay.set(key, { ...r, day });
   }
-  for (const r of newestByTank.values()) {
-    // The stored row (it may have existed already) supplies the id.
-    const [stored] = await ctx.db.sequelize.query<{ id: number }>(
-      'SELECT id FROM readings WHERE tankId = ? AND takenAt = ? AND source = ? AND revision = ? LIMIT 1',
-      { replacements: [r.tankId, r.takenAt, r.source, r.revision ?? 0], type: QueryTypes.SELECT, transaction },
-    );
-    if (stored) await upsertLatest(ctx, { ...r, id: stored.id }, transaction);
-  }
+  // The stored rows (they may have existed already) supply the ids: one look-up for every tank.
+  // In tank order, so rounds that share tanks lock their rows in the same order.
+  const newest = [...newestByTank.values()].sort((a, b) => a.tankId - b.tankId);
+  const stored = await ctx.db.sequelize.query<{ id: number; tankId: number; takenAt: Date; source: string; revision: number }>(
+    `SELECT id, tankId, takenAt, source, revision FROM readings WHERE ${newest.map(() => '(tankId = ? AND takenAt = ? AND source = ? AND revision = ?)').join(' OR ')}`,
+    { replacements: newest.flatMap((r) => [r.tankId, r.takenAt, r.source, r.revision ?? 0]), type: QueryTypes.SELECT, transaction },
+  );
+  const idOf = new Map(stored.map((row) => [`${row.tankId}|${new Date(row.takenAt).getTime()}|${row.source}|${row.revision}`, row.id]));
+  const latest = newest.flatMap((r) => {
+    const id = idOf.get(`${r.tankId}|${r.takenAt.getTime()}|${r.source}|${r.revision ?? 0}`);
+    return id === undefined ? [] : [{ ...r, id }];
+  });
+  await upsertLatest(ctx, latest, transaction);
   await upsertDays(ctx, [...lastByDay.values()], transaction);
 }
 
 /** What a snapshot row needs of a reading. */
 type SnapshotRow = Pick<NewReading, 'tankId' | 'organisationId' | 'farmId' | 'takenAt' | 'grossL' | 'usableL'> & { day: string };
 
-/** Makes `r` (a stored reading) the tank's latest unless a later one is there already. */
-async function upsertLatest(ctx: Pick<AppContext, 'db'>, r: Pick<NewReading, 'tankId' | 'organisationId' | 'farmId' | 'takenAt' | 'levelMm' | 'grossL' | 'usableL' | 'temperatureC' | 'source'> & { id: number }, transaction: Transaction) {
+type LatestRow = Pick<NewReading, 'tankId' | 'organisationId' | 'farmId' | 'takenAt' | 'levelMm' | 'grossL' | 'usableL' | 'temperatureC' | 'source'> & { id: number };
+
+/** Makes each of `rows` (stored readings, one per tank) its tank's latest unless a later one is there already. */
+async function upsertLatest(ctx: Pick<AppContext, 'db'>, rows: LatestRow[], transaction: Transaction) {
+  if (!rows.length) return;
   // Assignments run left to right in MariaDB, so takenAt is updated last.
   await ctx.db.sequelize.query(
     `INSERT INTO tank_latest (tankId, organisationId, farmId, readingId, takenAt, levelMm, grossL, usableL, temperatureC, source)
-     VALUES (?,?,?,?,?,?,?,?,?,?)
+     VALUES ${rows.map(() => '(?,?,?,?,?,?,?,?,?,?)').join(',')}
      ON DUPLICATE KEY UPDATE
        readingId = IF(VALUES(takenAt) >= takenAt, VALUES(readingId), readingId),
        levelMm = IF(VALUES(takenAt) >= takenAt, VALUES(levelMm), levelMm),
@@ -102,7 +110,7 @@ async function upsertLatest(ctx: Pick<AppContext, 'db'>, r: Pick<NewReading, 'ta
        temperatureC = IF(VALUES(takenAt) >= takenAt, VALUES(temperatureC), temperatureC),
        source = IF(VALUES(takenAt) >= takenAt, VALUES(source), source),
        takenAt = GREATEST(VALUES(takenAt), takenAt)`,
-    { replacements: [r.tankId, r.organisationId, r.farmId, r.id, r.takenAt, r.levelMm, r.grossL, r.usableL, r.temperatureC, r.source], type: QueryTypes.INSERT, transaction },
+    { replacements: rows.flatMap((r) => [r.tankId, r.organisationId, r.farmId, r.id, r.takenAt, r.levelMm, r.grossL, r.usableL, r.temperatureC, r.source]), type: QueryTypes.INSERT, transaction },
   );
 }
 
@@ -305,7 +313,7 @@ async function refreshLoadedSnapshots(ctx: Pick<AppContext, 'db'>, base: LoadBas
     );
   const own = { tankId: base.tankId, organisationId: base.organisationId, farmId: base.farmId };
   const [newest] = await storedAt([newestMs]);
-  if (newest) await upsertLatest(ctx, { ...own, ...newest, takenAt: new Date(newest.takenAt), source: 'logger' }, transaction);
+  if (newest) await upsertLatest(ctx, [{ ...own, ...newest, takenAt: new Date(newest.takenAt), source: 'logger' }], transaction);
   const days = [...lastOfDay.entries()];
   for (let i = 0; i < days.length; i += 500) {
     const chunk = days.slice(i, i + 500);
