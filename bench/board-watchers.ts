@@ -7,6 +7,7 @@ import type { FarmBoard, StockBoard } from '@shared/schemas';
 
 type FromParent =
   | { type: 'open'; base: string; cookies: string[]; clients: number }
+  | { type: 'mark' }
   | { type: 'stop' }
   /** Stored round readings: [tankId, takenAt ms, createdAt ms] (createdAt: server clock, just before the insert). */
   | { type: 'match'; readings: [number, number, number][] };
@@ -14,7 +15,7 @@ type FromParent =
 export type FromWatchers =
   | { type: 'ready'; clients: number; openMs: number }
   | { type: 'failed'; message: string }
-  | { type: 'stopped'; pushes: number; disconnects: number; errors: string[] }
+  | { type: 'stopped'; pushes: number; disconnects: number; errors: string[]; cpuMs: number }
   | { type: 'matched'; expected: number; delivered: number; p50Ms: number; p95Ms: number; p99Ms: number; maxMs: number };
 
 interface Client {
@@ -49,10 +50,10 @@ function openClient(base: string, cookie: string): Promise<Client> {
     };
     socket.once('board', (board: StockBoard) => {
       for (const f of board.farms) for (const tile of f.tanks) note(tile.tankId, tile.takenAt, 0, false);
-      socket.on('board:farm', (farm: FarmBoard) => {
+      socket.on('board:farms', (farms: FarmBoard[]) => {
         const at = Date.now();
         pushes++;
-        for (const tile of farm.tanks) note(tile.tankId, tile.takenAt, at, true);
+        for (const farm of farms) for (const tile of farm.tanks) note(tile.tankId, tile.takenAt, at, true);
       });
       resolve(client);
     });
@@ -103,13 +104,19 @@ function match(readings: [number, number, number][]) {
   send({ type: 'matched', expected: readings.length * clients.length, delivered, p50Ms: pct(50), p95Ms: pct(95), p99Ms: pct(99), maxMs: delivered ? got[delivered - 1] : NaN });
 }
 
+/** CPU used since the parent marked the start of the rounds. */
+let cpuAtStart = process.cpuUsage();
+
 process.on('message', (m: FromParent) => {
-  if (m.type === 'open') {
+  if (m.type === 'mark') {
+    cpuAtStart = process.cpuUsage();
+  } else if (m.type === 'open') {
     open(m.base, m.cookies, m.clients).catch((err: Error) => send({ type: 'failed', message: err.message }));
   } else if (m.type === 'stop') {
     stopping = true;
     for (const c of clients) c.socket.disconnect();
-    send({ type: 'stopped', pushes, disconnects, errors });
+    const cpu = process.cpuUsage(cpuAtStart);
+    send({ type: 'stopped', pushes, disconnects, errors, cpuMs: (cpu.user + cpu.system) / 1000 });
   } else if (m.type === 'match') {
     match(m.readings);
     process.disconnect();

@@ -7,7 +7,7 @@
 //      reaching each watching client.
 import { spawn, type ChildProcess } from 'node:child_process';
 import { randomBytes } from 'node:crypto';
-import { mkdirSync, mkdtempSync, rmSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import autocannon from 'autocannon';
@@ -234,7 +234,27 @@ async function warmForecasts(base: string, manager: Session, staleCount: () => P
 }
 
 /** (a) autocannon against the board data endpoint. */
-async function boardLoad(base: string, manager: Session): Promise<BenchFigure[]> {
+/** CPU seconds used so far by a process (from /proc) and by this one, with the wall clock. */
+function cpuNow(pid: number | undefined) {
+  let server = NaN;
+  try {
+    // Fields 14 and 15 of /proc/<pid>/stat: user and system time in clock ticks (100 a second on Linux).
+    const fields = readFileSync(`/proc/${pid}/stat`, 'utf8').split(') ')[1].split(' ');
+    server = (Number(fields[11]) + Number(fields[12])) / 100;
+  } catch {
+    // Not Linux, or the process is gone: the share prints as NaN.
+  }
+  const self = process.cpuUsage();
+  return { server, self: (self.user + self.system) / 1e6, wall: performance.now() / 1000 };
+}
+
+/** Per cent of one core each used between two `cpuNow` readings. */
+function cpuShares(from: ReturnType<typeof cpuNow>, to: ReturnType<typeof cpuNow>) {
+  const wallS = to.wall - from.wall;
+  return { wallS, server: (100 * (to.server - from.server)) / wallS, self: (100 * (to.self - from.self)) / wallS };
+}
+
+async function boardLoad(base: string, manager: Session, serverPid: number | undefined): Promise<BenchFigure[]> {
   const figures: BenchFigure[] = [];
   // As a browser asks (gzip accepted), then uncompressed, as a plain HTTP client would.
   for (const [encoding, how] of [['gzip, deflate, br', 'gzip, as browsers ask'], ['identity', 'uncompressed']] as const) {
@@ -242,7 +262,10 @@ async function boardLoad(base: string, manager: Session): Promise<BenchFigure[]>
     // Warm-up, not a figure: one connection shows what a single request costs with no queueing.
     const single = await autocannon({ ...opts, connections: 1, duration: 5 });
     log(`board (${how}) warm-up, 1 connection: ${single.requests.total} requests, ${single.latency.p50} ms p50, ${single.latency.p99} ms p99, ${Math.round(single.throughput.average / 1024)} kB/s`);
+    const cpuFrom = cpuNow(serverPid);
     const r = await autocannon({ ...opts, connections: BOARD_CONNECTIONS, duration: BOARD_SECONDS });
+    const cpu = cpuShares(cpuFrom, cpuNow(serverPid));
+    log(`CPU during that run (2 cores = 200 %): server ${cpu.server.toFixed(0)} %, autocannon (this process) ${cpu.self.toFixed(0)} %; server CPU per request ${((10 * cpu.server * cpu.wallS) / r.requests.total).toFixed(2)} ms`);
     const label = `GET /api/board (manager, ${FARMS * TANKS_PER_FARM} tanks, ${how}), ${BOARD_CONNECTIONS} connections, ${BOARD_SECONDS} s`;
     const failed = r.non2xx + r.errors + r.timeouts;
     log(`board (${how}): ${r.requests.total} requests, ${r.latency.p50} ms p50, ${r.latency.p99} ms p99, ${r.requests.average} req/s, ${Math.round(r.throughput.average / 1024)} kB/s, ${failed} failed`);
@@ -274,7 +297,7 @@ function watchersProcess() {
 }
 
 /** (b) workers posting rounds while sockets watch the board. */
-async function roundLoad(base: string, fx: Awaited<ReturnType<typeof buildFixture>>, storedRounds: () => Promise<{ count: number; rows: [number, number, number][] }>, watchers: ReturnType<typeof watchersProcess>): Promise<BenchFigure[]> {
+async function roundLoad(base: string, fx: Awaited<ReturnType<typeof buildFixture>>, storedRounds: () => Promise<{ count: number; rows: [number, number, number][] }>, watchers: ReturnType<typeof watchersProcess>, serverPid: number | undefined): Promise<BenchFigure[]> {
   const managerSessions = await pool(fx.managers.slice(1, 1 + WATCHER_SESSIONS), 4, (email) => signIn(base, email));
   watchers.send({ type: 'open', base, cookies: managerSessions.map((s) => s.cookie), clients: WATCHERS });
   const ready = await watchers.waitFor('ready');
@@ -296,6 +319,8 @@ async function roundLoad(base: string, fx: Awaited<ReturnType<typeof buildFixtur
     if (errors.length < 10) errors.push(msg);
   };
   const deadline = Date.now() + ROUND_SECONDS * 1000;
+  const cpuFrom = cpuNow(serverPid);
+  watchers.send({ type: 'mark' });
   const roundMs: number[] = [];
   await Promise.all(workerSessions.map(async (w, wi) => {
     const farmId = fx.farmIds[w.farmIndex];
@@ -329,8 +354,9 @@ async function roundLoad(base: string, fx: Awaited<ReturnType<typeof buildFixtur
       await sleep(THINK_MS);
     }
   }));
-  // Let the last throttled pushes (250 ms window) go out before the watchers stop.
+  // Let the last gathered pushes (100 ms window) go out before the watchers stop.
   await sleep(2000);
+  const cpu = cpuShares(cpuFrom, cpuNow(serverPid));
   watchers.send({ type: 'stop' });
   const stopped = await watchers.waitFor('stopped');
   const stored = await storedRounds();
@@ -339,6 +365,7 @@ async function roundLoad(base: string, fx: Awaited<ReturnType<typeof buildFixtur
   roundMs.sort((a, b) => a - b);
   const roundP95 = roundMs.length ? roundMs[Math.ceil(0.95 * roundMs.length) - 1] : NaN;
   log(`rounds: ${rounds} posted (p95 answer ${roundP95.toFixed(0)} ms), ${acknowledged} readings acknowledged, ${stored.count} stored; ${stopped.pushes.toLocaleString('en-US')} pushes received; ${matched.delivered.toLocaleString('en-US')} of ${matched.expected.toLocaleString('en-US')} reading arrivals; latency p50 ${matched.p50Ms} ms, p95 ${matched.p95Ms} ms, p99 ${matched.p99Ms} ms, max ${matched.maxMs} ms`);
+  log(`CPU while the rounds ran (${cpu.wallS.toFixed(1)} s, 2 cores = 200 %): server ${cpu.server.toFixed(0)} %, workers (this process) ${cpu.self.toFixed(0)} %, watchers ${((100 * stopped.cpuMs) / 1000 / cpu.wallS).toFixed(0)} %`);
   for (const e of [...errors, ...stopped.errors]) log(`error: ${e}`);
   const label = `${WORKERS} workers posting rounds for ${ROUND_SECONDS} s (${THINK_MS} ms between rounds) while ${ready.clients} sockets watch`;
   const lost = Math.abs(acknowledged - stored.count);
@@ -421,13 +448,13 @@ export async function runBoardBench(): Promise<BenchFigure[]> {
     const q = counter.sequelize;
     const one = async (sql: string) => Number((await q.query<{ n: number | string }>(sql, { type: QueryTypes.SELECT, plain: true }))!.n);
     await warmForecasts(base, manager, () => one('SELECT COUNT(*) AS n FROM tank_latest WHERE forecastAt IS NULL OR forecastAt < takenAt'));
-    const figures = await boardLoad(base, manager);
+    const figures = await boardLoad(base, manager, server.pid);
     watchers = watchersProcess();
     const storedRounds = async () => {
       const rows = await q.query<{ tankId: number; takenAt: Date; createdAt: Date }>("SELECT tankId, takenAt, createdAt FROM readings WHERE source = 'round'", { type: QueryTypes.SELECT });
       return { count: rows.length, rows: rows.map((r) => [r.tankId, new Date(r.takenAt).getTime(), new Date(r.createdAt).getTime()] as [number, number, number]) };
     };
-    figures.push(...(await roundLoad(base, fx, storedRounds, watchers)));
+    figures.push(...(await roundLoad(base, fx, storedRounds, watchers, server.pid)));
     for (const f of figures) f.name = `${f.name} [${fx.readings.toLocaleString('en-US')} readings]`;
     return figures;
   } finally {

@@ -1,6 +1,7 @@
 // socket.io: the handshake is authenticated with the API's own session; the server (never the
-// client) puts each socket in the rooms of the farms its user may see, and pushes a farm's
-// board to its room at most every THROTTLE_MS however many readings commit meanwhile.
+// client) puts each socket in the rooms of the farms its user may see and in the room of that
+// set of farms. Farms whose readings commit are gathered and pushed at most every THROTTLE_MS,
+// in one message per farm set holding every changed farm of the set, however many commit meanwhile.
 import type { Server as HttpServer } from 'node:http';
 import type { RequestHandler } from 'express';
 import { Server } from 'socket.io';
@@ -10,8 +11,10 @@ import { boardOf, stockBoard } from './services/board';
 import { activeFlagsOf } from './services/flags';
 import { keptSessionUser } from './services/kept-identity';
 
-export const THROTTLE_MS = 250;
+export const THROTTLE_MS = 100;
 const farmRoom = (id: number) => `farm:${id}`;
+const setPrefix = (organisationId: number) => `farms:${organisationId}:`;
+const setRoom = (actor: SessionUser) => `${setPrefix(actor.organisationId)}${[...actor.farmIds].sort((a, b) => a - b).join(',')}`;
 const userRoom = (id: number) => `user:${id}`;
 
 export function attachRealtime(ctx: AppContext, http: HttpServer, sessionMiddleware: RequestHandler): Server {
@@ -34,8 +37,8 @@ export function attachRealtime(ctx: AppContext, http: HttpServer, sessionMiddlew
   });
 
   const joinRooms = async (socket: import('socket.io').Socket, actor: SessionUser) => {
-    for (const room of socket.rooms) if (room.startsWith('farm:')) await socket.leave(room);
-    await socket.join([userRoom(actor.id), ...actor.farmIds.map(farmRoom)]);
+    for (const room of socket.rooms) if (room.startsWith('farm:') || room.startsWith('farms:')) await socket.leave(room);
+    await socket.join([userRoom(actor.id), setRoom(actor), ...actor.farmIds.map(farmRoom)]);
   };
 
   // A failed board read (database gone for a moment) must not end the process: the socket is
@@ -63,32 +66,46 @@ export function attachRealtime(ctx: AppContext, http: HttpServer, sessionMiddlew
     });
   });
 
-  const pending = new Map<number, { organisationId: number; timer: NodeJS.Timeout | null; dirty: boolean }>();
-  const pushFarm = async (organisationId: number, farmId: number) => {
-    const board = await boardOf(ctx, organisationId, [farmId]);
-    const farm = board.farms[0] ?? { farmId, name: '', totals: [], tanks: [] };
-    io.to(farmRoom(farmId)).emit('board:farm', farm);
+  /** The changed farms of one organisation, sent to every farm set that holds some of them. */
+  const pushFarms = async (organisationId: number, farmIds: number[]) => {
+    const board = await boardOf(ctx, organisationId, farmIds);
+    const byId = new Map(board.farms.map((f) => [f.farmId, f]));
+    // A farm with no tanks left (or archived meanwhile) goes out empty, so it leaves the board.
+    const farms = farmIds.map((farmId) => byId.get(farmId) ?? { farmId, name: '', totals: [], tanks: [] });
+    const prefix = setPrefix(organisationId);
+    for (const room of io.of('/').adapter.rooms.keys()) {
+      if (!room.startsWith(prefix)) continue;
+      const visible = new Set(room.slice(prefix.length).split(',').map(Number));
+      const theirs = farms.filter((f) => visible.has(f.farmId));
+      if (theirs.length) io.to(room).emit('board:farms', theirs);
+    }
+  };
+  const dirty = new Map<number, Set<number>>();
+  let timer: NodeJS.Timeout | null = null;
+  let lastFlushAt = 0;
+  let flushing = false;
+  // One flush at a time: what changes while one runs is gathered into the next, so pushes never
+  // queue up behind each other and a slower earlier board never overtakes a later one.
+  const flush = async () => {
+    timer = null;
+    flushing = true;
+    lastFlushAt = Date.now();
+    const batch = [...dirty.entries()];
+    dirty.clear();
+    for (const [organisationId, farms] of batch) await pushFarms(organisationId, [...farms]).catch((err) => ctx.logger.error({ err }, 'board push failed'));
+    flushing = false;
+    if (dirty.size) arm();
+  };
+  // Leading edge: a change after a quiet spell goes out at once; later ones within the window are gathered.
+  const arm = () => {
+    if (timer || flushing) return;
+    timer = setTimeout(() => void flush(), Math.max(0, lastFlushAt + THROTTLE_MS - Date.now()));
   };
   const schedule = (organisationId: number, farmId: number) => {
-    const slot = pending.get(farmId);
-    if (slot?.timer) {
-      slot.dirty = true;
-      return;
-    }
-    const entry = { organisationId, dirty: false, timer: null as NodeJS.Timeout | null };
-    pending.set(farmId, entry);
-    const fire = () => {
-      if (!entry.dirty) {
-        pending.delete(farmId);
-        return;
-      }
-      entry.dirty = false;
-      void pushFarm(organisationId, farmId).catch((err) => ctx.logger.error({ err }, 'board push failed'));
-      entry.timer = setTimeout(fire, THROTTLE_MS);
-    };
-    // Leading edge: the first change goes out at once; later ones within the window are folded.
-    void pushFarm(organisationId, farmId).catch((err) => ctx.logger.error({ err }, 'board push failed'));
-    entry.timer = setTimeout(fire, THROTTLE_MS);
+    let farms = dirty.get(organisationId);
+    if (!farms) dirty.set(organisationId, (farms = new Set()));
+    farms.add(farmId);
+    arm();
   };
 
   const onReadings = ({ organisationId, farmIds }: { organisationId: number; farmIds: number[] }) => {
@@ -118,7 +135,7 @@ export function attachRealtime(ctx: AppContext, http: HttpServer, sessionMiddlew
     ctx.events.off('forecasts', onReadings);
     ctx.events.off('user-changed', onUserChanged);
     ctx.events.off('user-event', onUserEvent);
-    for (const p of pending.values()) if (p.timer) clearTimeout(p.timer);
+    if (timer) clearTimeout(timer);
   });
   return io;
 }

@@ -43,7 +43,7 @@ export interface FarmBoard {
   tanks: TankTile[];
 }
 
-/** GET /api/board and the socket event `board:farm` (one farm at a time). */
+/** GET /api/board (the socket event `board:farms` carries the changed farms' `FarmBoard`s). */
 export interface StockBoard {
   generatedAt: string;
   totals: ContentsTotal[];

@@ -7,7 +7,7 @@ export type BoardSocketStatus = 'connecting' | 'live' | 'reconnecting' | 'offlin
 
 interface ServerEvents {
   board: (board: StockBoard) => void;
-  'board:farm': (farm: FarmBoard) => void;
+  'board:farms': (farms: FarmBoard[]) => void;
 }
 interface ClientEvents {
   'board:resync': () => void;
@@ -17,7 +17,7 @@ type BoardSocket = Socket<ServerEvents, ClientEvents>;
 export interface UseBoardSocketOptions {
   /** The whole board: on every connection, and after each resync. */
   onBoard: (board: StockBoard) => void;
-  /** One farm's board, pushed after readings of that farm are stored. */
+  /** One farm's board, for each farm in a push after readings of those farms are stored. */
   onFarm: (farm: FarmBoard) => void;
   /** Connect at once (default true); otherwise call open(). */
   immediate?: boolean;
@@ -86,9 +86,9 @@ export function useBoardSocket(options: UseBoardSocketOptions): UseBoardSocketRe
       lastMessageAt.value = new Date();
       options.onBoard(board);
     });
-    s.on('board:farm', (farm) => {
+    s.on('board:farms', (farms) => {
       lastMessageAt.value = new Date();
-      options.onFarm(farm);
+      for (const farm of farms) options.onFarm(farm);
     });
   }
 

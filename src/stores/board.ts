@@ -46,7 +46,7 @@ export const useBoardStore = defineStore('board', () => {
     error.value = null;
   }
 
-  /** Replaces one farm (socket `board:farm`); a farm that comes with no tanks leaves the board. */
+  /** Replaces one farm (from a socket `board:farms` push); a farm that comes with no tanks leaves the board. */
   function applyFarm(farm: FarmBoard): void {
     revision++;
     const others = farms.value.filter((f) => f.farmId !== farm.farmId);

@@ -46,7 +46,7 @@ describe('useBoardStore', () => {
     expect(store.totals.find((t) => t.contents === 'fertilizer')).toMatchObject({ tanks: 1, tanksWithoutReading: 1, usableL: 0, oldestReadingAt: null });
   });
 
-  it('replaces one farm from a board:farm push and recomputes the totals across farms', () => {
+  it('replaces one farm from a board:farms push and recomputes the totals across farms', () => {
     const store = useBoardStore();
     store.applyBoard(makeBoard([creek(), ridge()]));
 

@@ -72,7 +72,7 @@ describe('useBoardSocket', () => {
 
     socket.fire('connect');
     socket.fire('board', board);
-    socket.fire('board:farm', farm);
+    socket.fire('board:farms', [farm]);
 
     expect(live.status.value).toBe('live');
     expect(onBoard).toHaveBeenCalledWith(board);

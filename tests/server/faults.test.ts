@@ -184,7 +184,7 @@ describe('faults on the shared test database', () => {
     const manager = await Client.signIn(s.server.baseUrl, s.org.users.manager.email);
     const socket = await manager.socket();
     const pushes: number[] = [];
-    socket.on('board:farm', (f: { farmId: number }) => pushes.push(f.farmId));
+    socket.on('board:farms', (fs: { farmId: number }[]) => pushes.push(...fs.map((f) => f.farmId)));
     const last = new Map<number, number>();
     let postedWhileDown = 0;
     for (let i = 0; i < 30; i++) {

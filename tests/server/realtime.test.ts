@@ -41,7 +41,7 @@ function open(cookie?: string): Promise<{ socket: Socket; board: StockBoard; far
     const socket = connect(base, { transports: ['websocket'], extraHeaders: cookie ? { cookie } : {}, reconnection: false, forceNew: true });
     sockets.push(socket);
     const farms: FarmBoard[] = [];
-    socket.on('board:farm', (f: FarmBoard) => farms.push(f));
+    socket.on('board:farms', (fs: FarmBoard[]) => farms.push(...fs));
     socket.once('board', (board: StockBoard) => resolve({ socket, board, farms }));
     socket.once('connect_error', reject);
   });
