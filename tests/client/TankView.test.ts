@@ -75,7 +75,7 @@ describe('TankView forecast panel', () => {
     expect(panel.get('[data-testid="forecast-cover"]').text()).toBe('≈ 9 days left');
     expect(panel.get('[data-testid="forecast-use"]').text()).toMatch(/^938 L\/day\s*± 213 L$/);
     expect(panel.get('[data-testid="forecast-days"]').text()).toBe('13 of 14 days');
-    expect(panel.text()).toContain('8,445 L usable now');
+    expect(panel.text()).toContain('8,445 L usable at the latest reading');
     // 14:00 UTC on 11 March is 03:00 on 12 March in Auckland (UTC+13).
     expect(panel.get('[data-testid="forecast-empty"]').text()).toMatch(/\b12\b/);
     expect(panel.get('[data-testid="forecast-empty"]').text()).not.toMatch(/\b11\b/);

@@ -17,6 +17,15 @@ describe('coverText', () => {
   ])('gives %s days as "%s"', (days, text) => {
     expect(coverText(days)).toBe(text);
   });
+
+  it.each([
+    [0, 0, 'Nothing usable left'],
+    [0, 486, 'Likely run down by now'],
+    [1.4, 486, '≈ 1.4 days left'],
+    [null, 486, 'No use seen'],
+  ])('gives %s days from a reading of %s usable litres as "%s"', (days, usableL, text) => {
+    expect(coverText(days, usableL)).toBe(text);
+  });
 });
 
 describe('isShortCover', () => {

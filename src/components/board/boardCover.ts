@@ -26,10 +26,14 @@ export function formatCoverDays(daysOfCover: number): string {
   return `${formatNumber(daysOfCover, 0)} days`;
 }
 
-/** "≈ 9 days left", "≈ 1.4 days left", "Nothing usable left"; "No use seen" for null. */
-export function coverText(daysOfCover: number | null): string {
+/**
+ * "≈ 9 days left", "≈ 1.4 days left", "Nothing usable left"; "No use seen" for null. Cover is counted
+ * from the latest reading, so a tank read with litres above its outlet whose use has since run past
+ * them is "Likely run down by now": the reading still shows those litres beside it.
+ */
+export function coverText(daysOfCover: number | null, usableAtReadingL: number | null = null): string {
   if (daysOfCover === null) return 'No use seen';
-  if (daysOfCover <= 0) return 'Nothing usable left';
+  if (daysOfCover <= 0) return usableAtReadingL !== null && usableAtReadingL > 0 ? 'Likely run down by now' : 'Nothing usable left';
   return `≈ ${formatCoverDays(daysOfCover)} left`;
 }
 
