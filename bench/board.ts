@@ -17,6 +17,7 @@ import { calibrationVersion, type TankGeometry } from '../shared/calibration/ind
 import { readingToVolumes } from '../shared/readings/index';
 import { ensureDatabase, startMariaDb, type MariaDbServer } from '../scripts/lib/mariadb';
 import { freePort } from '../scripts/lib/ports';
+import { startServerProcess } from '../scripts/lib/server-process';
 import { loadConfig } from '../server/config';
 import { createDatabase, migrate } from '../server/db';
 import { startMailCapture } from '../server/mail/capture';
@@ -202,20 +203,10 @@ async function buildFixture(socketPath: string, dbName: string, perTank: number)
   }
 }
 
-function startServer(env: Record<string, string>): Promise<ChildProcess> {
+async function startServer(env: Record<string, string>): Promise<ChildProcess> {
   // BENCH_BOARD_CPU_PROF=<folder> writes a V8 CPU profile of the server there when it stops.
-  const profile = process.env.BENCH_BOARD_CPU_PROF ? ['--cpu-prof', `--cpu-prof-dir=${resolve(process.env.BENCH_BOARD_CPU_PROF)}`] : [];
-  const server = spawn(process.execPath, [...profile, '--import', 'tsx', join(root, 'server/index.ts')], { cwd: root, env, stdio: ['ignore', 'pipe', 'inherit'] });
-  return new Promise((ok, fail) => {
-    const timer = setTimeout(() => fail(new Error('server did not start in 60 s')), 60_000);
-    server.stdout!.on('data', (chunk: Buffer) => {
-      if (chunk.toString().includes('Brimstock is ready')) {
-        clearTimeout(timer);
-        ok(server);
-      }
-    });
-    server.once('exit', (code) => fail(new Error(`server exited with ${code}`)));
-  });
+  const nodeArgs = process.env.BENCH_BOARD_CPU_PROF ? ['--cpu-prof', `--cpu-prof-dir=${resolve(process.env.BENCH_BOARD_CPU_PROF)}`] : [];
+  return (await startServerProcess({ env, nodeArgs })).child;
 }
 
 /** Waits until every tank's cached use rate is at least as new as its latest reading (bounded). */

@@ -9,7 +9,7 @@
 //                copy, in one transaction.
 // The server's peak resident memory (VmHWM of its process) is read from /proc at the end of the import.
 // Run: npm run bench ingest   (BENCH_INGEST_ROWS=100000 npm run bench ingest for a quick run)
-import { spawn, type ChildProcess } from 'node:child_process';
+import type { ChildProcess } from 'node:child_process';
 import { createReadStream, createWriteStream, mkdtempSync, openAsBlob, readFileSync, rmSync, statSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
@@ -21,6 +21,7 @@ import { calibrationVersion, type TankGeometry } from '../shared/calibration/ind
 import { createImportReader, importMappingSchema, type ImportMappingInput } from '../shared/imports/index';
 import { ensureDatabase, startMariaDb } from '../scripts/lib/mariadb';
 import { freePort } from '../scripts/lib/ports';
+import { startServerProcess } from '../scripts/lib/server-process';
 import { loadConfig } from '../server/config';
 import { createDatabase, migrate } from '../server/db';
 import { startMailCapture } from '../server/mail/capture';
@@ -28,7 +29,6 @@ import { hashPassword } from '../server/services/passwords';
 import { tankSetup } from '../server/services/readings';
 import type { BenchFigure } from './calibration';
 
-const root = resolve(import.meta.dirname, '..');
 const ROWS = Number(process.env.BENCH_INGEST_ROWS ?? 1_000_000);
 const STEP_MS = 30_000;
 const BULK_ROWS = 5_000;
@@ -116,26 +116,9 @@ function apiClient(baseUrl: string) {
 async function startServer(env: Record<string, string>): Promise<{ child: ChildProcess; lines: string[] }> {
   // BENCH_SERVER_NODE_ARGS passes options to the server's node, e.g. "--cpu-prof --cpu-prof-dir=/tmp/prof" to see where its time goes.
   const nodeArgs = (process.env.BENCH_SERVER_NODE_ARGS ?? '').split(/\s+/).filter(Boolean);
-  const child = spawn(process.execPath, [...nodeArgs, '--import', 'tsx', join(root, 'server/index.ts')], { cwd: root, env, stdio: ['ignore', 'pipe', 'inherit'] });
   const lines: string[] = [];
-  let rest = '';
-  await new Promise<void>((ok, fail) => {
-    const timer = setTimeout(() => fail(new Error('server did not start in 60 s')), 60_000);
-    child.stdout!.on('data', (chunk: Buffer) => {
-      const text = rest + chunk.toString();
-      const parts = text.split('\n');
-      rest = parts.pop()!;
-      for (const p of parts) {
-        // Keep only the import's own summary line; request logs are dropped.
-        if (p.includes('logger import finished')) lines.push(p);
-        if (p.includes('Brimstock is ready')) {
-          clearTimeout(timer);
-          ok();
-        }
-      }
-    });
-    child.once('exit', (code) => fail(new Error(`server exited with ${code}`)));
-  });
+  // Keep only the import's own summary line; request logs are dropped.
+  const { child } = await startServerProcess({ env, nodeArgs, onLine: (line) => void (line.includes('logger import finished') && lines.push(line)) });
   return { child, lines };
 }
 

@@ -1,12 +1,13 @@
 // Vitest global set-up for the browser tests: builds the client, starts a throwaway MariaDB with
 // the demo scenario, a mail receiver and the real server process on free ports.
-import { spawn, spawnSync } from 'node:child_process';
+import { spawnSync } from 'node:child_process';
 import { mkdtempSync, mkdirSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import type { TestProject } from 'vitest/node';
 import { ensureDatabase, startMariaDb } from '../../scripts/lib/mariadb';
 import { freePort } from '../../scripts/lib/ports';
+import { startServerProcess } from '../../scripts/lib/server-process';
 import { loadConfig } from '../../server/config';
 import { createDatabase, migrate } from '../../server/db';
 import { startMailCapture } from '../../server/mail/capture';
@@ -52,17 +53,7 @@ export default async function setup(project: TestProject) {
   await loadDemoScenario(database);
   await database.sequelize.close();
 
-  const server = spawn(process.execPath, ['--import', 'tsx', join(root, 'server/index.ts')], { cwd: root, env, stdio: ['ignore', 'pipe', 'inherit'] });
-  await new Promise<void>((ok, fail) => {
-    const timer = setTimeout(() => fail(new Error('server did not start in 60 s')), 60_000);
-    server.stdout!.on('data', (chunk: Buffer) => {
-      if (chunk.toString().includes('Brimstock is ready')) {
-        clearTimeout(timer);
-        ok();
-      }
-    });
-    server.once('exit', (code) => fail(new Error(`server exited with ${code}`)));
-  });
+  const { child: server } = await startServerProcess({ env });
   project.provide('app', { baseUrl: `http://127.0.0.1:${port}`, outboxDir: config.outboxDir, dataDir });
 
   return async () => {

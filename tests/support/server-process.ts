@@ -1,17 +1,17 @@
 // Fault tests drive the real server as a child process (so it can be killed with SIGKILL and started
 // again) against a database prepared here, and talk to it over HTTP and socket.io like a browser.
-import { spawn, type ChildProcess } from 'node:child_process';
+import type { ChildProcess } from 'node:child_process';
 import { randomBytes } from 'node:crypto';
-import { join, resolve } from 'node:path';
+import { join } from 'node:path';
 import mariadb from 'mariadb';
 import { io as connect, type Socket } from 'socket.io-client';
 import { freePort } from '../../scripts/lib/ports';
+import { startServerProcess } from '../../scripts/lib/server-process';
 import { loadConfig } from '../../server/config';
 import { createDatabase, migrate, type Database } from '../../server/db';
 import type { TestEnv } from './db';
 import { PASSWORD } from './fixtures';
 
-const root = resolve(import.meta.dirname, '../..');
 
 export interface DbServer {
   socketPath: string;
@@ -70,32 +70,15 @@ export async function serverProcess(server: DbServer, dbName: string, dataDir: s
     SESSION_SECRET: 'fault-test-secret-fault-test-secret',
   };
   let child: ChildProcess | null = null;
-  let errText = '';
+  let stderrOf = () => '';
   const gone = (c: ChildProcess) => new Promise<void>((r) => (c.exitCode !== null || c.signalCode !== null ? r() : c.once('exit', () => r())));
   return {
     baseUrl: `http://127.0.0.1:${port}`,
-    stderr: () => errText,
+    stderr: () => stderrOf(),
     async start() {
-      const c = spawn(process.execPath, ['--import', 'tsx', join(root, 'server/index.ts')], { cwd: root, env, stdio: ['ignore', 'pipe', 'pipe'] });
-      child = c;
-      c.stderr!.on('data', (chunk: Buffer) => {
-        errText = (errText + chunk.toString()).slice(-20_000);
-      });
-      await new Promise<void>((ok, fail) => {
-        const timer = setTimeout(() => fail(new Error(`server did not start in 45 s:\n${errText}`)), 45_000);
-        let out = '';
-        c.stdout!.on('data', (chunk: Buffer) => {
-          out += chunk.toString();
-          if (out.includes('Brimstock is ready')) {
-            clearTimeout(timer);
-            ok();
-          }
-        });
-        c.once('exit', (code, signal) => {
-          clearTimeout(timer);
-          fail(new Error(`server exited while starting (${code ?? signal}):\n${errText}`));
-        });
-      });
+      const started = await startServerProcess({ env, captureStderr: true, timeoutMs: 45_000 });
+      child = started.child;
+      stderrOf = started.stderr;
     },
     async kill9() {
       if (!child) return;
