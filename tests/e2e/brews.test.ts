@@ -5,7 +5,7 @@
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { readScenario } from '../../server/services/demo';
-import { launch, pickOption, quantityOf, screenshot, signInAs, type Browser } from '../support/browser';
+import { type Browser, dialogOpened, launch, pickOption, quantityOf, screenshot, signInAs } from '../support/browser';
 
 const { baseUrl } = inject('app');
 const worker = readScenario().people.find((p) => p.role === 'worker')!;
@@ -35,7 +35,7 @@ describe('brews on a phone', () => {
 
     await page.goto(`${baseUrl}/brews`);
     await page.getByTestId('brew-new').click();
-    await page.getByTestId('brew-dialog').waitFor();
+    await dialogOpened(page, 'brew-dialog');
     await pickOption(page, 'brew-farm', 'Hollin Ridge');
     await pickOption(page, 'brew-tank', /\(HR-C2\)$/);
     await pickOption(page, 'brew-kind', 'Culture');

@@ -5,7 +5,7 @@
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { readScenario } from '../../server/services/demo';
-import { launch, quantityOf, screenshot, signInAs, type Browser } from '../support/browser';
+import { type Browser, dialogOpened, launch, quantityOf, screenshot, signInAs } from '../support/browser';
 import { waitForMail } from '../support/mail';
 
 const { baseUrl, outboxDir } = inject('app');
@@ -166,7 +166,7 @@ describe('buyer’s side', () => {
     await page.getByTestId('input-advice').waitFor();
     await tallShot(page, 'buyer-input-detail-360');
     await page.getByTestId('input-record-count').click();
-    await page.getByTestId('movement-dialog').waitFor();
+    await dialogOpened(page, 'movement-dialog');
     await shot(page, 'buyer-count-360');
     await page.keyboard.press('Escape');
     await page.keyboard.press('Escape');

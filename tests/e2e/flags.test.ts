@@ -5,7 +5,7 @@
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { readScenario } from '../../server/services/demo';
-import { launch, pickOption, screenshot, signInAs, type Browser } from '../support/browser';
+import { type Browser, dialogOpened, launch, pickOption, screenshot, signInAs } from '../support/browser';
 
 const { baseUrl } = inject('app');
 const people = readScenario().people;
@@ -58,6 +58,7 @@ describe('flags on the board and the Flags screen', () => {
     const id = (await row.getAttribute('data-testid'))!.replace('flags-row-', '');
     expect(await board.getByTestId(`flags-caution-${id}`).innerText()).toMatch(/residual-current/);
     await board.getByTestId(`flags-ack-${id}`).click();
+    await dialogOpened(board, 'flags-ack-dialog');
     await board.getByTestId('flags-ack-note').fill('Heater switched back on; reading again at 16:00');
     await screenshot(board, 'flags-ack-dialog');
     await board.getByTestId('flags-ack-submit').click();

@@ -3,7 +3,7 @@
 import { afterEach, beforeEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { readScenario } from '../../server/services/demo';
-import { launch, screenshot, type Browser } from '../support/browser';
+import { type Browser, dialogOpened, launch, screenshot } from '../support/browser';
 import { tokenFrom, waitForMail } from '../support/mail';
 
 const { baseUrl, outboxDir } = inject('app');
@@ -60,6 +60,7 @@ describe('invitation', () => {
     await signIn(page, owner.email, owner.password);
     await page.goto(`${baseUrl}/people`);
     await page.getByTestId('people-invite').click();
+    await dialogOpened(page, 'invite-dialog');
     const email = `invitee-${Date.now()}@tallowbrook.example`;
     await page.getByTestId('invite-email').fill(email);
     await page.getByTestId('invite-name').fill('Ines Morrow');

@@ -9,7 +9,7 @@ import type { Page } from 'playwright-core';
 import { capacityL, TANK_SHAPES, type TankGeometry } from '@shared/calibration';
 import { formatVolume } from '@shared/units';
 import { readScenario } from '../../server/services/demo';
-import { launch, screenshot, signInAs, type Browser } from '../support/browser';
+import { type Browser, dialogOpened, launch, screenshot, signInAs } from '../support/browser';
 
 const { baseUrl } = inject('app');
 const manager = readScenario().people.find((p) => p.role === 'manager')!;
@@ -53,7 +53,7 @@ async function dialogShot(page: Page, name: string) {
 
 async function startTank(page: Page, name: string, code: string) {
   await page.getByTestId('farm-add-tank').click();
-  await page.getByTestId('tank-dialog').waitFor();
+  await dialogOpened(page, 'tank-dialog');
   await page.getByTestId('tank-name').fill(name);
   await page.getByTestId('tank-code').fill(code);
 }
@@ -218,7 +218,7 @@ describe('tank pages', () => {
     const rows = page.locator('[data-testid="readings-table"] tbody tr');
     await expect.poll(() => rows.count()).toBe(2);
     await rows.first().getByRole('button', { name: 'Correct' }).click();
-    await page.getByTestId('correction-dialog').waitFor();
+    await dialogOpened(page, 'correction-dialog');
     await page.getByTestId('correction-submit').click();
     await expect.poll(() => page.getByTestId('correction-note-error').innerText()).toBe('say why the reading was wrong');
     await typeNumber(page, 'correction-reading', 650);
@@ -282,7 +282,7 @@ describe('tank pages', () => {
     expect(await overflow()).toBeLessThanOrEqual(0);
 
     await page.getByTestId('farm-add-tank').click();
-    await page.getByTestId('tank-dialog').waitFor();
+    await dialogOpened(page, 'tank-dialog');
     await page.getByTestId('shape-option-cone-bottom').click();
     await dialogShot(page, 'tank-editor-360');
     await page.keyboard.press('Escape');

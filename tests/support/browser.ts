@@ -76,3 +76,15 @@ export function quantityOf(text: string): number {
   if (!m) throw new Error(`no number in "${text}"`);
   return Number(m[1]!.replace(/,/g, ''));
 }
+
+/**
+ * Waits until the dialog `testId` has finished opening. PrimeVue moves the focus into a dialog when
+ * its opening transition ends; typing before that loses keys to the jump on a slow machine.
+ */
+export async function dialogOpened(page: Page, testId: string): Promise<void> {
+  await page.getByTestId(testId).waitFor();
+  await page.waitForFunction((id) => {
+    const dialog = document.querySelector(`[data-testid="${id}"]`);
+    return !!dialog && !dialog.className.includes('enter') && !!document.activeElement && dialog.contains(document.activeElement);
+  }, testId);
+}
