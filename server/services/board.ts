@@ -111,14 +111,15 @@ export async function boardOf(ctx: AppContext, organisationId: number, farmIds: 
 
 /**
  * The board as JSON, kept per organisation and farm set while nothing it shows has changed. A
- * generation moves on after every write request and every in-process event that changes stock,
- * flags or use rates; a cheap fingerprint query (counts and maxima over tanks, farms and
+ * generation moves on after every write request and every in-process event that changes latest
+ * readings or use rates (imports commit after their request, use rates are refreshed in the
+ * background); a cheap fingerprint query (counts and maxima over tanks, farms and
  * tank_latest) also catches writes from outside this process, at most `FINGERPRINT_MS` late. Days
  * of cover count down with the clock, so a copy is rebuilt after `BOARD_CACHE_MS` anyway.
  */
 const BOARD_CACHE_MS = 30_000;
 const FINGERPRINT_MS = 1_000;
-const BOARD_EVENTS = ['readings', 'stock', 'flags', 'forecasts', 'brew-temperature'];
+const BOARD_EVENTS = ['readings', 'forecasts'];
 
 export interface KeptBoard {
   json: Buffer;
@@ -141,13 +142,11 @@ interface BoardKeep {
 const keeps = new WeakMap<AppContext, BoardKeep>();
 
 function keepOf(ctx: AppContext): BoardKeep {
-  let keep = keeps.get(ctx);
-  if (!keep) {
-    const made: BoardKeep = { generation: 0, entries: new Map(), flights: new Map() };
-    for (const event of BOARD_EVENTS) ctx.events.on(event, () => void made.generation++);
-    keeps.set(ctx, made);
-    keep = made;
-  }
+  const kept = keeps.get(ctx);
+  if (kept) return kept;
+  const keep: BoardKeep = { generation: 0, entries: new Map(), flights: new Map() };
+  for (const event of BOARD_EVENTS) ctx.events.on(event, () => void keep.generation++);
+  keeps.set(ctx, keep);
   return keep;
 }
 

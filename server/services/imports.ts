@@ -59,7 +59,6 @@ export async function discardUploads(files: UploadedFile[]): Promise<void> {
   await Promise.all(files.map((f) => rm(f.path, { force: true })));
 }
 
-
 async function sha256Of(path: string): Promise<string> {
   const hash = createHash('sha256');
   for await (const chunk of createReadStream(path)) hash.update(chunk as Buffer);

@@ -47,7 +47,7 @@ const BULK_HOOKS = ['afterBulkCreate', 'afterBulkUpdate', 'afterBulkDestroy'] as
 
 function keptFor(ctx: AppContext): KeptIdentity {
   const sequelize = ctx.db.sequelize;
-  let kept = byDatabase.get(sequelize);
+  const kept = byDatabase.get(sequelize);
   if (kept) return kept;
   const made: KeptIdentity = { users: new Kept(), sessions: new Kept() };
   const { User, Organisation, Farm, FarmAccess, Session } = ctx.db.models;
@@ -72,8 +72,7 @@ function keptFor(ctx: AppContext): KeptIdentity {
     });
   }
   byDatabase.set(sequelize, made);
-  kept = made;
-  return kept;
+  return made;
 }
 
 /** The signed-in user as `sessionUserFor` gives it, from memory when nothing that shapes it was written since. */
