@@ -67,7 +67,7 @@ export async function sendTokenMail(ctx: AppContext, user: User, purpose: 'invit
       : 'Someone (hopefully you) asked to set a new password for your Brimstock account.';
   const text = `Hello ${user.name},\n\n${lead}\n\nOpen this link to set your password (it works once, for ${hours} hours):\n${link}\n\nIf you did not expect this message, ignore it.\n`;
   const html = `<p>Hello ${escapeHtml(user.name)},</p><p>${escapeHtml(lead)}</p><p><a href="${escapeHtml(link)}">Set your password</a> — the link works once, for ${hours} hours.</p><p>If you did not expect this message, ignore it.</p>`;
-  await ctx.mailer.send({ to: user.email, subject, text, html });
+  await ctx.mailer.send({ organisationId: user.organisationId, kind: 'account', to: user.email, subject, text, html });
 }
 
 async function liveToken(ctx: AppContext, token: string) {

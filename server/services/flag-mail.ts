@@ -46,7 +46,7 @@ export async function mailRaisedFlags(ctx: AppContext, organisationId: number, r
     if (!mine.length) continue;
     const body = render(mine, names, `${ctx.config.publicUrl}/flags`);
     const subject = mine.length === 1 ? `Brimstock: ${FLAG_LABELS[mine[0].kind]} — ${mine[0].message}`.slice(0, 180) : `Brimstock: ${mine.length} new flags`;
-    await ctx.mailer.send({ to: user.email, subject, ...body }).catch((err) => ctx.logger.error({ err }, 'flag mail failed'));
+    await ctx.mailer.send({ organisationId, kind: 'flag', to: user.email, subject, ...body }).catch((err) => ctx.logger.error({ err }, 'flag mail failed'));
   }
 }
 
@@ -85,7 +85,7 @@ export async function sendFlagDigests(ctx: AppContext, now = new Date()): Promis
       const mine = active.filter((f) => farmIds.has(f.farmId) && concerns(user.role, f.kind));
       if (!mine.length) continue;
       const body = render(mine, names, `${ctx.config.publicUrl}/flags`);
-      await ctx.mailer.send({ to: user.email, subject: `Brimstock daily summary: ${mine.length} flag${mine.length === 1 ? '' : 's'} need${mine.length === 1 ? 's' : ''} a look`, ...body });
+      await ctx.mailer.send({ organisationId: org.id, kind: 'flag', to: user.email, subject: `Brimstock daily summary: ${mine.length} flag${mine.length === 1 ? '' : 's'} need${mine.length === 1 ? 's' : ''} a look`, ...body });
       await user.update({ lastDigestAt: now });
       sent++;
     }

@@ -342,7 +342,7 @@ export async function sendOrder(ctx: AppContext, actor: SessionUser, id: number)
   const dto = await getOrder(ctx, actor, claimed.id);
   const mail = orderMail(dto, actor.organisationName, actor);
   try {
-    await ctx.mailer.send({ to: dto.supplierEmail, subject: mail.subject, text: mail.text, html: mail.html, attachments: [{ filename: `${dto.number}.csv`, content: mail.csv, contentType: 'text/csv' }] });
+    await ctx.mailer.send({ organisationId: actor.organisationId, kind: 'order', to: dto.supplierEmail, subject: mail.subject, text: mail.text, html: mail.html, attachments: [{ filename: `${dto.number}.csv`, content: mail.csv, contentType: 'text/csv' }] });
   } catch (err) {
     // Nothing left the building: put the order back to draft so it can be sent again.
     await claimed.update({ status: 'draft', sentAt: null });

@@ -10,3 +10,4 @@ export * from './imports';
 export * from './inventory';
 export * from './flags';
 export * from './brews';
+export * from './outbox';

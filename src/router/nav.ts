@@ -28,7 +28,7 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { name: 'brews', to: '/brews', label: 'Brews', icon: 'pi pi-filter', roles: ['owner', 'manager', 'worker'], description: 'Log batches of culture, fertilizer and pest solution, with the mixing calculator.' },
   { name: 'flags', to: '/flags', label: 'Flags', icon: 'pi pi-flag', roles: EVERYONE, description: 'Everything that needs a person: low stock, leaks, cold cultures, frost and more.' },
   { name: 'people', to: '/people', label: 'People', icon: 'pi pi-users', roles: ['owner'], description: 'Invite people, set roles and farm access.' },
-  { name: 'outbox', to: '/outbox', label: 'Outbox (dev)', icon: 'pi pi-envelope', roles: ['owner'], description: 'Mail the development server captured.' },
+  { name: 'outbox', to: '/outbox', label: 'Outbox (dev)', icon: 'pi pi-envelope', roles: ['owner', 'manager', 'buyer'], description: 'Mail the development server captured for your organisation.' },
   { name: 'profile', to: '/profile', label: 'Profile', icon: 'pi pi-user', roles: EVERYONE, description: 'Your name and the units you see.' },
 ];
 

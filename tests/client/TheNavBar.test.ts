@@ -41,9 +41,9 @@ async function mountAs(role: Role) {
 describe('TheNavBar', () => {
   it.each([
     ['owner', ['home', 'round', 'imports', 'farms', 'inputs', 'orders', 'suppliers', 'brews', 'flags', 'people', 'outbox', 'profile']],
-    ['manager', ['home', 'round', 'imports', 'farms', 'inputs', 'orders', 'suppliers', 'brews', 'flags', 'profile']],
+    ['manager', ['home', 'round', 'imports', 'farms', 'inputs', 'orders', 'suppliers', 'brews', 'flags', 'outbox', 'profile']],
     ['worker', ['home', 'round', 'imports', 'farms', 'inputs', 'brews', 'flags', 'profile']],
-    ['buyer', ['home', 'farms', 'inputs', 'orders', 'suppliers', 'flags', 'profile']],
+    ['buyer', ['home', 'farms', 'inputs', 'orders', 'suppliers', 'flags', 'outbox', 'profile']],
   ] as const)('shows a %s the links %j', async (role, expected) => {
     const { wrapper } = await mountAs(role);
 

@@ -26,7 +26,7 @@ vi.mock('@/api/auth', () => ({
 }));
 vi.mock('@/api/farms', () => ({ fetchFarms: vi.fn(), fetchFarm: vi.fn(), createFarm: vi.fn(), updateFarm: vi.fn() }));
 vi.mock('@/api/people', () => ({ fetchPeople: vi.fn(), invitePerson: vi.fn(), resendInvitation: vi.fn(), updatePerson: vi.fn() }));
-vi.mock('@/api/outbox', () => ({ fetchOutbox: vi.fn(), clearOutbox: vi.fn() }));
+vi.mock('@/api/outbox', async (original) => ({ ...(await original<typeof import('@/api/outbox')>()), fetchOutbox: vi.fn(), clearOutbox: vi.fn() }));
 
 const auth = vi.mocked(authApi);
 const farms = vi.mocked(farmsApi);
@@ -111,17 +111,33 @@ describe('SetPasswordView', () => {
 });
 
 describe('OutboxView', () => {
+  beforeEach(() => {
+    auth.fetchSession.mockResolvedValue(sessionOf(makeUser('manager')));
+  });
+
   it('lists mails newest first with clickable links', async () => {
     outbox.fetchOutbox.mockResolvedValue([
-      { id: 'a', to: 'bea@hollowbrook.test', from: 'brimstock@hollowbrook.test', subject: 'Older', date: '2026-03-01T09:00:00.000Z', text: 'no links', html: '' },
+      {
+        id: 'a',
+        to: 'orders@millrace.test',
+        from: 'brimstock@hollowbrook.test',
+        subject: 'Older',
+        kind: 'order',
+        date: '2026-03-01T09:00:00.000Z',
+        text: 'no links',
+        html: '',
+        attachments: [{ index: 0, filename: 'TB-26-001.csv', contentType: 'text/csv', size: 2048 }],
+      },
       {
         id: 'b',
         to: 'dana@hollowbrook.test',
         from: 'brimstock@hollowbrook.test',
         subject: 'Reset your password',
+        kind: 'account',
         date: '2026-03-02T09:00:00.000Z',
         text: 'Open http://127.0.0.1:5173/set-password?token=abc to choose one.',
         html: '',
+        attachments: [],
       },
     ]);
     const { wrapper } = await mountWithApp(OutboxView, { pinia, path: '/outbox' });
@@ -131,6 +147,10 @@ describe('OutboxView', () => {
     expect(items[0]!.text()).toContain('Reset your password');
     expect(items[0]!.get('[data-testid="outbox-link"]').attributes('href')).toBe('http://127.0.0.1:5173/set-password?token=abc');
     expect(items[1]!.find('[data-testid="outbox-link"]').exists()).toBe(false);
+    expect(items[1]!.get('[data-testid="outbox-kind"]').text()).toBe('Purchase order');
+    const file = items[1]!.get('[data-testid="outbox-attachment"]');
+    expect(file.attributes('href')).toBe('/api/dev/outbox/a/attachments/0');
+    expect(file.text()).toBe('TB-26-001.csv');
   });
 
   it('says the outbox is not enabled when the API answers 404', async () => {

@@ -172,8 +172,9 @@ const ROWS: Row[] = [
   { route: 'PATCH /api/brews/:id', url: async (w, s) => `/api/brews/${await freshBrew(w, s)}`, body: () => ({ notes: 'matrix' }), expect: { ...farmRead(200), buyer: 403 } },
   { route: 'POST /api/brews/:id/temperatures', url: async (w, s) => `/api/brews/${await freshBrew(w, s)}/temperatures`, body: () => ({ temperatureC: 21 }), expect: { ...farmRead(201), buyer: 403 } },
   // Development-only mail outbox; not mounted in production (see the config test).
-  { route: 'GET /api/dev/outbox', url: () => '/api/dev/outbox', expect: same(200) },
-  { route: 'DELETE /api/dev/outbox', url: () => '/api/dev/outbox', expect: same(204) },
+  { route: 'GET /api/dev/outbox', url: () => '/api/dev/outbox', expect: purchasing(200) },
+  { route: 'GET /api/dev/outbox/:id/attachments/:index', url: () => '/api/dev/outbox/no-such-mail/attachments/0', expect: purchasing(404) },
+  { route: 'DELETE /api/dev/outbox', url: () => '/api/dev/outbox', expect: managersOnly(204) },
 ];
 
 const env = useTestApp({ SIGN_IN_LIMIT_PER_IP: '100000', SIGN_IN_LIMIT_PER_ACCOUNT: '100000' });

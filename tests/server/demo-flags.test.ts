@@ -10,7 +10,7 @@ import { call, signedIn } from '../support/fixtures';
 import { loadDemoScenario, readScenario } from '../../server/services/demo';
 import { evaluateInputFlags, evaluateTankFlags } from '../../server/services/flags';
 import { sendFlagDigests } from '../../server/services/flag-mail';
-import { readOutbox } from '../../server/mail/capture';
+import { readOutbox } from '../../server/mail/outbox';
 import { waitForMail } from '../support/mail';
 
 const env = useTestApp();

@@ -6,7 +6,7 @@ import { makeTank } from '../support/tanks';
 import { makeInput } from '../support/inventory';
 import { attachFlagRules, evaluateInputFlags, evaluateTankFlags } from '../../server/services/flags';
 import { sendFlagDigests } from '../../server/services/flag-mail';
-import { readOutbox } from '../../server/mail/capture';
+import { readOutbox } from '../../server/mail/outbox';
 import { waitForMail } from '../support/mail';
 
 const env = useTestApp();

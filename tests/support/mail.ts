@@ -1,4 +1,4 @@
-import { readOutbox, type CapturedMail } from '../../server/mail/capture';
+import { readOutbox, type CapturedMail } from '../../server/mail/outbox';
 
 /** Waits for a captured mail to `to` (the receiver writes files asynchronously). */
 export async function waitForMail(outboxDir: string, to: string, timeoutMs = 5_000): Promise<CapturedMail> {
