@@ -15,6 +15,7 @@ import * as m0007 from './migrations/0007-flags';
 import * as m0008 from './migrations/0008-brews';
 import * as m0009 from './migrations/0009-flag-mail';
 import * as m0010 from './migrations/0010-import-file-claim';
+import * as m0012 from './migrations/0012-flag-clear-note';
 
 /** Migrations in order; add a new numbered file and list it here. */
 const MIGRATIONS = [
@@ -28,6 +29,7 @@ const MIGRATIONS = [
   { name: '0008-brews', module: m0008 },
   { name: '0009-flag-mail', module: m0009 },
   { name: '0010-import-file-claim', module: m0010 },
+  { name: '0012-flag-clear-note', module: m0012 },
 ];
 
 export interface Database {

@@ -19,6 +19,9 @@ export class Flag extends Model<InferAttributes<Flag>, InferCreationAttributes<F
   declare acknowledgedById: number | null;
   declare ackNote: string | null;
   declare clearedAt: Date | null;
+  /** Set when a person cleared the flag by hand, with `clearNote` saying why. */
+  declare clearedById: CreationOptional<number | null>;
+  declare clearNote: CreationOptional<string | null>;
 
   static initModel(sequelize: Sequelize) {
     Flag.init(
@@ -39,6 +42,8 @@ export class Flag extends Model<InferAttributes<Flag>, InferCreationAttributes<F
         acknowledgedById: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
         ackNote: { type: DataTypes.STRING(300), allowNull: true },
         clearedAt: { type: DataTypes.DATE(3), allowNull: true },
+        clearedById: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true, defaultValue: null },
+        clearNote: { type: DataTypes.STRING(300), allowNull: true, defaultValue: null },
       },
       { sequelize, tableName: 'flags', timestamps: false },
     );

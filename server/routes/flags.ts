@@ -1,8 +1,8 @@
 import { Router } from 'express';
-import { flagAckSchema, flagListQuerySchema } from '@shared/schemas';
+import { flagAckSchema, flagClearSchema, flagListQuerySchema } from '@shared/schemas';
 import type { AppContext } from '../context';
-import { actorOf, requireSignIn } from '../middleware/access';
-import { acknowledgeFlag, listFlags } from '../services/flags';
+import { actorOf, requireRole, requireSignIn } from '../middleware/access';
+import { acknowledgeFlag, clearFlag, listFlags } from '../services/flags';
 import { idParam, parse } from '../validate';
 
 export function flagsRouter(ctx: AppContext) {
@@ -12,6 +12,9 @@ export function flagsRouter(ctx: AppContext) {
   });
   router.post('/:id/acknowledge', requireSignIn, async (req, res) => {
     res.json(await acknowledgeFlag(ctx, actorOf(req), idParam(req.params.id, 'Flag'), parse(flagAckSchema, req.body).note));
+  });
+  router.post('/:id/clear', requireRole('owner', 'manager'), async (req, res) => {
+    res.json(await clearFlag(ctx, actorOf(req), idParam(req.params.id, 'Flag'), parse(flagClearSchema, req.body).note));
   });
   return router;
 }

@@ -1,7 +1,7 @@
 // Flags: raised and cleared by the rules of shared/flags whenever stock changes (and on a timer
 // for stale tanks), one active flag per kind and subject, acknowledged by a person, kept as history.
 import { Op, QueryTypes, type WhereOptions } from 'sequelize';
-import { tankFlagConditions, type FlagCondition } from '@shared/flags';
+import { FLAG_LABELS, TANK_FLAG_KINDS, TEMPERATURE_FLAG_KINDS, clearableByHand, judgedTankKinds, tankFlagConditions, type FlagCondition } from '@shared/flags';
 import type { Flag as FlagDto, FlagKind, SessionUser } from '@shared/schemas';
 import type { AppContext } from '../context';
 import { AppError, forbidden, notFound } from '../errors';
@@ -10,13 +10,15 @@ import { computeForecast } from './forecasts';
 import { listInputs } from './inventory';
 import { mailRaisedFlags, sendFlagDigests } from './flag-mail';
 
-const TANK_KINDS: FlagKind[] = ['low-stock', 'stale-tank', 'cold-culture', 'frost-risk', 'overfill', 'suspected-leak'];
-
-/** Brings one subject's active flags in line with the conditions that hold now; returns true when anything changed. New flags go into `raised`. */
-async function reconcile(ctx: AppContext, subject: { organisationId: number; farmId: number; type: 'tank' | 'input'; id: number }, kinds: FlagKind[], holding: FlagCondition[], raised: Flag[]): Promise<boolean> {
+/**
+ * Brings one subject's active flags of `kinds` (the kinds what is known now can decide) in line with
+ * the conditions that hold now; active flags of other kinds are left as they are. Returns true when
+ * anything changed. New flags go into `raised`.
+ */
+async function reconcile(ctx: AppContext, subject: { organisationId: number; farmId: number; type: 'tank' | 'input'; id: number }, kinds: readonly FlagKind[], holding: FlagCondition[], raised: Flag[]): Promise<boolean> {
   const { Flag } = ctx.db.models;
   const now = new Date();
-  const active = await Flag.findAll({ where: { subjectType: subject.type, subjectId: subject.id, activeKey: 1, kind: kinds } });
+  const active = await Flag.findAll({ where: { subjectType: subject.type, subjectId: subject.id, activeKey: 1, kind: [...kinds] } });
   let changed = false;
   for (const c of holding) {
     const cur = active.find((f) => f.kind === c.kind);
@@ -53,10 +55,20 @@ async function latestBrewTemperatures(ctx: AppContext, farmId: number): Promise<
   return new Map(rows.map((r) => [r.tankId, { at: new Date(r.at), temperatureC: r.temperatureC }]));
 }
 
-/** A tank's temperature now: the newer of its latest reading's and a temperature logged on its working brew. */
-function newestTemperature(latest: { takenAt: Date; temperatureC: number | null } | null, brew: { at: Date; temperatureC: number } | null): number | null {
-  if (brew && (!latest || latest.temperatureC === null || brew.at.getTime() >= latest.takenAt.getTime())) return brew.temperatureC;
-  return latest?.temperatureC ?? null;
+/** A tank's temperature now and when it was taken: the newer of its latest reading's and a temperature logged on its working brew (null: neither). */
+function newestTemperature(latest: { takenAt: Date; temperatureC: number | null } | null, brew: { at: Date; temperatureC: number } | null): { at: Date; temperatureC: number } | null {
+  if (brew && (!latest || latest.temperatureC === null || brew.at.getTime() >= latest.takenAt.getTime())) return brew;
+  return latest && latest.temperatureC !== null ? { at: latest.takenAt, temperatureC: latest.temperatureC } : null;
+}
+
+/** When a person last cleared each temperature flag of a farm's tanks by hand (`tankId:kind` → time). */
+async function clearedByHand(ctx: AppContext, farmId: number): Promise<Map<string, number>> {
+  const rows = await ctx.db.sequelize.query<{ subjectId: number; kind: string; at: Date }>(
+    `SELECT subjectId, kind, MAX(clearedAt) AS at FROM flags
+      WHERE farmId = :farmId AND subjectType = 'tank' AND kind IN (:kinds) AND clearedById IS NOT NULL GROUP BY subjectId, kind`,
+    { replacements: { farmId, kinds: [...TEMPERATURE_FLAG_KINDS] }, type: QueryTypes.SELECT },
+  );
+  return new Map(rows.map((r) => [`${r.subjectId}:${r.kind}`, new Date(r.at).getTime()]));
 }
 
 // Suspected leaks read up to 16 days of readings per tank; they change only with a new latest
@@ -83,18 +95,22 @@ export async function evaluateTankFlags(ctx: AppContext, organisationId: number,
     const tanks = await Tank.findAll({ where: { farmId: farm.id, archivedAt: null } });
     const latest = new Map((await TankLatest.findAll({ where: { tankId: tanks.map((t) => t.id) } })).map((l) => [l.tankId, l]));
     const brewTemps = await latestBrewTemperatures(ctx, farm.id);
+    const handCleared = await clearedByHand(ctx, farm.id);
     for (const tank of tanks) {
       const l = latest.get(tank.id);
-      const temperatureC = newestTemperature(l ?? null, brewTemps.get(tank.id) ?? null);
+      const temperature = newestTemperature(l ?? null, brewTemps.get(tank.id) ?? null);
       const leaks = l ? await leaksOf(ctx, tank, farm.timeZone, l) : [];
+      const input = {
+        name: tank.name, contents: tank.contents, usableL: l?.usableL ?? null, lowStockL: tank.lowStockL, levelMm: l?.levelMm ?? null, safeFillLevelMm: tank.safeFillLevelMm,
+        temperatureC: temperature?.temperatureC ?? null, takenAt: l ? l.takenAt.getTime() : null, now, staleAfterDays: farm.staleAfterDays, coldCultureC: farm.coldCultureC, frostRiskC: farm.frostRiskC,
+        leaks: leaks.map((x) => ({ lossL: x.lossL, rateLPerHour: x.rateLPerHour })),
+      };
+      // A flag a person cleared by hand is not raised again from the temperature they saw; a newer one may.
       const holding = farm.archivedAt
         ? []
-        : tankFlagConditions({
-            name: tank.name, contents: tank.contents, usableL: l?.usableL ?? null, lowStockL: tank.lowStockL, levelMm: l?.levelMm ?? null, safeFillLevelMm: tank.safeFillLevelMm,
-            temperatureC, takenAt: l ? l.takenAt.getTime() : null, now, staleAfterDays: farm.staleAfterDays, coldCultureC: farm.coldCultureC, frostRiskC: farm.frostRiskC,
-            leaks: leaks.map((x) => ({ lossL: x.lossL, rateLPerHour: x.rateLPerHour })),
-          });
-      if (await reconcile(ctx, { organisationId, farmId: farm.id, type: 'tank', id: tank.id }, TANK_KINDS, holding, raised)) changedFarms.add(farm.id);
+        : tankFlagConditions(input).filter((c) => !temperature || !TEMPERATURE_FLAG_KINDS.includes(c.kind) || (handCleared.get(`${tank.id}:${c.kind}`) ?? -Infinity) < temperature.at.getTime());
+      const kinds = farm.archivedAt ? TANK_FLAG_KINDS : judgedTankKinds(input);
+      if (await reconcile(ctx, { organisationId, farmId: farm.id, type: 'tank', id: tank.id }, kinds, holding, raised)) changedFarms.add(farm.id);
     }
   }
   await mailRaisedFlags(ctx, organisationId, raised);
@@ -127,7 +143,7 @@ async function toDtos(ctx: AppContext, rows: Flag[]): Promise<FlagDto[]> {
   const tanks = new Map((tankIds.length ? await Tank.findAll({ where: { id: tankIds }, attributes: ['id', 'name', 'code'] }) : []).map((t) => [t.id, `${t.name} (${t.code})`]));
   const inputs = new Map((inputIds.length ? await Input.findAll({ where: { id: inputIds }, attributes: ['id', 'name'] }) : []).map((i) => [i.id, i.name]));
   const farms = new Map((await Farm.findAll({ where: { id: [...new Set(rows.map((r) => r.farmId))] }, attributes: ['id', 'name'] })).map((f) => [f.id, f.name]));
-  const userIds = [...new Set(rows.map((r) => r.acknowledgedById).filter((v): v is number => v !== null))];
+  const userIds = [...new Set(rows.flatMap((r) => [r.acknowledgedById, r.clearedById]).filter((v): v is number => v !== null && v !== undefined))];
   const users = new Map((userIds.length ? await User.findAll({ where: { id: userIds }, attributes: ['id', 'name'] }) : []).map((u) => [u.id, u.name]));
   const iso = (d: Date | null) => (d ? d.toISOString() : null);
   return rows.map((r) => ({
@@ -135,6 +151,7 @@ async function toDtos(ctx: AppContext, rows: Flag[]): Promise<FlagDto[]> {
     subjectName: (r.subjectType === 'tank' ? tanks.get(r.subjectId) : inputs.get(r.subjectId)) ?? '', status: r.status, message: r.message, value: r.value,
     raisedAt: r.raisedAt.toISOString(), lastSeenAt: r.lastSeenAt.toISOString(), acknowledgedAt: iso(r.acknowledgedAt),
     acknowledgedBy: r.acknowledgedById ? (users.get(r.acknowledgedById) ?? null) : null, ackNote: r.ackNote, clearedAt: iso(r.clearedAt),
+    clearedBy: r.clearedById ? (users.get(r.clearedById) ?? null) : null, clearNote: r.clearNote ?? null,
   }));
 }
 
@@ -162,6 +179,24 @@ export async function acknowledgeFlag(ctx: AppContext, actor: SessionUser, id: n
   if (actor.role === 'buyer' && flag.kind !== 'reorder-due') throw forbidden('Buyers acknowledge reorder flags only');
   if (flag.status === 'cleared') throw new AppError(409, 'flag_cleared', 'This flag has cleared already: its condition ended');
   await flag.update({ status: 'acknowledged', acknowledgedAt: new Date(), acknowledgedById: actor.id, ackNote: note });
+  ctx.events.emit('flags', { organisationId: actor.organisationId, farmIds: [flag.farmId] });
+  return (await toDtos(ctx, [flag]))[0];
+}
+
+/**
+ * A person ends a temperature flag by hand, saying why (a tank drained for the winter, a thermometer
+ * found in the sun). It stays cleared until a temperature newer than the clearing meets the rule again.
+ * Other kinds end only with their condition (409).
+ */
+export async function clearFlag(ctx: AppContext, actor: SessionUser, id: number, note: string): Promise<FlagDto> {
+  const flag = await ctx.db.models.Flag.findOne({ where: { id, organisationId: actor.organisationId } });
+  if (!flag) throw notFound('Flag');
+  if (!actor.farmIds.includes(flag.farmId)) throw forbidden('You do not have access to this farm');
+  if (flag.status === 'cleared') throw new AppError(409, 'flag_cleared', 'This flag has cleared already');
+  if (!clearableByHand(flag.kind)) {
+    throw new AppError(409, 'flag_not_clearable', `${FLAG_LABELS[flag.kind]} ends by itself once the tank or input is back in order; acknowledge it instead`);
+  }
+  await flag.update({ status: 'cleared', activeKey: null, clearedAt: new Date(), clearedById: actor.id, clearNote: note });
   ctx.events.emit('flags', { organisationId: actor.organisationId, farmIds: [flag.farmId] });
   return (await toDtos(ctx, [flag]))[0];
 }

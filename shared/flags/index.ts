@@ -9,6 +9,21 @@ export const FROST_RISK_C = 2;
 /** Days without a reading after which a tank is stale (default of the farm setting). */
 export const STALE_AFTER_DAYS = 3;
 
+/** The kinds of flag a tank can raise. */
+export const TANK_FLAG_KINDS: readonly FlagKind[] = ['low-stock', 'stale-tank', 'cold-culture', 'frost-risk', 'overfill', 'suspected-leak'];
+
+/**
+ * Kinds that speak of a temperature. Only a temperature (a reading's, or one logged on the tank's
+ * working brew) can end them — a reading of levels alone says nothing of the warmth — or a person,
+ * by hand and with a note.
+ */
+export const TEMPERATURE_FLAG_KINDS: readonly FlagKind[] = ['frost-risk', 'cold-culture'];
+
+/** True when a person may clear a flag of this kind by hand (with a note): the temperature kinds only; the rest end with their condition. */
+export function clearableByHand(kind: FlagKind): boolean {
+  return TEMPERATURE_FLAG_KINDS.includes(kind);
+}
+
 /** Our own names for the flag kinds. */
 export const FLAG_LABELS: Record<FlagKind, string> = {
   'low-stock': 'Running low',
@@ -59,6 +74,14 @@ export interface FlagCondition {
 }
 
 const n = (v: number, d = 1) => formatNumberTrimmed(v, d);
+
+/**
+ * The tank flag kinds this input can decide (raise, keep or end): every kind, less the temperature
+ * kinds when no temperature is known, so that an open temperature flag outlives readings of levels alone.
+ */
+export function judgedTankKinds(t: Pick<TankFlagInput, 'temperatureC'>): FlagKind[] {
+  return t.temperatureC === null ? TANK_FLAG_KINDS.filter((k) => !TEMPERATURE_FLAG_KINDS.includes(k)) : [...TANK_FLAG_KINDS];
+}
 
 /** Every flag condition that holds for a tank now (empty when all is well). */
 export function tankFlagConditions(t: TankFlagInput): FlagCondition[] {

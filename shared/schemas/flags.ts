@@ -31,6 +31,10 @@ export interface Flag {
   acknowledgedBy: string | null;
   ackNote: string | null;
   clearedAt: string | null;
+  /** Who cleared it by hand (null: it ended with its condition). */
+  clearedBy: string | null;
+  /** Why it was cleared by hand. */
+  clearNote: string | null;
 }
 
 /** Query of GET /api/flags. */
@@ -43,3 +47,6 @@ export const flagListQuerySchema = z.object({
 
 /** Body of POST /api/flags/:id/acknowledge. */
 export const flagAckSchema = z.object({ note: z.string().trim().min(2, 'say what was done or planned').max(300) });
+
+/** Body of POST /api/flags/:id/clear: a person ends a temperature flag by hand, saying why. */
+export const flagClearSchema = z.object({ note: z.string({ error: 'say why the flag is over' }).trim().min(2, 'say why the flag is over').max(300) });

@@ -36,6 +36,11 @@ export function acknowledgeFlag(id: number, note: string): Promise<Flag> {
   return http.post<Flag>(`/api/flags/${id}/acknowledge`, { note });
 }
 
+/** Ends a temperature flag by hand, saying why (owners and managers); it stays over until a newer temperature meets the rule again. */
+export function clearFlag(id: number, note: string): Promise<Flag> {
+  return http.post<Flag>(`/api/flags/${id}/clear`, { note });
+}
+
 /**
  * Listens for pushed changes of any farm's active flags on the tab's shared connection, and calls
  * `onReconnect` when that connection comes back (pushes sent while it was down are lost).

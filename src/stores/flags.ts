@@ -73,7 +73,11 @@ export const useFlagsStore = defineStore('flags', () => {
   function replay(rows: Flag[], mark: number, forList: boolean): Flag[] {
     let out = rows;
     for (const c of changesSince(mark)) {
-      if ('flag' in c) out = mergeFlag(out, c.flag);
+      if ('flag' in c) {
+        // A flag cleared by hand meanwhile leaves the active flags, and any list it no longer matches.
+        const gone = forList ? !flagMatches(c.flag, filters) : !ACTIVE_STATUSES.includes(c.flag.status);
+        out = gone ? out.filter((f) => f.id !== c.flag.id) : mergeFlag(out, c.flag);
+      }
       else if (!forList) out = mergePush(out, c.push, () => true);
       else if (pushCoversList()) out = mergePush(out, c.push, (f) => flagMatches(f, filters));
     }
@@ -161,6 +165,15 @@ export const useFlagsStore = defineStore('flags', () => {
     return flag;
   }
 
+  /** Clears a temperature flag by hand with why it is over: it leaves the active flags at once. Throws ApiError (409 when it is over already). */
+  async function clearByHand(id: number, note: string): Promise<Flag> {
+    const flag = await flagsApi.clearFlag(id, note);
+    record({ flag });
+    list.value = flagMatches(flag, filters) ? mergeFlag(list.value, flag) : list.value.filter((f) => f.id !== flag.id);
+    active.value = active.value.filter((f) => f.id !== flag.id);
+    return flag;
+  }
+
   /** Follows pushes while the caller listens (and reloads after a lost connection); returns the stop function. */
   function listen(): () => void {
     return flagsApi.onFlagsPush(applyFarmPush, () => {
@@ -205,6 +218,7 @@ export const useFlagsStore = defineStore('flags', () => {
     loadActive,
     applyFarmPush,
     acknowledge,
+    clearByHand,
     listen,
     claim,
     reset,

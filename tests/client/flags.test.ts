@@ -11,7 +11,7 @@ import FlagsView from '@/views/FlagsView.vue';
 import { makeFarm, makeUser, sessionOf } from './support/fixtures';
 import { mountWithApp } from './support/mountApp';
 
-vi.mock('@/api/flags', () => ({ fetchFlags: vi.fn(), acknowledgeFlag: vi.fn(), onFlagsPush: vi.fn(() => () => undefined) }));
+vi.mock('@/api/flags', () => ({ fetchFlags: vi.fn(), acknowledgeFlag: vi.fn(), clearFlag: vi.fn(), onFlagsPush: vi.fn(() => () => undefined) }));
 vi.mock('@/api/auth', () => ({ fetchSession: vi.fn(), signIn: vi.fn(), signOut: vi.fn(), updateProfile: vi.fn(), setPassword: vi.fn(), requestPasswordReset: vi.fn(), fetchTokenInfo: vi.fn() }));
 vi.mock('@/api/farms', () => ({ fetchFarms: vi.fn(), fetchFarm: vi.fn(), createFarm: vi.fn(), updateFarm: vi.fn() }));
 
@@ -23,7 +23,7 @@ function makeFlag(id: number, overrides: Partial<Flag> = {}): Flag {
   return {
     id, farmId: 11, farmName: 'Creek site', kind: 'low-stock', subjectType: 'tank', subjectId: 100 + id, subjectName: `Tank ${id} (CS-${id})`, status: 'open',
     message: `Tank ${id} has 120 L usable, under its 300 L threshold`, value: 120, raisedAt: `2026-03-02T0${id % 10}:00:00.000Z`, lastSeenAt: `2026-03-02T0${id % 10}:30:00.000Z`,
-    acknowledgedAt: null, acknowledgedBy: null, ackNote: null, clearedAt: null, ...overrides,
+    acknowledgedAt: null, acknowledgedBy: null, ackNote: null, clearedAt: null, clearedBy: null, clearNote: null, ...overrides,
   };
 }
 
@@ -145,6 +145,39 @@ describe('FlagsView', () => {
     expect(wrapper.get('[data-testid="flags-status-1"]').text()).toBe('Seen');
     expect(wrapper.get('[data-testid="flags-acknowledged-1"]').text()).toContain('Heater reset');
     expect(wrapper.find('[data-testid="flags-ack-1"]').exists()).toBe(false);
+  });
+
+  it('lets a manager clear a frost flag by hand only with a note, and offers no such button for low stock', async () => {
+    api.fetchFlags.mockResolvedValue([makeFlag(1, { kind: 'frost-risk' }), makeFlag(2, { kind: 'low-stock' })]);
+    api.clearFlag.mockImplementation(async (id, note) => makeFlag(id, { kind: 'frost-risk', status: 'cleared', clearedAt: new Date().toISOString(), clearedBy: 'Dana Okafor', clearNote: note }));
+    const { wrapper } = await mountWithApp(FlagsView, { pinia, path: '/flags' });
+    expect(wrapper.find('[data-testid="flags-clear-2"]').exists()).toBe(false);
+
+    await wrapper.get('[data-testid="flags-clear-1"]').trigger('click');
+    await flushPromises();
+    expect(document.querySelector('[data-testid="flags-ack-dialog"]')!.textContent).toContain('Why is it over?');
+    document.querySelector<HTMLButtonElement>('[data-testid="flags-ack-submit"]')!.click();
+    await flushPromises();
+    expect(document.querySelector('[data-testid="flags-ack-note-error"]')!.textContent).toContain('say why the flag is over');
+    expect(api.clearFlag).not.toHaveBeenCalled();
+
+    const note = document.querySelector<HTMLTextAreaElement>('[data-testid="flags-ack-note"]')!;
+    note.value = 'Tote drained and stored indoors';
+    note.dispatchEvent(new Event('input'));
+    document.querySelector<HTMLButtonElement>('[data-testid="flags-ack-submit"]')!.click();
+    await flushPromises();
+    expect(api.clearFlag).toHaveBeenCalledWith(1, 'Tote drained and stored indoors');
+    // The list shows flags needing attention: the cleared one leaves it at once.
+    expect(wrapper.find('[data-testid="flags-row-1"]').exists()).toBe(false);
+    expect(useFlagsStore().list.map((f) => f.id)).toEqual([2]);
+  });
+
+  it('shows a worker no clear-by-hand button', async () => {
+    vi.mocked(authApi).fetchSession.mockResolvedValue(sessionOf(makeUser('worker')));
+    api.fetchFlags.mockResolvedValue([makeFlag(1, { kind: 'frost-risk' })]);
+    const { wrapper } = await mountWithApp(FlagsView, { pinia, path: '/flags' });
+    expect(wrapper.find('[data-testid="flags-ack-1"]').exists()).toBe(true);
+    expect(wrapper.find('[data-testid="flags-clear-1"]').exists()).toBe(false);
   });
 
   it('says nothing needs the person when there are no flags, and shows a load error with retry', async () => {

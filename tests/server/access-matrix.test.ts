@@ -167,6 +167,12 @@ const ROWS: Row[] = [
     body: () => ({ note: 'seen by the matrix' }),
     expect: { ...farmRead(200), buyer: { own: 403, 'other-farm': 403, 'other-org': 404 } },
   },
+  {
+    route: 'POST /api/flags/:id/clear',
+    url: async (w, s) => `/api/flags/${await freshFlag(w, s, 'frost-risk')}/clear`,
+    body: () => ({ note: 'tank drained by the matrix' }),
+    expect: managersOnly({ own: 200, 'other-farm': 200, 'other-org': 404 }),
+  },
   { route: 'GET /api/brews', url: (w, s) => `/api/brews?farmId=${farm(w, s)}`, expect: signedInOnly(200) },
   { route: 'POST /api/brews', url: () => '/api/brews', body: (w, s) => ({ tankId: tank(w, s), kind: 'culture', name: `Matrix brew ${++seq}`, waterL: 10 }), expect: { ...farmRead(201), buyer: 403 } },
   { route: 'PATCH /api/brews/:id', url: async (w, s) => `/api/brews/${await freshBrew(w, s)}`, body: () => ({ notes: 'matrix' }), expect: { ...farmRead(200), buyer: 403 } },
@@ -196,9 +202,9 @@ async function freshBrew(w: World, s: Scope): Promise<number> {
 }
 
 /** A new open tank flag on the scope's farm. */
-async function freshFlag(w: World, s: Scope): Promise<number> {
+async function freshFlag(w: World, s: Scope, only?: 'frost-risk' | 'cold-culture'): Promise<number> {
   const t = (await env.ctx.db.models.Tank.findByPk(w.tanks[s]))!;
-  const kinds = ['low-stock', 'stale-tank', 'cold-culture', 'frost-risk', 'overfill', 'suspected-leak'] as const;
+  const kinds = only ? [only] : (['low-stock', 'stale-tank', 'cold-culture', 'frost-risk', 'overfill', 'suspected-leak'] as const);
   const now = new Date();
   // A different tank-less subject id each time keeps one active flag per kind and subject.
   return (await env.ctx.db.models.Flag.create({ organisationId: t.organisationId, farmId: t.farmId, kind: kinds[seq % kinds.length], subjectType: 'tank', subjectId: 100_000 + ++seq, status: 'open', activeKey: 1, message: 'matrix', value: null, raisedAt: now, lastSeenAt: now, acknowledgedAt: null, acknowledgedById: null, ackNote: null, clearedAt: null })).id;

@@ -20,6 +20,7 @@ import {
   farmCreateSchema,
   farmUpdateSchema,
   flagAckSchema,
+  flagClearSchema,
   flagListQuerySchema,
   gaugeStripQuerySchema,
   importListQuerySchema,
@@ -230,9 +231,9 @@ async function freshReading(): Promise<number> {
   return r.id;
 }
 
-async function freshFlag(): Promise<number> {
+async function freshFlag(kind: 'low-stock' | 'frost-risk' = 'low-stock'): Promise<number> {
   const now = new Date();
-  return (await env.ctx.db.models.Flag.create({ organisationId: org.organisationId, farmId, kind: 'low-stock', subjectType: 'tank', subjectId: 200_000 + ++seq, status: 'open', activeKey: 1, message: 'boundary', value: null, raisedAt: now, lastSeenAt: now, acknowledgedAt: null, acknowledgedById: null, ackNote: null, clearedAt: null })).id;
+  return (await env.ctx.db.models.Flag.create({ organisationId: org.organisationId, farmId, kind, subjectType: 'tank', subjectId: 200_000 + ++seq, status: 'open', activeKey: 1, message: 'boundary', value: null, raisedAt: now, lastSeenAt: now, acknowledgedAt: null, acknowledgedById: null, ackNote: null, clearedAt: null })).id;
 }
 
 const GEOMETRY = { shape: 'vertical-cylinder', diameterMm: 1000, heightMm: 1500 };
@@ -270,6 +271,7 @@ const ROUTES: RouteCase[] = [
   { route: 'PATCH /api/orders/:id', method: 'patch', url: () => `/api/orders/${ids.draftOrder}`, schema: orderUpdateSchema, body: () => ({ notes: 'call first', lines: [{ inputId, quantity: 3 }] }) },
   { route: 'POST /api/orders/:id/receipts', method: 'post', url: () => `/api/orders/${ids.sentOrder}/receipts`, schema: orderReceiptSchema, body: () => ({ lines: [{ lineId: ids.sentLine, quantity: 0.001 }], note: 'part' }) },
   { route: 'POST /api/flags/:id/acknowledge', method: 'post', url: async () => `/api/flags/${await freshFlag()}/acknowledge`, schema: flagAckSchema, body: () => ({ note: 'ordered more' }), noEcho: ['note'], freshFixture: true },
+  { route: 'POST /api/flags/:id/clear', method: 'post', url: async () => `/api/flags/${await freshFlag('frost-risk')}/clear`, schema: flagClearSchema, body: () => ({ note: 'tank drained for the winter' }), noEcho: ['note'], freshFixture: true },
   { route: 'POST /api/brews', method: 'post', url: () => '/api/brews', schema: brewCreateSchema, body: () => ({ tankId, kind: 'culture', name: `Boundary brew ${++seq}`, waterL: 10, dilution: { n: 10, convention: 'parts-water' }, inputs: [{ inputId, quantity: 0.5 }], notes: 'warm' }) },
   { route: 'PATCH /api/brews/:id', method: 'patch', url: () => `/api/brews/${ids.brew}`, schema: brewUpdateSchema, body: () => ({ notes: 'smells right' }) },
   { route: 'POST /api/brews/:id/temperatures', method: 'post', url: () => `/api/brews/${ids.brew}/temperatures`, schema: brewTemperatureSchema, body: () => ({ temperatureC: 21 }) },

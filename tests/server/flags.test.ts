@@ -90,6 +90,71 @@ describe('flag rules', () => {
     await until(coneFlags, (k) => k === '');
   });
 
+  it('keeps frost-risk and cold-culture open through a level-only round; only a temperature reading clears them', async () => {
+    const org = await makeOrganisation(env);
+    const farmId = org.farmIds[0];
+    const tote = await makeTank(env, org, farmId, { code: 'F1', contents: 'fertilizer', lowStockL: 0 });
+    const cone = await makeTank(env, org, farmId, { code: 'C2', contents: 'culture', lowStockL: 0 });
+    const worker = await signedIn(env, org.users.worker.email);
+    const round = (minutesAgo: number, temperatures: { tote?: number; cone?: number }) =>
+      call(worker, 'post', '/api/rounds', {
+        farmId, takenAt: new Date(Date.now() - minutesAgo * 60_000).toISOString(),
+        entries: [
+          { tankId: tote.id, readingMm: 700, ...(temperatures.tote === undefined ? {} : { temperatureC: temperatures.tote }), idempotencyKey: key() },
+          { tankId: cone.id, readingMm: 800, ...(temperatures.cone === undefined ? {} : { temperatureC: temperatures.cone }), idempotencyKey: key() },
+        ],
+      }).expect(201);
+    const open = async () => (await flagsOf(worker)()).filter((f) => f.kind === 'frost-risk' || f.kind === 'cold-culture').map((f) => `${f.kind}@${f.subjectId}`).sort().join(',');
+    const both = [`cold-culture@${cone.id}`, `frost-risk@${tote.id}`].sort().join(',');
+    await round(30, { tote: 1.5, cone: 12 });
+    await until(open, (k) => k === both);
+
+    // Levels only: the rules know nothing new of either temperature.
+    await round(20, {});
+    await new Promise((r) => setTimeout(r, 300));
+    await evaluateTankFlags(env.ctx, org.organisationId, [farmId]);
+    expect(await open()).toBe(both);
+
+    await round(10, { tote: 9, cone: 21 });
+    await until(open, (k) => k === '');
+    const cleared = await flagsOf(worker, '?status=cleared')();
+    expect(cleared.filter((f) => f.kind === 'frost-risk' || f.kind === 'cold-culture')).toHaveLength(2);
+  });
+
+  it('lets a manager clear a temperature flag by hand with a note, and raises it again only on a cold reading taken after that', async () => {
+    const org = await makeOrganisation(env);
+    const farmId = org.farmIds[0];
+    const tank = await makeTank(env, org, farmId, { code: 'W9', lowStockL: 300 });
+    const manager = await signedIn(env, org.users.manager.email);
+    const worker = await signedIn(env, org.users.worker.email);
+    const round = (minutesAgo: number, temperatureC: number) =>
+      call(worker, 'post', '/api/rounds', { farmId, takenAt: new Date(Date.now() - minutesAgo * 60_000).toISOString(), entries: [{ tankId: tank.id, readingMm: 300, temperatureC, idempotencyKey: key() }] }).expect(201);
+    await round(30, 1);
+    const flags = await until(flagsOf(manager), (f) => f.some((x) => x.kind === 'frost-risk') && f.some((x) => x.kind === 'low-stock'));
+    const frost = flags.find((f) => f.kind === 'frost-risk')!;
+    const low = flags.find((f) => f.kind === 'low-stock')!;
+
+    await call(worker, 'post', `/api/flags/${frost.id}/clear`, { note: 'drained it' }).expect(403);
+    const noNote = await call(manager, 'post', `/api/flags/${frost.id}/clear`, {}).expect(400);
+    expect(noNote.body.error.field).toBe('note');
+    await call(manager, 'post', `/api/flags/${frost.id}/clear`, { note: ' ' }).expect(400);
+    // Stock flags end with the stock, never by hand.
+    const lowRefused = await call(manager, 'post', `/api/flags/${low.id}/clear`, { note: 'topped up' }).expect(409);
+    expect(lowRefused.body.error.code).toBe('flag_not_clearable');
+
+    const done = await call(manager, 'post', `/api/flags/${frost.id}/clear`, { note: 'Thermometer was in the sun-shade box; tank drained' }).expect(200);
+    expect(done.body).toMatchObject({ status: 'cleared', clearNote: 'Thermometer was in the sun-shade box; tank drained', clearedBy: expect.any(String) });
+    expect(done.body.clearedAt).not.toBeNull();
+    await call(manager, 'post', `/api/flags/${frost.id}/clear`, { note: 'again' }).expect(409);
+
+    // The same reading does not raise it again …
+    await evaluateTankFlags(env.ctx, org.organisationId, [farmId]);
+    expect((await flagsOf(manager)()).some((f) => f.kind === 'frost-risk')).toBe(false);
+    // … one taken after the clearing does.
+    await round(0, 0.5);
+    await until(flagsOf(manager), (f) => f.some((x) => x.kind === 'frost-risk' && x.id !== frost.id));
+  });
+
   it('raises a stale-tank flag for a reading older than the farm setting', async () => {
     const org = await makeOrganisation(env);
     const tank = await makeTank(env, org, org.farmIds[0], { code: 'S1', lowStockL: 0 });

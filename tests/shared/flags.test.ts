@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { COLD_CULTURE_C, FROST_RISK_C, tankFlagConditions, type TankFlagInput } from '@shared/flags';
+import { COLD_CULTURE_C, FROST_RISK_C, clearableByHand, judgedTankKinds, tankFlagConditions, type TankFlagInput } from '@shared/flags';
+import { FLAG_KINDS } from '@shared/schemas';
 
 const now = Date.UTC(2026, 11, 1, 12);
 const base: TankFlagInput = {
@@ -52,5 +53,18 @@ describe('tankFlagConditions', () => {
     expect(kinds({ takenAt: null, usableL: null, levelMm: null, temperatureC: 17.9 })).toEqual(['cold-culture']);
     expect(kinds({ takenAt: null, usableL: null, levelMm: null, temperatureC: 2 })).toEqual(['frost-risk']);
     expect(kinds({ takenAt: null, usableL: null, levelMm: null, temperatureC: 25 })).toEqual([]);
+  });
+});
+
+describe('judgedTankKinds', () => {
+  it('leaves the temperature kinds undecided when no temperature is known, so a level-only reading cannot end them', () => {
+    expect(judgedTankKinds({ temperatureC: null })).not.toContain('frost-risk');
+    expect(judgedTankKinds({ temperatureC: null })).not.toContain('cold-culture');
+    expect(judgedTankKinds({ temperatureC: null })).toEqual(expect.arrayContaining(['low-stock', 'stale-tank', 'overfill', 'suspected-leak']));
+    expect(judgedTankKinds({ temperatureC: 21 })).toEqual(expect.arrayContaining(['frost-risk', 'cold-culture', 'low-stock']));
+  });
+
+  it('lets only the temperature kinds be cleared by hand', () => {
+    expect(FLAG_KINDS.filter(clearableByHand).sort()).toEqual(['cold-culture', 'frost-risk']);
   });
 });
