@@ -1,6 +1,6 @@
 // The task runner behind `npm start`, `npm test`, `npm run dev` and `npm run bench`
 // (scripts/bootstrap.mjs has already installed what was missing).
-import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
+import { spawn, spawnSync } from 'node:child_process';
 import { existsSync, readFileSync, readdirSync, statSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { randomBytes } from 'node:crypto';
@@ -9,6 +9,7 @@ import { createDatabase, migrate } from '../server/db';
 import { startMailCapture } from '../server/mail/capture';
 import { loadDemoScenario } from '../server/services/demo';
 import { ensureDatabase, persistentSecret, startMariaDb } from './lib/mariadb';
+import { supervise } from './lib/supervisor';
 
 const root = resolve(import.meta.dirname, '..');
 const task = process.argv[2];
@@ -22,8 +23,8 @@ function newestMtime(dir: string): number {
   return newest;
 }
 
-function clientIsStale(): boolean {
-  const built = join(root, 'dist', 'index.html');
+function clientIsStale(clientDir: string): boolean {
+  const built = join(clientDir, 'index.html');
   if (!existsSync(built)) return true;
   const sources = Math.max(newestMtime(join(root, 'src')), newestMtime(join(root, 'shared')), statSync(join(root, 'index.html')).mtimeMs, statSync(join(root, 'vite.config.ts')).mtimeMs);
   return sources > statSync(built).mtimeMs;
@@ -44,53 +45,47 @@ async function prepare() {
   const database = createDatabase(config);
   const applied = await migrate(database.sequelize);
   if (applied.length) console.log(`Migrations applied: ${applied.join(', ')}`);
-  if (await loadDemoScenario(database, { onlyIfEmpty: true })) console.log('Demo scenario loaded (sign-ins are in README.md).');
+  if (config.demo && (await loadDemoScenario(database, { onlyIfEmpty: true }))) console.log('Demo scenario loaded (sign-ins are in README.md).');
   await database.sequelize.close();
   // The server talks to its own MariaDB over the Unix socket: half the cost of TCP per query.
   const env: NodeJS.ProcessEnv = { ...process.env, SESSION_SECRET: process.env.SESSION_SECRET ?? secret, DB_SOCKET: process.env.DB_SOCKET ?? db.socketPath };
   return { config, db, mail, env };
 }
 
-function superviseUntilSignal(children: ChildProcess[], cleanup: () => Promise<void>) {
-  let stopping = false;
-  const stop = async (code = 0) => {
-    if (stopping) return;
-    stopping = true;
-    for (const c of children) if (c.exitCode === null) c.kill('SIGTERM');
-    await Promise.all(children.map((c) => (c.exitCode === null ? new Promise((r) => c.once('exit', r)) : null)));
-    await cleanup();
-    process.exit(code);
-  };
-  process.on('SIGINT', () => void stop());
-  process.on('SIGTERM', () => void stop());
-  for (const c of children) c.once('exit', (code) => void stop(code ?? 0));
-}
-
 async function start() {
-  const { db, mail, env } = await prepare();
-  if (clientIsStale()) {
+  const { config, db, mail, env } = await prepare();
+  if (clientIsStale(config.clientDir)) {
     console.log('Building the client…');
-    if (npx(['vite', 'build', '--logLevel', 'warn']).status !== 0) {
+    if (npx(['vite', 'build', '--logLevel', 'warn'], { ...process.env, BUILD_OUT_DIR: config.clientDir }).status !== 0) {
       await mail.close();
       await db.stop();
       process.exit(1);
     }
   }
-  const server = spawn(process.execPath, ['--import', 'tsx', join(root, 'server', 'index.ts')], { stdio: 'inherit', cwd: root, env });
-  superviseUntilSignal([server], async () => {
-    await mail.close();
-    await db.stop();
-    console.log('Stopped the server, the mail receiver and MariaDB.');
+  supervise({
+    children: [{ name: 'server', start: () => spawn(process.execPath, ['--import', 'tsx', join(root, 'server', 'index.ts')], { stdio: 'inherit', cwd: root, env }) }],
+    maxRestarts: config.serverRestarts,
+    cleanup: async () => {
+      await mail.close();
+      await db.stop();
+      console.log('Stopped the server, the mail receiver and MariaDB.');
+    },
   });
 }
 
 async function dev() {
   const { config, db, mail, env } = await prepare();
-  const server = spawn(process.execPath, ['--import', 'tsx', 'watch', '--clear-screen=false', join(root, 'server', 'index.ts')], { stdio: 'inherit', cwd: root, env: { ...env, PUBLIC_URL: env.PUBLIC_URL ?? 'http://127.0.0.1:5173' } });
-  const vite = spawn(join(root, 'node_modules', '.bin', 'vite'), [], { stdio: 'inherit', cwd: root, env: { ...env, PORT: String(config.port) } });
-  superviseUntilSignal([server, vite], async () => {
-    await mail.close();
-    await db.stop();
+  // tsx watch restarts the server on change itself; if either child dies, everything stops.
+  supervise({
+    children: [
+      { name: 'server', restart: false, start: () => spawn(process.execPath, ['--import', 'tsx', 'watch', '--clear-screen=false', join(root, 'server', 'index.ts')], { stdio: 'inherit', cwd: root, env: { ...env, PUBLIC_URL: env.PUBLIC_URL ?? 'http://127.0.0.1:5173' } }) },
+      { name: 'Vite dev server', restart: false, start: () => spawn(join(root, 'node_modules', '.bin', 'vite'), [], { stdio: 'inherit', cwd: root, env: { ...env, PORT: String(config.port) } }) },
+    ],
+    maxRestarts: 0,
+    cleanup: async () => {
+      await mail.close();
+      await db.stop();
+    },
   });
 }
 

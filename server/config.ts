@@ -32,12 +32,16 @@ const schema = z.object({
   DEV_OUTBOX: bool.default(true),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
   SIGN_IN_LIMIT_PER_IP: z.coerce.number().int().positive().default(30),
-  SIGN_IN_LIMIT_PER_ACCOUNT: z.coerce.number().int().positive().default(8),
+  SIGN_IN_LIMIT_PER_ACCOUNT_AND_IP: z.coerce.number().int().positive().default(8),
   SIGN_IN_WINDOW_MINUTES: z.coerce.number().positive().default(15),
+  SIGN_IN_LIMIT_PER_ACCOUNT: z.coerce.number().int().positive().default(20),
+  SIGN_IN_ACCOUNT_BACKOFF_SECONDS: z.coerce.number().positive().default(60),
   INVITE_TTL_HOURS: z.coerce.number().positive().default(72),
   RESET_TTL_HOURS: z.coerce.number().positive().default(2),
   UPLOAD_MAX_MB: z.coerce.number().positive().max(1024).default(200),
   FLAG_DIGEST_HOUR: z.coerce.number().int().min(0).max(23).default(7),
+  DEMO: bool.optional(),
+  SERVER_RESTARTS: z.coerce.number().int().min(0).max(100).default(5),
 });
 
 export type Config = ReturnType<typeof loadConfig>;
@@ -74,9 +78,20 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     mail: { host: c.SMTP_HOST, port: c.SMTP_PORT, user: c.SMTP_USER, password: c.SMTP_PASSWORD, from: c.MAIL_FROM },
     devOutbox: c.DEV_OUTBOX && c.NODE_ENV !== 'production',
     logLevel: c.LOG_LEVEL,
-    signInLimits: { perIp: c.SIGN_IN_LIMIT_PER_IP, perAccount: c.SIGN_IN_LIMIT_PER_ACCOUNT, windowMs: c.SIGN_IN_WINDOW_MINUTES * 60_000 },
+    /** Failed sign-ins: per address and per account + address over windowMs; per account from anywhere over accountWindowMs. */
+    signInLimits: {
+      perIp: c.SIGN_IN_LIMIT_PER_IP,
+      perAccountAndIp: c.SIGN_IN_LIMIT_PER_ACCOUNT_AND_IP,
+      windowMs: c.SIGN_IN_WINDOW_MINUTES * 60_000,
+      perAccount: c.SIGN_IN_LIMIT_PER_ACCOUNT,
+      accountWindowMs: c.SIGN_IN_ACCOUNT_BACKOFF_SECONDS * 1_000,
+    },
     tokenTtlMs: { invite: c.INVITE_TTL_HOURS * 3_600_000, reset: c.RESET_TTL_HOURS * 3_600_000 },
     uploadMaxBytes: Math.round(c.UPLOAD_MAX_MB * 1024 * 1024),
     flagDigestHour: c.FLAG_DIGEST_HOUR,
+    /** Load the invented demo scenario into an empty database: development and test, or when asked. */
+    demo: c.DEMO ?? c.NODE_ENV !== 'production',
+    /** How many times `npm start` restarts a server process that died, before it stops everything. */
+    serverRestarts: c.SERVER_RESTARTS,
   };
 }
