@@ -6,6 +6,7 @@ import express, { type ErrorRequestHandler, type Router } from 'express';
 import { pinoHttp } from 'pino-http';
 import type { AppContext } from './context';
 import { AppError } from './errors';
+import { requestLogSerializers } from './logger';
 import { loadActor } from './middleware/access';
 import { csrfProtection, csrfTools, securityHeaders, sessions } from './middleware/security';
 import { authRouter } from './routes/auth';
@@ -28,7 +29,7 @@ export function createApp(ctx: AppContext, opts: { staticDir?: string } = {}) {
   app.set('trust proxy', ctx.config.session.secureCookie ? 1 : false);
   app.use(securityHeaders());
   app.use(compression());
-  app.use(pinoHttp({ logger: ctx.logger, autoLogging: { ignore: (req) => req.url === '/api/health' } }));
+  app.use(pinoHttp({ logger: ctx.logger, serializers: requestLogSerializers(ctx.logger), autoLogging: { ignore: (req) => req.url === '/api/health' } }));
 
   const api = express.Router();
   const csrf = csrfTools();

@@ -16,6 +16,7 @@ import * as m0008 from './migrations/0008-brews';
 import * as m0009 from './migrations/0009-flag-mail';
 import * as m0010 from './migrations/0010-import-file-claim';
 import * as m0012 from './migrations/0012-flag-clear-note';
+import * as m0013 from './migrations/0013-email-per-organisation';
 
 /** Migrations in order; add a new numbered file and list it here. */
 const MIGRATIONS = [
@@ -30,6 +31,7 @@ const MIGRATIONS = [
   { name: '0009-flag-mail', module: m0009 },
   { name: '0010-import-file-claim', module: m0010 },
   { name: '0012-flag-clear-note', module: m0012 },
+  { name: '0013-email-per-organisation', module: m0013 },
 ];
 
 export interface Database {

@@ -7,6 +7,7 @@ import type { Config } from './config';
 import type { AppContext } from './context';
 import { createApp } from './app';
 import { createDatabase, migrate } from './db';
+import { settleDeferred } from './deferred';
 import { createLogger } from './logger';
 import { createMailer } from './mail/mailer';
 import { attachRealtime } from './realtime';
@@ -53,6 +54,8 @@ export async function startServer(config: Config, opts: { staticDir?: string } =
       await io.close();
       http.closeAllConnections();
       await new Promise<void>((r) => http.close(() => r()));
+      // Mail queued by the last requests still goes out.
+      await settleDeferred(ctx);
       ctx.mailer.close();
       await ctx.db.sequelize.close();
     },

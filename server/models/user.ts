@@ -22,10 +22,10 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
       {
         id: { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true },
         organisationId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
-        email: { type: DataTypes.STRING(254), allowNull: false, unique: true },
+        email: { type: DataTypes.STRING(254), allowNull: false },
         name: { type: DataTypes.STRING(120), allowNull: false },
         role: { type: DataTypes.ENUM('owner', 'manager', 'worker', 'buyer'), allowNull: false },
-        passwordHash: { type: DataTypes.STRING(100), allowNull: true },
+        passwordHash: { type: DataTypes.STRING(255), allowNull: true },
         active: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
         unitSystem: { type: DataTypes.ENUM('metric', 'us'), allowNull: false, defaultValue: 'metric' },
         lastSignInAt: { type: DataTypes.DATE, allowNull: true },
@@ -34,7 +34,15 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },
-      { sequelize, tableName: 'users' },
+      {
+        sequelize,
+        tableName: 'users',
+        // Unique within an organisation only (migration 0013): one address may have an account in several.
+        indexes: [
+          { unique: true, fields: ['organisationId', 'email'], name: 'users_organisation_email' },
+          { fields: ['email'], name: 'users_email' },
+        ],
+      },
     );
   }
 }

@@ -1,11 +1,10 @@
 import { Router, type Request } from 'express';
-import rateLimit, { ipKeyGenerator } from 'express-rate-limit';
 import { passwordResetSchema, profileSchema, setPasswordSchema, signInSchema, type SessionState } from '@shared/schemas';
 import type { AppContext } from '../context';
 import { actorOf, requireSignIn } from '../middleware/access';
 import { describeToken, requestPasswordReset, sessionUserFor, setPasswordWithToken, verifySignIn } from '../services/auth';
-import { AppError } from '../errors';
 import { parse } from '../validate';
+import { authLimits } from '../middleware/rate-limits';
 import type { CsrfTools } from '../middleware/security';
 
 function regenerate(req: Request): Promise<void> {
@@ -22,20 +21,8 @@ async function startSession(ctx: AppContext, req: Request, csrf: CsrfTools, user
 
 export function authRouter(ctx: AppContext, csrf: CsrfTools) {
   const router = Router();
-  const limited = (limit: number, key: (req: Request) => string) =>
-    rateLimit({
-      windowMs: ctx.config.signInLimits.windowMs,
-      limit,
-      keyGenerator: key,
-      skipSuccessfulRequests: true,
-      standardHeaders: 'draft-8',
-      legacyHeaders: false,
-      handler: () => {
-        throw new AppError(429, 'rate_limited', 'Too many sign-in attempts; wait a few minutes and try again');
-      },
-    });
-  const perIp = limited(ctx.config.signInLimits.perIp, (req) => `ip:${ipKeyGenerator(req.ip ?? '')}`);
-  const perAccount = limited(ctx.config.signInLimits.perAccount, (req) => `acct:${String(req.body?.email ?? '').trim().toLowerCase()}`);
+  const limits = authLimits(ctx.config);
+  const perIp = limits.perIp;
 
   router.get('/session', async (req, res) => {
     const body: SessionState = { user: req.actor ?? null, csrfToken: csrf.generateToken(req) };
@@ -46,7 +33,7 @@ export function authRouter(ctx: AppContext, csrf: CsrfTools) {
     res.json(actorOf(req));
   });
 
-  router.post('/sign-in', perIp, perAccount, async (req, res) => {
+  router.post('/sign-in', ...limits.signIn, async (req, res) => {
     const input = parse(signInSchema, req.body);
     const user = await verifySignIn(ctx, input.email, input.password);
     res.json(await startSession(ctx, req, csrf, user.id));
@@ -67,7 +54,7 @@ export function authRouter(ctx: AppContext, csrf: CsrfTools) {
 
   router.post('/password-reset', perIp, async (req, res) => {
     const { email } = parse(passwordResetSchema, req.body);
-    await requestPasswordReset(ctx, email);
+    requestPasswordReset(ctx, email);
     res.status(202).json({});
   });
 

@@ -1,10 +1,12 @@
 // Sign-in, the session user, and single-use invitation / reset links.
 import { Op } from 'sequelize';
 import type { SessionUser, TokenInfo } from '@shared/schemas';
+import { passwordStrength } from '@shared/passwords';
 import type { AppContext } from '../context';
+import { defer } from '../deferred';
 import { AppError } from '../errors';
 import type { User } from '../models';
-import { burnPasswordCheck, checkPassword, hashPassword, hashToken, newToken } from './passwords';
+import { burnPasswordCheck, checkPassword, hashPassword, hashToken, needsRehash, newToken } from './passwords';
 import { escapeHtml } from '../mail/mailer';
 
 /** The session view of a user, or null when the user is gone or inactive. */
@@ -30,16 +32,28 @@ export async function sessionUserFor(ctx: AppContext, userId: number): Promise<S
   };
 }
 
-/** Checks e-mail and password; returns the user or throws 401 / 403. */
+/**
+ * Checks e-mail and password; returns the user or throws 401 / 403. An address may have an account
+ * in several organisations: the one whose password matches is signed in (the most recently used
+ * one when several match). An address with no account costs one check against a dummy hash, as
+ * one account does. An old bcrypt hash is replaced by an argon2id one once the password matched.
+ */
 export async function verifySignIn(ctx: AppContext, email: string, password: string): Promise<User> {
-  const user = await ctx.db.models.User.findOne({ where: { email } });
-  if (!user || !user.passwordHash) {
+  const accounts = (
+    await ctx.db.models.User.findAll({ where: { email }, order: [['lastSignInAt', 'DESC'], ['id', 'ASC']] })
+  ).filter((u): u is User & { passwordHash: string } => !!u.passwordHash);
+  if (!accounts.length) {
     await burnPasswordCheck(password);
     throw new AppError(401, 'invalid_credentials', 'E-mail or password is wrong');
   }
-  if (!(await checkPassword(password, user.passwordHash))) throw new AppError(401, 'invalid_credentials', 'E-mail or password is wrong');
-  if (!user.active) throw new AppError(403, 'account_inactive', 'This account has been deactivated; ask the owner of your organisation');
-  await user.update({ lastSignInAt: new Date() });
+  // Every account is checked, so the time taken does not tell which one matched.
+  const matches: boolean[] = [];
+  for (const account of accounts) matches.push(await checkPassword(password, account.passwordHash));
+  const matched = accounts.filter((_, i) => matches[i]);
+  if (!matched.length) throw new AppError(401, 'invalid_credentials', 'E-mail or password is wrong');
+  const user = matched.find((u) => u.active);
+  if (!user) throw new AppError(403, 'account_inactive', 'This account has been deactivated; ask the owner of your organisation');
+  await user.update({ lastSignInAt: new Date(), ...(needsRehash(user.passwordHash) ? { passwordHash: await hashPassword(password) } : {}) });
   return user;
 }
 
@@ -48,8 +62,13 @@ export async function endSessionsOf(ctx: AppContext, userId: number): Promise<vo
   await ctx.db.models.Session.destroy({ where: { userId } });
 }
 
+/** Makes a single-use link token for a user and mails it, after the answer has gone out; a failure is logged. */
+export function queueTokenMail(ctx: AppContext, user: User, purpose: 'invite' | 'reset', invitedBy?: string): void {
+  defer(ctx, `${purpose} mail`, () => sendTokenMail(ctx, user, purpose, invitedBy));
+}
+
 /** Makes a single-use link token for a user and mails it. */
-export async function sendTokenMail(ctx: AppContext, user: User, purpose: 'invite' | 'reset', invitedBy?: string): Promise<void> {
+async function sendTokenMail(ctx: AppContext, user: User, purpose: 'invite' | 'reset', invitedBy?: string): Promise<void> {
   const { AuthToken, Organisation } = ctx.db.models;
   // A newer link replaces any older unused one of the same purpose.
   await AuthToken.update({ usedAt: new Date() }, { where: { userId: user.id, purpose, usedAt: null } });
@@ -64,7 +83,7 @@ export async function sendTokenMail(ctx: AppContext, user: User, purpose: 'invit
   const lead =
     purpose === 'invite'
       ? `${invitedBy ?? 'The owner'} has invited you to ${orgName} on Brimstock as ${user.role}.`
-      : 'Someone (hopefully you) asked to set a new password for your Brimstock account.';
+      : `Someone (hopefully you) asked to set a new password for your Brimstock account at ${orgName}.`;
   const text = `Hello ${user.name},\n\n${lead}\n\nOpen this link to set your password (it works once, for ${hours} hours):\n${link}\n\nIf you did not expect this message, ignore it.\n`;
   const html = `<p>Hello ${escapeHtml(user.name)},</p><p>${escapeHtml(lead)}</p><p><a href="${escapeHtml(link)}">Set your password</a> — the link works once, for ${hours} hours.</p><p>If you did not expect this message, ignore it.</p>`;
   await ctx.mailer.send({ organisationId: user.organisationId, kind: 'account', to: user.email, subject, text, html });
@@ -86,9 +105,15 @@ export async function describeToken(ctx: AppContext, token: string): Promise<Tok
   return { purpose: row.purpose, email: user.email, name: user.name };
 }
 
-/** Uses a link: sets the password (and name for invitations); returns the user. */
+/** Uses a link: sets the password (and name for invitations); returns the user. A password easy to guess is refused with 422 and leaves the link unused. */
 export async function setPasswordWithToken(ctx: AppContext, token: string, password: string, name?: string): Promise<User> {
   const { AuthToken, User } = ctx.db.models;
+  const link = await liveToken(ctx, token);
+  const person = await User.findByPk(link.userId);
+  if (!person) throw new AppError(404, 'token_invalid', 'This link is unknown, already used or expired; ask for a new one');
+  // The same rule and wording as the set-password form (shared/passwords).
+  const strength = passwordStrength(password, [person.email, person.name, ...(name ? [name] : [])]);
+  if (!strength.acceptable) throw new AppError(422, 'weak_password', `password: ${strength.message}`, 'password');
   const hash = await hashPassword(password);
   return ctx.db.sequelize.transaction(async (transaction) => {
     const row = await liveToken(ctx, token);
@@ -104,8 +129,14 @@ export async function setPasswordWithToken(ctx: AppContext, token: string, passw
   });
 }
 
-/** Starts a reset for an address if it belongs to an active account; silent otherwise. */
-export async function requestPasswordReset(ctx: AppContext, email: string): Promise<void> {
-  const user = await ctx.db.models.User.findOne({ where: { email, active: true } });
-  if (user && user.passwordHash) await sendTokenMail(ctx, user, 'reset');
+/**
+ * Mails a reset link to every active account of an address (one per organisation), silently
+ * nothing for an unknown one. All of it runs after the answer, so the answer takes the same time
+ * either way.
+ */
+export function requestPasswordReset(ctx: AppContext, email: string): void {
+  defer(ctx, 'password reset', async () => {
+    const users = await ctx.db.models.User.findAll({ where: { email, active: true, passwordHash: { [Op.ne]: null } } });
+    for (const user of users) await sendTokenMail(ctx, user, 'reset').catch((err) => ctx.logger.error({ err, userId: user.id }, 'reset mail failed'));
+  });
 }

@@ -3,7 +3,7 @@ import type { InvitationInput, Person, PersonUpdateInput, SessionUser } from '@s
 import type { AppContext } from '../context';
 import { AppError, notFound } from '../errors';
 import type { User } from '../models';
-import { endSessionsOf, sendTokenMail } from './auth';
+import { endSessionsOf, queueTokenMail } from './auth';
 
 async function toPerson(ctx: AppContext, user: User): Promise<Person> {
   const access = await ctx.db.models.FarmAccess.findAll({ where: { userId: user.id }, attributes: ['farmId'] });
@@ -40,14 +40,24 @@ async function setFarmAccess(ctx: AppContext, actor: SessionUser, userId: number
   });
 }
 
-/** Creates an invited person (no password yet) and mails the set-password link. */
+const emailTaken = () => new AppError(409, 'email_taken', 'email: someone in your organisation already has this e-mail address', 'email');
+
+/**
+ * Creates an invited person (no password yet) in the actor's organisation and mails the
+ * set-password link after the answer. Only the actor's own organisation is looked at: whether the
+ * address has an account elsewhere changes neither the answer nor its timing.
+ */
 export async function invitePerson(ctx: AppContext, actor: SessionUser, input: InvitationInput): Promise<Person> {
   const { User } = ctx.db.models;
-  if (await User.findOne({ where: { email: input.email } })) throw new AppError(409, 'email_taken', 'email: someone with this e-mail address already has an account', 'email');
+  if (await User.findOne({ where: { organisationId: actor.organisationId, email: input.email }, attributes: ['id'] })) throw emailTaken();
   const farmIds = await checkFarmIds(ctx, actor, input.farmIds);
-  const user = await User.create({ organisationId: actor.organisationId, email: input.email, name: input.name, role: input.role, passwordHash: null, lastSignInAt: null });
+  const user = await User.create({ organisationId: actor.organisationId, email: input.email, name: input.name, role: input.role, passwordHash: null, lastSignInAt: null }).catch((err) => {
+    // Two invitations of one address at once: the unique (organisation, e-mail) index keeps one.
+    if (err?.name === 'SequelizeUniqueConstraintError') throw emailTaken();
+    throw err;
+  });
   await setFarmAccess(ctx, actor, user.id, farmIds);
-  await sendTokenMail(ctx, user, 'invite', actor.name);
+  queueTokenMail(ctx, user, 'invite', actor.name);
   return toPerson(ctx, user);
 }
 
@@ -61,7 +71,7 @@ async function personOf(ctx: AppContext, actor: SessionUser, id: number) {
 export async function resendInvitation(ctx: AppContext, actor: SessionUser, id: number): Promise<void> {
   const user = await personOf(ctx, actor, id);
   if (user.passwordHash) throw new AppError(409, 'already_joined', 'This person has already set a password');
-  await sendTokenMail(ctx, user, 'invite', actor.name);
+  queueTokenMail(ctx, user, 'invite', actor.name);
 }
 
 /** Changes role, farm access or active state; deactivation ends the person's sessions at once. */

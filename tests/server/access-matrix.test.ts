@@ -183,7 +183,7 @@ const ROWS: Row[] = [
   { route: 'DELETE /api/dev/outbox', url: () => '/api/dev/outbox', expect: managersOnly(204) },
 ];
 
-const env = useTestApp({ SIGN_IN_LIMIT_PER_IP: '100000', SIGN_IN_LIMIT_PER_ACCOUNT: '100000' });
+const env = useTestApp({ SIGN_IN_LIMIT_PER_IP: '100000', SIGN_IN_LIMIT_PER_ACCOUNT_AND_IP: '100000', SIGN_IN_LIMIT_PER_ACCOUNT: '100000' });
 const world = {} as World;
 
 /** A new order on the scope's farm (each state change needs its own); remembers its line for receipts. */

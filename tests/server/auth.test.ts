@@ -4,7 +4,7 @@ import { useTestApp } from '../support/db';
 import { anonymousAgent, call, makeOrganisation, PASSWORD, signedIn } from '../support/fixtures';
 import { tokenFrom, waitForMail } from '../support/mail';
 
-const env = useTestApp({ SIGN_IN_LIMIT_PER_ACCOUNT: '3', SESSION_ABSOLUTE_HOURS: '1' });
+const env = useTestApp({ SIGN_IN_LIMIT_PER_ACCOUNT_AND_IP: '3', SESSION_ABSOLUTE_HOURS: '1' });
 
 const sessionCookie = (res: request.Response) =>
   ([] as string[]).concat(res.headers['set-cookie'] ?? []).find((c) => c.startsWith('brimstock.sid='));
@@ -44,7 +44,7 @@ describe('sign-in', () => {
     expect(res.body.error).toMatchObject({ code: 'invalid_input', field: 'email' });
   });
 
-  it('rate-limits repeated failures on one account with 429', async () => {
+  it('rate-limits repeated failures on one account from one address with 429', async () => {
     const org = await makeOrganisation(env);
     const agent = await anonymousAgent(env);
     for (let i = 0; i < 3; i++) await call(agent, 'post', '/api/auth/sign-in', { email: org.users.owner.email, password: 'wrong-wrong' }).expect(401);

@@ -203,7 +203,7 @@ function valuesUnder(body: unknown, key: string, out: unknown[] = []): unknown[]
 
 // ---- The test world -------------------------------------------------------------------------
 
-const env = useTestApp({ SIGN_IN_LIMIT_PER_IP: '1000000', SIGN_IN_LIMIT_PER_ACCOUNT: '1000000' });
+const env = useTestApp({ SIGN_IN_LIMIT_PER_IP: '1000000', SIGN_IN_LIMIT_PER_ACCOUNT_AND_IP: '1000000', SIGN_IN_LIMIT_PER_ACCOUNT: '1000000' });
 let org: OrgFixture;
 let owner: Agent;
 let anonymous: Agent;

@@ -11,6 +11,7 @@ import { loadConfig, type Config } from '../../server/config';
 import type { AppContext } from '../../server/context';
 import { createApp } from '../../server/app';
 import { createDatabase, migrate } from '../../server/db';
+import { settleDeferred } from '../../server/deferred';
 import { createLogger } from '../../server/logger';
 import { createMailer } from '../../server/mail/mailer';
 import { startMailCapture } from '../../server/mail/capture';
@@ -56,6 +57,7 @@ export function useTestApp(overrides: Record<string, string> = {}): TestEnv {
     Object.assign(env, { ctx, config, app: createApp(ctx, { staticDir: join(dataDir, 'no-client') }) });
   });
   afterAll(async () => {
+    if (env.ctx) await settleDeferred(env.ctx);
     env.ctx?.mailer.close();
     await env.ctx?.db.sequelize.close();
     await closeMail?.();
