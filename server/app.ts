@@ -6,9 +6,10 @@ import express, { type ErrorRequestHandler, type Router } from 'express';
 import { pinoHttp } from 'pino-http';
 import type { AppContext } from './context';
 import { AppError } from './errors';
+import { DATABASE_RETRY_AFTER_S, isDatabaseUnavailable } from './db-errors';
 import { requestLogSerializers } from './logger';
 import { loadActor } from './middleware/access';
-import { csrfProtection, csrfTools, securityHeaders, sessions } from './middleware/security';
+import { csrfProtection, csrfTools, noStore, securityHeaders, sessions } from './middleware/security';
 import { authRouter } from './routes/auth';
 import { devRouter } from './routes/dev';
 import { farmsRouter } from './routes/farms';
@@ -27,12 +28,13 @@ export function createApp(ctx: AppContext, opts: { staticDir?: string } = {}) {
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', ctx.config.session.secureCookie ? 1 : false);
-  app.use(securityHeaders());
+  app.use(securityHeaders(ctx.config));
   app.use(compression());
   app.use(pinoHttp({ logger: ctx.logger, serializers: requestLogSerializers(ctx.logger), autoLogging: { ignore: (req) => req.url === '/api/health' } }));
 
   const api = express.Router();
   const csrf = csrfTools();
+  api.use(noStore());
   api.use('/health', healthRouter(ctx));
   api.use(express.json({ limit: '1mb' }));
   const sessionMiddleware = sessions(ctx);
@@ -106,12 +108,14 @@ function errorHandler(ctx: AppContext): ErrorRequestHandler {
       // Other body-reading failures the parser marks as the client's (a body that is not the gzip it claims, an aborted request).
       status = err.status;
       body = { code: 'bad_body', message: `The request body could not be read (${String(err.message).slice(0, 200)})` };
-    } else if (err?.name === 'SequelizeConnectionError' || err?.name === 'SequelizeConnectionRefusedError' || err?.name === 'SequelizeConnectionAcquireTimeoutError') {
+    } else if (isDatabaseUnavailable(err)) {
       status = 503;
       body = { code: 'database_down', message: 'The database is not reachable right now; try again shortly' };
     } else {
       body = { code: 'internal', message: 'Something went wrong on the server; it has been logged' };
     }
+    // Every 503 is the database (or a service behind it) being away for a moment: say when to ask again.
+    if (status === 503) res.set('Retry-After', String(DATABASE_RETRY_AFTER_S));
     if (status >= 500) (req.log ?? ctx.logger).error({ err }, 'request failed');
     res.status(status).json({ error: body });
   };

@@ -70,7 +70,8 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     db: { host: c.DB_HOST, port: c.DB_PORT, socketPath: c.DB_SOCKET || null, name: c.DB_NAME, user: c.DB_USER, password: c.DB_PASSWORD, poolMax: c.DB_POOL_MAX },
     session: {
       secret: c.SESSION_SECRET,
-      cookieName: 'brimstock.sid',
+      // Behind HTTPS the __Host- prefix makes browsers refuse the cookie unless Secure, for path / and from this host only.
+      cookieName: c.COOKIE_SECURE ? '__Host-brimstock.sid' : 'brimstock.sid',
       idleMs: c.SESSION_IDLE_MINUTES * 60_000,
       absoluteMs: c.SESSION_ABSOLUTE_HOURS * 3_600_000,
       secureCookie: c.COOKIE_SECURE,

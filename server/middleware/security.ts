@@ -10,7 +10,13 @@ import { keepSessionReads } from '../services/kept-identity';
 
 export type CsrfTools = ReturnType<typeof csrfSync>;
 
-export function securityHeaders(): RequestHandler {
+/** The app's own origin in its WebSocket form (http → ws, https → wss), for the CSP's connect-src. */
+export function socketOrigin(publicUrl: string): string {
+  const url = new URL(publicUrl);
+  return `${url.protocol === 'https:' ? 'wss:' : 'ws:'}//${url.host}`;
+}
+
+export function securityHeaders(config: Pick<AppContext['config'], 'publicUrl'>): RequestHandler {
   return helmet({
     contentSecurityPolicy: {
       directives: {
@@ -20,7 +26,8 @@ export function securityHeaders(): RequestHandler {
         styleSrc: ["'self'", "'unsafe-inline'"],
         imgSrc: ["'self'", 'data:', 'blob:'],
         fontSrc: ["'self'", 'data:'],
-        connectSrc: ["'self'", 'ws:', 'wss:'],
+        // Only the app's own origin, and the same origin over WebSocket (socket.io).
+        connectSrc: ["'self'", socketOrigin(config.publicUrl)],
         objectSrc: ["'none'"],
         frameAncestors: ["'none'"],
         upgradeInsecureRequests: null,
@@ -64,6 +71,14 @@ export function sessions(ctx: AppContext): RequestHandler {
     proxy: ctx.config.session.secureCookie,
     cookie: { httpOnly: true, sameSite: 'lax', secure: ctx.config.session.secureCookie, maxAge: ctx.config.session.idleMs },
   });
+}
+
+/** Answers from the API carry personal and farm data: no browser or proxy may keep a copy. */
+export function noStore(): RequestHandler {
+  return (_req, res, next) => {
+    res.set('Cache-Control', 'no-store');
+    next();
+  };
 }
 
 export function csrfTools(): CsrfTools {
