@@ -76,7 +76,7 @@ describe('account enumeration', () => {
       }
     }
     // The mail work runs after the answer; both answers are the same few milliseconds of parsing.
-    expect(Math.abs(median(known) - median(unknown))).toBeLessThan(Math.max(4, median(unknown) * 0.5));
+    expect(Math.abs(median(known) - median(unknown))).toBeLessThan(Math.max(10, median(unknown) * 0.5));
     await waitForMail(env.config.outboxDir, org.users.manager.email);
   });
 
@@ -110,7 +110,7 @@ describe('account enumeration', () => {
         times.push(performance.now() - t);
       }
     }
-    expect(Math.abs(median(known) - median(unknown))).toBeLessThan(Math.max(6, median(unknown) * 0.5));
+    expect(Math.abs(median(known) - median(unknown))).toBeLessThan(Math.max(15, median(unknown) * 0.5));
   });
 
   it('still says 409 for an address already in the same organisation', async () => {
