@@ -78,7 +78,7 @@ describe('account enumeration', () => {
     // The mail work runs after the answer; both answers are the same few milliseconds of parsing.
     expect(Math.abs(median(known) - median(unknown))).toBeLessThan(Math.max(10, median(unknown) * 0.5));
     await waitForMail(env.config.outboxDir, org.users.manager.email);
-  });
+  }, 20_000);
 
   it('invites an address that has an account in another organisation exactly as a new address', async () => {
     const elsewhere = await makeOrganisation(env);
@@ -100,18 +100,18 @@ describe('account enumeration', () => {
   it('takes the same time to invite an address known elsewhere as a new one', async () => {
     const org = await makeOrganisation(env);
     const owner = await signedIn(env, org.users.owner.email);
+    const elsewhere = [await makeOrganisation(env, { farms: 1 }), await makeOrganisation(env, { farms: 1 })].flatMap((o) => Object.values(o.users).map((u) => u.email));
     const known: number[] = [];
     const unknown: number[] = [];
-    for (let i = 0; i < 8; i++) {
-      const elsewhere = await makeOrganisation(env, { farms: 1 });
-      for (const [email, times] of [[elsewhere.users.buyer.email, known], [`new-${i}-${Date.now()}@test.example`, unknown]] as const) {
+    for (const [i, taken] of elsewhere.entries()) {
+      for (const [email, times] of [[taken, known], [`new-${i}-${Date.now()}@test.example`, unknown]] as const) {
         const t = performance.now();
         await call(owner, 'post', '/api/invitations', { email, name: 'Timed Person', role: 'buyer', farmIds: [] }).expect(201);
         times.push(performance.now() - t);
       }
     }
     expect(Math.abs(median(known) - median(unknown))).toBeLessThan(Math.max(15, median(unknown) * 0.5));
-  });
+  }, 20_000);
 
   it('still says 409 for an address already in the same organisation', async () => {
     const org = await makeOrganisation(env);
@@ -247,7 +247,7 @@ describe('password hashing', () => {
     }
     expect(median(unknown)).toBeGreaterThan(median(known) * 0.6);
     expect(median(unknown)).toBeLessThan(median(known) * 1.6);
-  });
+  }, 20_000);
 });
 
 describe('new password strength', () => {
