@@ -2,6 +2,7 @@
 import { existsSync } from 'node:fs';
 import { join } from 'node:path';
 import compression from 'compression';
+import cookieParser from 'cookie-parser';
 import express, { type ErrorRequestHandler, type Router } from 'express';
 import { pinoHttp } from 'pino-http';
 import type { AppContext } from './context';
@@ -33,13 +34,14 @@ export function createApp(ctx: AppContext, opts: { staticDir?: string } = {}) {
   app.use(pinoHttp({ logger: ctx.logger, serializers: requestLogSerializers(ctx.logger), autoLogging: { ignore: (req) => req.url === '/api/health' } }));
 
   const api = express.Router();
-  const csrf = csrfTools();
+  const csrf = csrfTools(ctx.config);
   api.use(noStore());
   api.use('/health', healthRouter(ctx));
   api.use(express.json({ limit: '1mb' }));
   const sessionMiddleware = sessions(ctx);
   app.locals.sessionMiddleware = sessionMiddleware;
   api.use(sessionMiddleware);
+  api.use(cookieParser());
   api.use(csrfProtection(csrf));
   api.use(loadActor(ctx));
   // Any write may change what a board shows: kept boards are rebuilt after it.

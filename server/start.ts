@@ -13,6 +13,7 @@ import { createMailer } from './mail/mailer';
 import { attachRealtime } from './realtime';
 import { recoverInterruptedImports } from './services/imports';
 import { attachFlagRules } from './services/flags';
+import { startSessionPurge } from './services/sessions';
 
 export interface RunningServer {
   ctx: AppContext;
@@ -38,6 +39,7 @@ export async function startServer(config: Config, opts: { staticDir?: string } =
   const http = createServer(app);
   const io = attachRealtime(ctx, http, app.locals.sessionMiddleware);
   const stopFlagRules = attachFlagRules(ctx);
+  const stopSessionPurge = startSessionPurge(ctx);
   await new Promise<void>((resolve, reject) => {
     http.once('error', reject);
     http.listen(config.port, config.host, () => resolve());
@@ -51,6 +53,7 @@ export async function startServer(config: Config, opts: { staticDir?: string } =
     port,
     async close() {
       stopFlagRules();
+      stopSessionPurge();
       await io.close();
       http.closeAllConnections();
       await new Promise<void>((r) => http.close(() => r()));

@@ -1,14 +1,20 @@
 // Sessions in MariaDB, CSRF protection for cookie-authenticated writes, security headers.
-import type { RequestHandler } from 'express';
+import type { Request, RequestHandler, Response } from 'express';
 import session from 'express-session';
 import connectSessionSequelize from 'connect-session-sequelize';
 import helmet from 'helmet';
 import { csrfSync } from 'csrf-sync';
+import { doubleCsrf } from 'csrf-csrf';
 import type { AppContext } from '../context';
 import { AppError } from '../errors';
 import { keepSessionReads } from '../services/kept-identity';
 
-export type CsrfTools = ReturnType<typeof csrfSync>;
+/** CSRF tokens: a token kept in the session once someone is signed in, a signed cookie before that. */
+export interface CsrfTools {
+  /** The token for the next writes; `fresh` replaces any earlier one (at sign-in). */
+  generateToken(req: Request, res: Response, fresh?: boolean): string;
+  protect: RequestHandler;
+}
 
 /** The app's own origin in its WebSocket form (http → ws, https → wss), for the CSP's connect-src. */
 export function socketOrigin(publicUrl: string): string {
@@ -81,17 +87,35 @@ export function noStore(): RequestHandler {
   };
 }
 
-export function csrfTools(): CsrfTools {
-  return csrfSync({
+/**
+ * Signed in: the synchroniser token pattern (the token lives in the session row that exists anyway).
+ * Signed out (sign-in, reset, set-password forms): a signed double-submit cookie, so a visitor costs no
+ * session row (OWASP Cross-Site Request Forgery Prevention Cheat Sheet, "Signed Double-Submit Cookie").
+ */
+export function csrfTools(config: Pick<AppContext['config'], 'session'>): CsrfTools {
+  const inSession = csrfSync({
     getTokenFromRequest: (req) => req.get('x-csrf-token'),
     errorConfig: { statusCode: 403, message: 'csrf_invalid', code: 'EBADCSRFTOKEN' },
   });
+  const { secureCookie, secret } = config.session;
+  const signedOut = doubleCsrf({
+    getSecret: () => secret,
+    getSessionIdentifier: () => 'signed-out',
+    cookieName: secureCookie ? '__Host-brimstock.csrf' : 'brimstock.csrf',
+    cookieOptions: { sameSite: 'lax', path: '/', secure: secureCookie, httpOnly: true },
+    getCsrfTokenFromRequest: (req) => req.get('x-csrf-token'),
+  });
+  const signedIn = (req: Request) => Boolean(req.session?.userId);
+  return {
+    generateToken: (req, res, fresh = false) => (signedIn(req) ? inSession.generateToken(req, fresh) : signedOut.generateCsrfToken(req, res, { overwrite: fresh })),
+    protect: (req, res, next) => (signedIn(req) ? inSession.csrfSynchronisedProtection(req, res, next) : signedOut.doubleCsrfProtection(req, res, next)),
+  };
 }
 
 /** Rejects writes without the session's CSRF token (403 csrf_invalid). */
 export function csrfProtection(csrf: CsrfTools): RequestHandler {
   return (req, res, next) => {
-    csrf.csrfSynchronisedProtection(req, res, (err?: unknown) => {
+    csrf.protect(req, res, (err?: unknown) => {
       if (err) return next(new AppError(403, 'csrf_invalid', 'The form has expired; reload the page and try again'));
       next();
     });

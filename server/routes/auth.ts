@@ -1,8 +1,8 @@
-import { Router, type Request } from 'express';
+import { Router, type Request, type Response } from 'express';
 import { passwordResetSchema, profileSchema, setPasswordSchema, signInSchema, type SessionState } from '@shared/schemas';
 import type { AppContext } from '../context';
 import { actorOf, requireSignIn } from '../middleware/access';
-import { describeToken, requestPasswordReset, sessionUserFor, setPasswordWithToken, verifySignIn } from '../services/auth';
+import { describeToken, endSession, requestPasswordReset, sessionUserFor, setPasswordWithToken, verifySignIn } from '../services/auth';
 import { parse } from '../validate';
 import { authLimits } from '../middleware/rate-limits';
 import type { CsrfTools } from '../middleware/security';
@@ -11,12 +11,12 @@ function regenerate(req: Request): Promise<void> {
   return new Promise((resolve, reject) => req.session.regenerate((err) => (err ? reject(err) : resolve())));
 }
 
-async function startSession(ctx: AppContext, req: Request, csrf: CsrfTools, userId: number): Promise<SessionState> {
+async function startSession(ctx: AppContext, req: Request, res: Response, csrf: CsrfTools, userId: number): Promise<SessionState> {
   await regenerate(req);
   req.session.userId = userId;
   req.session.signedInAt = Date.now();
   const user = await sessionUserFor(ctx, userId);
-  return { user, csrfToken: csrf.generateToken(req, true) };
+  return { user, csrfToken: csrf.generateToken(req, res, true) };
 }
 
 export function authRouter(ctx: AppContext, csrf: CsrfTools) {
@@ -25,7 +25,7 @@ export function authRouter(ctx: AppContext, csrf: CsrfTools) {
   const perIp = limits.perIp;
 
   router.get('/session', async (req, res) => {
-    const body: SessionState = { user: req.actor ?? null, csrfToken: csrf.generateToken(req) };
+    const body: SessionState = { user: req.actor ?? null, csrfToken: csrf.generateToken(req, res) };
     res.json(body);
   });
 
@@ -36,11 +36,14 @@ export function authRouter(ctx: AppContext, csrf: CsrfTools) {
   router.post('/sign-in', ...limits.signIn, async (req, res) => {
     const input = parse(signInSchema, req.body);
     const user = await verifySignIn(ctx, input.email, input.password);
-    res.json(await startSession(ctx, req, csrf, user.id));
+    res.json(await startSession(ctx, req, res, csrf, user.id));
   });
 
   router.post('/sign-out', async (req, res) => {
+    const sid = req.sessionID;
+    // express-session forgets the session; the service makes sure its row is gone and closes its sockets.
     await new Promise<void>((r) => req.session.destroy(() => r()));
+    await endSession(ctx, sid);
     res.clearCookie(ctx.config.session.cookieName);
     res.status(204).end();
   });
@@ -65,7 +68,7 @@ export function authRouter(ctx: AppContext, csrf: CsrfTools) {
   router.post('/set-password', perIp, async (req, res) => {
     const input = parse(setPasswordSchema, req.body);
     const user = await setPasswordWithToken(ctx, input.token, input.password, input.name);
-    res.json(await startSession(ctx, req, csrf, user.id));
+    res.json(await startSession(ctx, req, res, csrf, user.id));
   });
 
   return router;

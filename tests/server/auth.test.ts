@@ -21,13 +21,20 @@ describe('sign-in', () => {
     expect(cookie).toMatch(/SameSite=Lax/i);
   });
 
-  it('issues a new session id at sign-in (no session fixation)', async () => {
+  it('issues a new session id at sign-in, whatever session cookie came with it (no session fixation)', async () => {
     const org = await makeOrganisation(env);
-    const agent = request.agent(env.app);
-    const first = await agent.get('/api/auth/session').expect(200);
-    const before = sessionCookie(first)!.split(';')[0];
-    const res = await agent.post('/api/auth/sign-in').set('x-csrf-token', first.body.csrfToken).send({ email: org.users.worker.email, password: PASSWORD }).expect(200);
-    expect(sessionCookie(res)!.split(';')[0]).not.toBe(before);
+    // Only signed-in sessions exist now; an attacker can only plant an id of their choosing.
+    const planted = 'brimstock.sid=s%3Aattacker-chosen-id.forged';
+    const first = await request(env.app).get('/api/auth/session').expect(200);
+    const csrfCookie = ([] as string[]).concat(first.headers['set-cookie'] ?? []).map((c) => c.split(';')[0]).join('; ');
+    const res = await request(env.app)
+      .post('/api/auth/sign-in')
+      .set('Cookie', `${planted}; ${csrfCookie}`)
+      .set('x-csrf-token', first.body.csrfToken)
+      .send({ email: org.users.worker.email, password: PASSWORD })
+      .expect(200);
+    expect(sessionCookie(res)!.split(';')[0]).not.toBe(planted);
+    expect(await env.ctx.db.models.Session.count({ where: { sid: 'attacker-chosen-id' } })).toBe(0);
   });
 
   it('refuses a wrong password with 401 and the same message as an unknown e-mail', async () => {
