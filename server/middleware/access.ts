@@ -53,9 +53,6 @@ export function requireRole(...roles: Role[]) {
 /** Middleware: any signed-in user. */
 export const requireSignIn = requireRole();
 
-/** True when the role sees every farm of its organisation. */
-export const seesAllFarms = (role: Role) => role === 'owner' || role === 'manager';
-
 /**
  * Checks that the actor may see a farm: 404 when it does not exist in the actor's organisation
  * (other organisations' rows are never confirmed to exist), 403 when it exists but is not granted.
@@ -67,7 +64,3 @@ export async function assertFarmAccess(ctx: AppContext, actor: SessionUser, farm
   return farm;
 }
 
-/** A Sequelize `where` that limits rows to the actor's organisation and visible farms. */
-export function farmScope(actor: SessionUser, farmColumn = 'farmId') {
-  return { organisationId: actor.organisationId, [farmColumn]: actor.farmIds };
-}
