@@ -78,7 +78,7 @@ async function dev() {
   // tsx watch restarts the server on change itself; if either child dies, everything stops.
   supervise({
     children: [
-      { name: 'server', restart: false, start: () => spawn(process.execPath, ['--import', 'tsx', 'watch', '--clear-screen=false', join(root, 'server', 'index.ts')], { stdio: 'inherit', cwd: root, env: { ...env, PUBLIC_URL: env.PUBLIC_URL ?? 'http://127.0.0.1:5173' } }) },
+      { name: 'server', restart: false, start: () => spawn(process.execPath, ['--import', 'tsx', 'watch', '--clear-screen=false', join(root, 'server', 'index.ts')], { stdio: 'inherit', cwd: root, env: { ...env, PUBLIC_URL: env.PUBLIC_URL ?? `http://127.0.0.1:${env.VITE_PORT ?? 5173}` } }) },
       { name: 'Vite dev server', restart: false, start: () => spawn(join(root, 'node_modules', '.bin', 'vite'), [], { stdio: 'inherit', cwd: root, env: { ...env, PORT: String(config.port) } }) },
     ],
     maxRestarts: 0,

@@ -2,11 +2,15 @@
 // client) puts each socket in the rooms of the farms its user may see and in the room of that
 // set of farms. Farms whose readings commit are gathered and pushed at most every THROTTLE_MS,
 // in one message per farm set holding every changed farm of the set, however many commit meanwhile.
+// A socket lives no longer than the session it was opened with: it closes when that session is
+// signed out, ended by a password reset or deactivation, or expires (idle or absolute), and only
+// the app's own origin (PUBLIC_URL) may open one.
 import type { Server as HttpServer } from 'node:http';
 import type { RequestHandler } from 'express';
 import { Server } from 'socket.io';
 import type { SessionUser } from '@shared/schemas';
 import type { AppContext } from './context';
+import { onEvent } from './events';
 import { boardOf, stockBoard } from './services/board';
 import { activeFlagsOf } from './services/flags';
 import { keptSessionUser } from './services/kept-identity';
@@ -16,23 +20,62 @@ const farmRoom = (id: number) => `farm:${id}`;
 const setPrefix = (organisationId: number) => `farms:${organisationId}:`;
 const setRoom = (actor: SessionUser) => `${setPrefix(actor.organisationId)}${[...actor.farmIds].sort((a, b) => a - b).join(',')}`;
 const userRoom = (id: number) => `user:${id}`;
+const sessionRoom = (sid: string) => `session:${sid}`;
+/** How often sockets whose session may have expired are looked at. */
+const EXPIRY_SWEEP_MS = 500;
+/** How long an ended session is remembered, for handshakes that were under way when it ended. */
+const ENDED_KEEP_MS = 60_000;
+
+/** The session a socket was opened with, and when it ends as far as the socket knows. */
+interface SocketSession {
+  sid: string;
+  userId: number;
+  /** The store row's expiry when last read; HTTP use moves the row's on, so it is read again once this passes. */
+  idleEndsAt: number;
+  /** signedInAt + the absolute session length. */
+  endsAt: number;
+  /** When the handshake started checking the session: a session ended after this never gets the socket. */
+  checkedAt: number;
+}
 
 export function attachRealtime(ctx: AppContext, http: HttpServer, sessionMiddleware: RequestHandler): Server {
-  const io = new Server(http, { serveClient: false, path: '/socket.io' });
+  const ownOrigin = new URL(ctx.config.publicUrl).origin;
+  const io = new Server(http, {
+    serveClient: false,
+    path: '/socket.io',
+    // Browsers always send Origin on a WebSocket and on cross-origin requests; a client without one
+    // (not a browser) carries no one else's cookie.
+    allowRequest: (req, done) => {
+      const origin = req.headers.origin;
+      done(origin && origin !== ownOrigin ? 'origin not allowed' : null, !origin || origin === ownOrigin);
+    },
+  });
   io.engine.use(sessionMiddleware);
 
+  // Sessions (by id) and users (all their sessions) that ended lately, and when.
+  const ended = new Map<string, number>();
+  const endedSince = (s: SocketSession) => Math.max(ended.get(sessionRoom(s.sid)) ?? 0, ended.get(userRoom(s.userId)) ?? 0) >= s.checkedAt;
+
   io.use(async (socket, next) => {
-    const session = (socket.request as unknown as { session?: { userId?: number; signedInAt?: number } }).session;
-    const fresh = session?.signedInAt && Date.now() - session.signedInAt <= ctx.config.session.absoluteMs;
-    let actor: SessionUser | null;
+    const req = socket.request as unknown as { sessionID?: string; session?: { userId?: number; signedInAt?: number } };
+    const { sessionID: sid, session } = req;
+    const checkedAt = Date.now();
+    const endsAt = (session?.signedInAt ?? 0) + ctx.config.session.absoluteMs;
+    let actor: SessionUser | null = null;
+    let idleEndsAt = 0;
     try {
-      actor = session?.userId && fresh ? await keptSessionUser(ctx, session.userId) : null;
+      if (sid && session?.userId && endsAt > checkedAt) {
+        const row = await ctx.db.models.Session.findByPk(sid, { attributes: ['expires'] });
+        idleEndsAt = row ? (row.expires?.getTime() ?? Infinity) : 0;
+        if (idleEndsAt > Date.now()) actor = await keptSessionUser(ctx, session.userId);
+      }
     } catch (err) {
       ctx.logger.error({ err }, 'socket sign-in check failed');
       return next(new Error('unavailable'));
     }
-    if (!actor) return next(new Error('unauthenticated'));
+    if (!actor || !sid) return next(new Error('unauthenticated'));
     socket.data.actor = actor;
+    socket.data.session = { sid, userId: actor.id, idleEndsAt, endsAt, checkedAt } satisfies SocketSession;
     next();
   });
 
@@ -49,6 +92,10 @@ export function attachRealtime(ctx: AppContext, http: HttpServer, sessionMiddlew
   };
   io.on('connection', (socket) => {
     const actor = socket.data.actor as SessionUser;
+    const session = socket.data.session as SocketSession;
+    // The session may have ended while the handshake was being checked.
+    if (endedSince(session)) return void socket.disconnect(true);
+    void socket.join([sessionRoom(session.sid), userRoom(session.userId)]);
     void (async () => {
       await joinRooms(socket, actor);
       socket.emit('board', await stockBoard(ctx, actor));
@@ -129,12 +176,54 @@ export function attachRealtime(ctx: AppContext, http: HttpServer, sessionMiddlew
   ctx.events.on('forecasts', onReadings);
   ctx.events.on('user-changed', onUserChanged);
   ctx.events.on('user-event', onUserEvent);
-  io.on('close', () => {
+
+  const stopSessionEnded = onEvent(ctx, 'session-ended', (what) => {
+    const room = 'sid' in what ? sessionRoom(what.sid) : userRoom(what.userId);
+    ended.set(room, Date.now());
+    io.in(room).disconnectSockets(true);
+  });
+
+  // Sockets whose known expiry has passed: an absolute expiry closes them; an idle one only once
+  // the store row, read again, says so (HTTP use since the handshake may have moved it on).
+  let sweeping = false;
+  const sweep = async () => {
+    const now = Date.now();
+    for (const [key, at] of ended) if (now - at > ENDED_KEEP_MS) ended.delete(key);
+    const idle: { socket: import('socket.io').Socket; session: SocketSession }[] = [];
+    for (const socket of io.of('/').sockets.values()) {
+      const session = socket.data.session as SocketSession;
+      if (now >= session.endsAt) socket.disconnect(true);
+      else if (now >= session.idleEndsAt) idle.push({ socket, session });
+    }
+    if (!idle.length) return;
+    const sids = [...new Set(idle.map((s) => s.session.sid))];
+    const rows = await ctx.db.models.Session.findAll({ where: { sid: sids }, attributes: ['sid', 'expires'] });
+    const expiry = new Map(rows.map((r) => [r.sid, r.expires?.getTime() ?? Infinity]));
+    const at = Date.now();
+    for (const { socket, session } of idle) {
+      const idleEndsAt = expiry.get(session.sid) ?? 0;
+      if (idleEndsAt <= at) socket.disconnect(true);
+      else session.idleEndsAt = idleEndsAt;
+    }
+  };
+  const sweeper = setInterval(() => {
+    if (sweeping) return;
+    sweeping = true;
+    sweep()
+      .catch((err) => ctx.logger.error({ err }, 'session expiry sweep failed'))
+      .finally(() => (sweeping = false));
+  }, EXPIRY_SWEEP_MS);
+  sweeper.unref();
+
+  // io.close() ends with closing the HTTP server.
+  http.once('close', () => {
     ctx.events.off('flags', onFlags);
     ctx.events.off('readings', onReadings);
     ctx.events.off('forecasts', onReadings);
     ctx.events.off('user-changed', onUserChanged);
     ctx.events.off('user-event', onUserEvent);
+    stopSessionEnded();
+    clearInterval(sweeper);
     if (timer) clearTimeout(timer);
   });
   return io;

@@ -1,5 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
-import type { ImportField, ImportMapping, ImportPolicy } from '@shared/imports';
+import type { ImportField, ImportMapping, ImportNotice, ImportPolicy } from '@shared/imports';
 import type { ImportStatus } from '@shared/schemas';
 
 /** One uploaded logger file and what importing it did; the raw file stays in the upload folder under storedName. */
@@ -21,6 +21,11 @@ export class LoggerImport extends Model<InferAttributes<LoggerImport>, InferCrea
   declare rowsNew: CreationOptional<number>;
   declare rowsDuplicate: CreationOptional<number>;
   declare rowsRejected: CreationOptional<number>;
+  /** Good rows repeating an instant of the same file (rowsDuplicate: already stored by an earlier file). */
+  declare rowsRepeated: CreationOptional<number>;
+  /** Rows read with a notice (a local time that happens twice), and the first of those notices. */
+  declare noticeCount: CreationOptional<number>;
+  declare notices: CreationOptional<ImportNotice[] | null>;
   declare error: string | null;
   declare duplicateOfId: number | null;
   declare createdAt: CreationOptional<Date>;
@@ -47,6 +52,9 @@ export class LoggerImport extends Model<InferAttributes<LoggerImport>, InferCrea
         rowsNew: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, defaultValue: 0 },
         rowsDuplicate: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, defaultValue: 0 },
         rowsRejected: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, defaultValue: 0 },
+        rowsRepeated: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, defaultValue: 0 },
+        noticeCount: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false, defaultValue: 0 },
+        notices: { type: DataTypes.JSON, allowNull: true },
         error: { type: DataTypes.STRING(500), allowNull: true },
         duplicateOfId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
         createdAt: DataTypes.DATE(3),
@@ -74,7 +82,7 @@ export class LoggerImportRejection extends Model<InferAttributes<LoggerImportRej
         id: { type: DataTypes.BIGINT.UNSIGNED, autoIncrement: true, primaryKey: true },
         importId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
         line: { type: DataTypes.INTEGER.UNSIGNED, allowNull: false },
-        field: { type: DataTypes.ENUM('timestamp', 'value', 'temperature'), allowNull: false },
+        field: { type: DataTypes.ENUM('timestamp', 'time', 'value', 'temperature'), allowNull: false },
         columnLabel: { type: DataTypes.STRING(120), allowNull: false },
         value: { type: DataTypes.STRING(200), allowNull: false },
         reason: { type: DataTypes.STRING(400), allowNull: false },

@@ -2,12 +2,13 @@ import { mkdir } from 'node:fs/promises';
 import type { NextFunction, Request, Response } from 'express';
 import { Router } from 'express';
 import multer from 'multer';
-import { importListQuerySchema, importUploadSchema } from '@shared/schemas';
+import { importListQuerySchema, importUploadQuerySchema, importUploadSchema } from '@shared/schemas';
 import type { AppContext } from '../context';
 import { AppError } from '../errors';
 import { actorOf, requireRole, requireSignIn } from '../middleware/access';
-import { discardUploads, getImport, importUploads, labelOf, listImports, rejectedRowsCsv, retryImport, savedMapping, storedNameFor, type UploadedFile } from '../services/imports';
+import { dryRunUploads, getImport, importUploads, listImports, rejectedRowsCsv, retryImport, tankImportSetup } from '../services/imports';
 import { declaredTypeProblem } from '../services/upload-checks';
+import { discardUploads, labelOf, storedNameFor, type UploadedFile } from '../services/upload-files';
 import { idParam, parse } from '../validate';
 
 /** Files one upload may carry. */
@@ -80,12 +81,16 @@ export function importsRouter(ctx: AppContext) {
       throw new AppError(415, 'bad_upload', 'files: send the CSV files as a multipart/form-data upload (the "files" field, with tankId and mapping beside them)', 'files');
     }
     let input;
+    let dryRun: boolean;
     try {
+      dryRun = parse(importUploadQuerySchema, req.query).dryRun;
       input = parse(importUploadSchema, req.body);
     } catch (err) {
       await discardUploads(files);
       throw err;
     }
+    // A dry run reads every row of every file as the import would, and stores nothing.
+    if (dryRun) return void res.json({ dryRun: true, imports: await dryRunUploads(ctx, actorOf(req), input, files) });
     res.status(201).json({ imports: await importUploads(ctx, actorOf(req), input, files) });
   });
   router.get('/imports', requireSignIn, async (req, res) => {
@@ -104,7 +109,7 @@ export function importsRouter(ctx: AppContext) {
     res.json(await retryImport(ctx, actorOf(req), idParam(req.params.id, 'Import')));
   });
   router.get('/tanks/:id/import-mapping', requireSignIn, async (req, res) => {
-    res.json(await savedMapping(ctx, actorOf(req), idParam(req.params.id, 'Tank')));
+    res.json(await tankImportSetup(ctx, actorOf(req), idParam(req.params.id, 'Tank')));
   });
   return router;
 }

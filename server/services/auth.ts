@@ -5,6 +5,7 @@ import { passwordStrength } from '@shared/passwords';
 import type { AppContext } from '../context';
 import { defer } from '../deferred';
 import { AppError } from '../errors';
+import { emitEvent } from '../events';
 import type { User } from '../models';
 import { burnPasswordCheck, checkPassword, hashPassword, hashToken, needsRehash, newToken } from './passwords';
 import { escapeHtml } from '../mail/mailer';
@@ -60,6 +61,13 @@ export async function verifySignIn(ctx: AppContext, email: string, password: str
 /** Ends every session of a user at once (deactivation, password change). */
 export async function endSessionsOf(ctx: AppContext, userId: number): Promise<void> {
   await ctx.db.models.Session.destroy({ where: { userId } });
+  emitEvent(ctx, 'session-ended', { userId });
+}
+
+/** Ends one session (sign-out): its row goes, and the sockets opened with it close. */
+export async function endSession(ctx: AppContext, sid: string): Promise<void> {
+  await ctx.db.models.Session.destroy({ where: { sid } });
+  emitEvent(ctx, 'session-ended', { sid });
 }
 
 /** Makes a single-use link token for a user and mails it, after the answer has gone out; a failure is logged. */
@@ -125,6 +133,7 @@ export async function setPasswordWithToken(ctx: AppContext, token: string, passw
     if (!user.active) throw new AppError(403, 'account_inactive', 'This account has been deactivated; ask the owner of your organisation');
     await user.update({ passwordHash: hash, ...(row.purpose === 'invite' && name ? { name } : {}), lastSignInAt: new Date() }, { transaction });
     await ctx.db.models.Session.destroy({ where: { userId: user.id }, transaction });
+    transaction.afterCommit(() => emitEvent(ctx, 'session-ended', { userId: user.id }));
     return user;
   });
 }

@@ -6,7 +6,7 @@ import { open } from 'node:fs/promises';
 import Papa from 'papaparse';
 import { SNIFF_BYTES, createRecordGuard, delimiterCandidates, sniffCsv, stripBom, type FieldDelimiter, type ImportMapping } from '@shared/imports';
 import { AppError } from '../errors';
-import { labelOf, type UploadedFile } from './imports';
+import { labelOf, type UploadedFile } from './upload-files';
 
 // Types a browser or logger tool may give a CSV file: text/csv, text/plain and the like, the
 // spreadsheet type some systems give every .csv, and "unknown". Anything else (an image, an archive, a

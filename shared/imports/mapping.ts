@@ -1,5 +1,6 @@
-// The column mapping of a logger file: which column holds the time, the value and the
-// temperature, what the value means and in which unit, and how the text is laid out.
+// The column mapping of a logger file: which column holds the time (or the date and, beside it, the
+// time of day), the value and the temperature, what the value means and in which unit, and how the text
+// is laid out.
 // The browser builds it from the first rows; the server parses every row with it.
 import { z } from 'zod';
 import { isTimeZone } from '../schemas/farms';
@@ -20,8 +21,21 @@ export const TIMESTAMP_FORMATS = [
 /** A timestamp layout name. */
 export type TimestampFormat = (typeof TIMESTAMP_FORMATS)[number];
 
-/** True when a timestamp layout carries no offset, so it needs an IANA time zone (returns a boolean). */
-export const needsTimeZone = (format: TimestampFormat): boolean => format !== 'iso8601';
+/** Date-only layouts, for a file that writes the date in one column and the time of day in the next. */
+export const DATE_FORMATS = ['YYYY-MM-DD', 'DD/MM/YYYY', 'MM/DD/YYYY', 'DD.MM.YYYY'] as const;
+/** A date-only layout name. */
+export type DateFormat = (typeof DATE_FORMATS)[number];
+
+/** Time-of-day layouts of a separate time column: 24-hour, or 12-hour with AM/PM. */
+export const TIME_FORMATS = ['HH:mm:ss', 'HH:mm', 'hh:mm:ss AM/PM', 'hh:mm AM/PM'] as const;
+/** A time-of-day layout name. */
+export type TimeFormat = (typeof TIME_FORMATS)[number];
+
+/** True when a layout is a date only, so a time column must go with it (returns a boolean). */
+export const isDateFormat = (format: string): format is DateFormat => (DATE_FORMATS as readonly string[]).includes(format);
+
+/** True when a timestamp or date layout carries no offset, so it needs an IANA time zone (returns a boolean). */
+export const needsTimeZone = (format: TimestampFormat | DateFormat): boolean => format !== 'iso8601';
 
 /** What a logger's value column measures: level above the floor, distance down from the sensor, or gauge pressure at the sensor. */
 export const VALUE_KINDS = ['level', 'ultrasonic', 'pressure'] as const;
@@ -37,6 +51,12 @@ export type Delimiter = (typeof DELIMITERS)[number];
 export const IMPORT_POLICIES = ['reject-file', 'valid-rows'] as const;
 /** An import policy name. */
 export type ImportPolicy = (typeof IMPORT_POLICIES)[number];
+
+/** The one wording of each policy, used by the choice on the form, the result and the server's messages alike. */
+export const IMPORT_POLICY_TITLES: Record<ImportPolicy, string> = {
+  'reject-file': 'Refuse the whole file if any row is bad',
+  'valid-rows': 'Import the good rows, list the bad ones',
+};
 
 /** Largest 0-based column index a mapping may name (files wider than this are not logger exports). */
 export const MAX_COLUMN_INDEX = 499;
@@ -62,10 +82,16 @@ export const importMappingSchema = z
       hasHeader: z.boolean({ error: 'must be true or false' }).default(true),
       timestamp: z.object(
         {
+          /** The column with the date and time, or with the date only when `time` names the time column. */
           column: columnRef,
-          format: z.enum(TIMESTAMP_FORMATS, { error: `must be one of ${TIMESTAMP_FORMATS.join(', ')}` }),
+          format: z.enum([...TIMESTAMP_FORMATS, ...DATE_FORMATS], { error: `must be one of ${[...TIMESTAMP_FORMATS, ...DATE_FORMATS].join(', ')}` }),
           /** IANA zone of the logger's clock; required for the local patterns, ignored for ISO 8601. */
           timeZone: z.string().trim().max(64).optional(),
+          /** The time-of-day column and its layout, for a file that writes the date and the time in two columns. */
+          time: z
+            .object({ column: columnRef, format: z.enum(TIME_FORMATS, { error: `must be one of ${TIME_FORMATS.join(', ')}` }) }, { error: 'give the time column and its layout, or null' })
+            .nullable()
+            .default(null),
         },
         { error: 'give the timestamp column and its format' },
       ),
@@ -86,6 +112,8 @@ export const importMappingSchema = z
   )
   .superRefine((m, ctx) => {
     const ts = m.timestamp;
+    if (isDateFormat(ts.format) && !ts.time) ctx.addIssue({ code: 'custom', path: ['timestamp', 'time'], message: `${ts.format} is a date only: give the column with the time of day and its layout` });
+    if (!isDateFormat(ts.format) && ts.time) ctx.addIssue({ code: 'custom', path: ['timestamp', 'format'], message: `${ts.format} has the time in it already: pick a date-only layout for a separate time column, or no time column` });
     if (needsTimeZone(ts.format)) {
       if (!ts.timeZone) ctx.addIssue({ code: 'custom', path: ['timestamp', 'timeZone'], message: `${ts.format} has no UTC offset: give the IANA time zone of the logger's clock (e.g. Europe/Dublin)` });
       else if (!isTimeZone(ts.timeZone)) ctx.addIssue({ code: 'custom', path: ['timestamp', 'timeZone'], message: `"${ts.timeZone}" is not a known IANA time zone` });
@@ -95,16 +123,17 @@ export const importMappingSchema = z
     if (m.value.kind !== 'pressure' && !lengthUnit) ctx.addIssue({ code: 'custom', path: ['value', 'unit'], message: `a ${m.value.kind === 'level' ? 'level' : 'distance'} needs a length unit (${LENGTH_UNITS.join(', ')})` });
     const refs: [string, ColumnRef][] = [
       ['timestamp', ts.column],
+      ...(ts.time ? ([['timestamp.time', ts.time.column]] as [string, ColumnRef][]) : []),
       ['value', m.value.column],
       ...(m.temperature ? ([['temperature', m.temperature.column]] as [string, ColumnRef][]) : []),
     ];
     for (const [field, ref] of refs) {
-      if (typeof ref === 'string' && !m.hasHeader) ctx.addIssue({ code: 'custom', path: [field, 'column'], message: 'a column name needs a header row: give the 0-based column number instead' });
+      if (typeof ref === 'string' && !m.hasHeader) ctx.addIssue({ code: 'custom', path: [...field.split('.'), 'column'], message: 'a column name needs a header row: give the 0-based column number instead' });
     }
     const key = (r: ColumnRef) => (typeof r === 'number' ? `#${r}` : r.toLowerCase());
     for (let i = 1; i < refs.length; i++) {
       const clash = refs.slice(0, i).find(([, r]) => key(r) === key(refs[i][1]));
-      if (clash) ctx.addIssue({ code: 'custom', path: [refs[i][0], 'column'], message: `is the same column as the ${clash[0]}` });
+      if (clash) ctx.addIssue({ code: 'custom', path: [...refs[i][0].split('.'), 'column'], message: `is the same column as the ${clash[0] === 'timestamp.time' ? 'time' : clash[0] === 'timestamp' && ts.time ? 'date' : clash[0]}` });
     }
   });
 /** A parsed column mapping. */

@@ -1,21 +1,25 @@
 // One logger file, record by record: the header row, then each data row checked and turned into a
 // level and volumes with the tank's own setup (the same readingToVolumes a round uses). Bad rows come
-// back with their physical line, column and reason; nothing is clamped. Pure: the browser preview,
-// the server's streaming import and the property tests all feed it the records papaparse gives.
+// back with their physical line, column and reason; nothing is clamped. A local time that occurs twice
+// (clocks going back) is read by the order of the rows and comes back with a notice saying how. Pure:
+// the browser preview, the server's import and dry run and the property tests all feed it the records
+// papaparse gives.
 import { readingToVolumes, type ReadingInput, type TankSetup } from '../readings/index';
 import { toSI, type LengthUnit, type PressureUnit } from '../units/index';
 import { isBlankRow, lineBreaksInside, stripBom, type LineBreak } from './csv';
-import type { ColumnRef, ImportMapping } from './mapping';
+import type { ColumnRef, DateFormat, ImportMapping, TimestampFormat } from './mapping';
 import { parseDecimal } from './numbers';
-import { timestampParser } from './timestamps';
+import { createInstantTally } from './repeats';
+import { dateTimeParser, formatInstant, formatOffset, timestampParser, type RepeatedTime, type TimestampResult } from './timestamps';
+import { IMPORT_POLICY_TITLES, isDateFormat } from './mapping';
 
 /** Bounds of a logged temperature in °C (the same bounds a round's temperature has). */
 export const TEMPERATURE_RANGE_C = { min: -40, max: 90 } as const;
 /** How far past "now" a timestamp may be before it counts as in the future (logger clocks drift), ms. */
 export const FUTURE_TOLERANCE_MS = 5 * 60_000;
 
-/** Which mapped column a problem is about. */
-export type ImportField = 'timestamp' | 'value' | 'temperature';
+/** Which mapped column a problem is about ('timestamp' is the date column when the time of day has its own). */
+export type ImportField = 'timestamp' | 'time' | 'value' | 'temperature';
 
 /** One problem of one row: 1-based physical line where the record starts, the column, the cell text and why. */
 export interface ImportProblem {
@@ -25,6 +29,15 @@ export interface ImportProblem {
   column: string;
   value: string;
   reason: string;
+}
+
+/** A remark on a row that was read, not refused: how a local time that occurs twice was read. */
+export interface ImportNotice {
+  line: number;
+  field: ImportField;
+  column: string;
+  value: string;
+  note: string;
 }
 
 /** A good row: UTC instant (epoch ms), level in mm above the floor, volumes in L, temperature in °C or null. */
@@ -41,15 +54,16 @@ export interface ImportedReading {
 export type FeedResult =
   | { kind: 'blank'; line: number }
   | { kind: 'header'; line: number; columns: string[] }
-  | { kind: 'reading'; reading: ImportedReading }
+  | { kind: 'reading'; reading: ImportedReading; notice?: ImportNotice }
   | { kind: 'rejected'; line: number; problems: ImportProblem[] }
   | { kind: 'fatal'; reason: string };
 
-/** Running counts of a file: data rows seen (blank lines and the header not included), rows refused, blank records skipped (the empty record after a final line break included). */
+/** Running counts of a file: data rows seen (blank lines and the header not included), rows refused, blank records skipped (the empty record after a final line break included), rows read with a notice. */
 export interface ImportCounts {
   rows: number;
   rejected: number;
   blank: number;
+  noticed: number;
 }
 
 /** Reads one file's records in order; `end()` says whether the file as a whole was usable. */
@@ -57,6 +71,8 @@ export interface ImportReader {
   feed(cells: readonly string[]): FeedResult;
   end(): { ok: true } | { ok: false; reason: string };
   readonly counts: Readonly<ImportCounts>;
+  /** Good rows whose instant an earlier good row of this file already had (each instant is stored once). */
+  repeatedInFile(): number;
 }
 
 /** What a reader needs: the mapping, the tank's setup, and "now" in epoch ms (rows after it are refused). */
@@ -66,6 +82,8 @@ export interface ImportReaderOptions {
   nowMs: number;
   /** The record separator papaparse split at (its meta.linebreak); LF when left out, which also counts CRLF files right. */
   newline?: LineBreak;
+  /** The zone moments in messages are shown in (the farm's); UTC when left out. */
+  displayTimeZone?: string;
 }
 
 /** Why this mapping cannot be used with this tank at all (null when it can): e.g. distances need the sensor height. */
@@ -84,14 +102,20 @@ interface Column {
 const describeRef = (ref: ColumnRef) => (typeof ref === 'number' ? `column ${ref + 1} (index ${ref})` : `"${ref}"`);
 
 /** A reader for one file. Throws RangeError only for a mapping that failed its schema (unknown zone or format). */
-export function createImportReader({ mapping, tank, nowMs, newline = '\n' }: ImportReaderOptions): ImportReader {
-  const parseTime = timestampParser(mapping.timestamp.format, mapping.timestamp.timeZone);
-  const counts: ImportCounts = { rows: 0, rejected: 0, blank: 0 };
+export function createImportReader({ mapping, tank, nowMs, newline = '\n', displayTimeZone = 'UTC' }: ImportReaderOptions): ImportReader {
+  const ts = mapping.timestamp;
+  const split = ts.time !== null && isDateFormat(ts.format);
+  const parseOne = split ? null : timestampParser(ts.format as TimestampFormat, ts.timeZone);
+  const parseTwo = split ? dateTimeParser(ts.format as DateFormat, ts.time!.format, ts.timeZone!) : null;
+  const counts: ImportCounts = { rows: 0, rejected: 0, blank: 0, noticed: 0 };
+  const tally = createInstantTally();
+  /** The instant of the last row whose time was read: a repeated local time is read after it. */
+  let previousMs: number | null = null;
   let nextLine = 1;
   let first = true;
   let header: string[] | null = null;
   let fatal: string | null = null;
-  let columns: { timestamp: Column; value: Column; temperature: Column | null } | null = null;
+  let columns: { timestamp: Column; time: Column | null; value: Column; temperature: Column | null } | null = null;
 
   const resolve = (ref: ColumnRef, names: string[] | null): Column | string => {
     if (typeof ref === 'number') {
@@ -108,8 +132,14 @@ export function createImportReader({ mapping, tank, nowMs, newline = '\n' }: Imp
   };
 
   const resolveAll = (names: string[] | null): string | null => {
-    const ts = resolve(mapping.timestamp.column, names);
-    if (typeof ts === 'string') return `Timestamp column: ${ts}`;
+    const stamp = resolve(ts.column, names);
+    if (typeof stamp === 'string') return `${split ? 'Date' : 'Timestamp'} column: ${stamp}`;
+    let time: Column | null = null;
+    if (split) {
+      const t = resolve(ts.time!.column, names);
+      if (typeof t === 'string') return `Time column: ${t}`;
+      time = t;
+    }
     const value = resolve(mapping.value.column, names);
     if (typeof value === 'string') return `Value column: ${value}`;
     let temperature: Column | null = null;
@@ -118,7 +148,7 @@ export function createImportReader({ mapping, tank, nowMs, newline = '\n' }: Imp
       if (typeof t === 'string') return `Temperature column: ${t}`;
       temperature = t;
     }
-    columns = { timestamp: ts, value, temperature };
+    columns = { timestamp: stamp, time, value, temperature };
     return null;
   };
   if (!mapping.hasHeader) resolveAll(null);
@@ -131,6 +161,61 @@ export function createImportReader({ mapping, tank, nowMs, newline = '\n' }: Imp
         ? { kind: 'ultrasonic', distanceMm: toSI(v, unit as LengthUnit) }
         : { kind: 'level', levelMm: toSI(v, unit as LengthUnit) };
 
+  const zoneName = ts.timeZone ?? 'UTC';
+  /** How a local time that occurs twice was read: the first time round unless the rows before it already reached it. */
+  const pickRepeated = (rep: RepeatedTime, text: string, col: Column, field: ImportField, line: number): { ms: number; notice: ImportNotice } => {
+    const second = previousMs !== null && previousMs >= rep.earlierMs;
+    const ms = second ? rep.laterMs : rep.earlierMs;
+    const why = second
+      ? `read as the second time round (${formatOffset(rep.laterOffsetMin)}), because the row before it is at or past the first`
+      : previousMs === null
+        ? `read as the first time round (${formatOffset(rep.earlierOffsetMin)}), as no row before it tells which`
+        : `read as the first time round (${formatOffset(rep.earlierOffsetMin)}), because the row before it comes earlier`;
+    const note = `"${text}" happens twice in ${zoneName} (the clocks go back an hour that night); ${why}. It is ${formatInstant(ms, displayTimeZone)} in the farm's time.`;
+    return { ms, notice: { line, field, column: col.label, value: text, note } };
+  };
+
+  const readWhen = (
+    cols: NonNullable<typeof columns>,
+    cell: (c: Column, field: ImportField) => string | null,
+    line: number,
+    problems: ImportProblem[],
+  ): { ms: number; notice?: ImportNotice } | null => {
+    const dateText = cell(cols.timestamp, 'timestamp');
+    const timeText = cols.time ? cell(cols.time, 'time') : '';
+    if (dateText === null || timeText === null) return null;
+    let r: TimestampResult;
+    let field: ImportField = 'timestamp';
+    let col = cols.timestamp;
+    let text = dateText.trim();
+    if (parseTwo && cols.time) {
+      const two = parseTwo(dateText, timeText);
+      text = `${dateText.trim()} ${timeText.trim()}`;
+      if (!two.ok) {
+        const bad = two.part === 'date' ? { field: 'timestamp' as const, col: cols.timestamp, value: dateText } : { field: 'time' as const, col: cols.time, value: timeText };
+        problems.push({ line, field: bad.field, column: bad.col.label, value: bad.value, reason: two.reason });
+        return null;
+      }
+      r = two;
+      field = 'time';
+      col = cols.time;
+    } else r = parseOne!(dateText);
+    const value = field === 'time' ? timeText : dateText;
+    if (!r.ok) {
+      problems.push({ line, field, column: col.label, value, reason: r.reason });
+      return null;
+    }
+    let ms = r.ms;
+    let notice: ImportNotice | undefined;
+    if (r.repeated) ({ ms, notice } = pickRepeated(r.repeated, text, col, field, line));
+    if (ms > nowMs + FUTURE_TOLERANCE_MS) {
+      problems.push({ line, field, column: col.label, value, reason: `${split ? 'Date and time' : 'Timestamp'} "${text}" is in the future (after ${formatInstant(nowMs, displayTimeZone)}, the farm's time now)` });
+      return null;
+    }
+    previousMs = ms;
+    return { ms, notice };
+  };
+
   const readRow = (cells: readonly string[], line: number): FeedResult => {
     const cols = columns!;
     const problems: ImportProblem[] = [];
@@ -139,15 +224,8 @@ export function createImportReader({ mapping, tank, nowMs, newline = '\n' }: Imp
       problems.push({ line, field, column: c.label, value: '', reason: `Missing: the row has ${cells.length} field${cells.length === 1 ? '' : 's'}, so there is no ${c.label}` });
       return null;
     };
-    const tsText = cell(cols.timestamp, 'timestamp');
-    let takenAtMs = NaN;
-    if (tsText !== null) {
-      const t = parseTime(tsText);
-      if (!t.ok) problems.push({ line, field: 'timestamp', column: cols.timestamp.label, value: tsText, reason: t.reason });
-      else if (t.ms > nowMs + FUTURE_TOLERANCE_MS) {
-        problems.push({ line, field: 'timestamp', column: cols.timestamp.label, value: tsText, reason: `Timestamp "${tsText.trim()}" is in the future (after ${new Date(nowMs).toISOString()})` });
-      } else takenAtMs = t.ms;
-    }
+    const when = readWhen(cols, cell, line, problems);
+    const takenAtMs = when?.ms ?? NaN;
     const valueText = cell(cols.value, 'value');
     let volumes: { levelMm: number; grossL: number; usableL: number } | null = null;
     if (valueText !== null) {
@@ -174,8 +252,10 @@ export function createImportReader({ mapping, tank, nowMs, newline = '\n' }: Imp
         }
       }
     }
-    if (problems.length || !volumes) return { kind: 'rejected', line, problems };
-    return { kind: 'reading', reading: { line, takenAtMs, ...volumes, temperatureC } };
+    if (problems.length || !volumes || !when) return { kind: 'rejected', line, problems };
+    tally.add(takenAtMs);
+    if (when.notice) counts.noticed++;
+    return { kind: 'reading', reading: { line, takenAtMs, ...volumes, temperatureC }, ...(when.notice ? { notice: when.notice } : {}) };
   };
 
   const feed = (raw: readonly string[]): FeedResult => {
@@ -214,5 +294,10 @@ export function createImportReader({ mapping, tank, nowMs, newline = '\n' }: Imp
     return { ok: false, reason: 'The file is empty: it has no rows to import' };
   };
 
-  return { feed, end, counts };
+  return { feed, end, counts, repeatedInFile: () => tally.repeated() };
+}
+
+/** Why a file was refused under 'reject-file': how many rows are bad, in the policy's own words. */
+export function refusedFileReason(rejected: number, rows: number): string {
+  return `${rejected.toLocaleString('en-GB')} of ${rows.toLocaleString('en-GB')} rows have problems, so nothing from this file was stored ("${IMPORT_POLICY_TITLES['reject-file']}" was chosen)`;
 }

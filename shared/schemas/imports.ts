@@ -30,6 +30,11 @@ export const importUploadSchema = z.object({
 /** The parsed text fields of an upload. */
 export type ImportUploadInput = z.infer<typeof importUploadSchema>;
 
+/** Query of POST /api/imports: `dryRun=true` reads and checks every row of every file but stores nothing. */
+export const importUploadQuerySchema = z.object({
+  dryRun: z.enum(['true', 'false'], { error: "must be 'true' or 'false'" }).optional().transform((v) => v === 'true'),
+});
+
 /** Query of GET /api/imports: one tank's or one farm's history, newest first. */
 export const importListQuerySchema = z.object({
   tankId: idSchema.optional(),
@@ -70,10 +75,14 @@ export interface LoggerImport {
   rowsTotal: number;
   /** Rows stored as new readings. */
   rowsNew: number;
-  /** Good rows whose instant this tank already had a logger reading for (nothing added). */
+  /** Good rows whose instant this tank already had a logger reading for from an earlier file (nothing added). */
   rowsDuplicate: number;
+  /** Good rows repeating an instant of an earlier row of the same file (stored once). */
+  rowsRepeated: number;
   /** Rows refused, each with at least one problem. */
   rowsRejected: number;
+  /** Rows read with a notice (a local time that happens twice, read by the order of the rows). */
+  noticeCount: number;
   /** Why the file was rejected or failed, or what a duplicate repeats; null when imported cleanly. */
   error: string | null;
   /** For a duplicate: the earlier import of the same file to the same tank. */
@@ -83,11 +92,53 @@ export interface LoggerImport {
   finishedAt: string | null;
 }
 
-/** One import with the first refused rows (the full list is GET /api/imports/:id/rejected.csv). */
+/** A row read with a remark: its 1-based physical line, the column, the cell text and the remark. */
+export interface ImportNoticeRow {
+  line: number;
+  field: ImportField;
+  column: string;
+  value: string;
+  note: string;
+}
+
+/** One import with the first refused rows (the full list is GET /api/imports/:id/rejected.csv) and the first notices. */
 export interface LoggerImportDetail extends LoggerImport {
   rejectedPreview: ImportRejectedRow[];
   /** How many problems are stored in all (a row may have more than one). */
   rejectedProblems: number;
+  notices: ImportNoticeRow[];
+}
+
+/** What importing one file would do, from a dry run over every row of it (POST /api/imports?dryRun=true); nothing is stored. */
+export interface ImportDryRun {
+  originalName: string;
+  sizeBytes: number;
+  /** What the import would end as: imported, rejected (refused as a whole) or duplicate (this exact file is in already). */
+  status: Extract<ImportStatus, 'imported' | 'rejected' | 'duplicate'>;
+  delimiter: string | null;
+  rowsTotal: number;
+  rowsNew: number;
+  rowsDuplicate: number;
+  rowsRepeated: number;
+  rowsRejected: number;
+  noticeCount: number;
+  error: string | null;
+  duplicateOfId: number | null;
+  rejectedPreview: ImportRejectedRow[];
+  rejectedProblems: number;
+  notices: ImportNoticeRow[];
+}
+
+/** A person who may change a tank's setup (its sensor height, say): the organisation's owners and managers. */
+export interface TankEditor {
+  name: string;
+  role: 'owner' | 'manager';
+}
+
+/** GET /api/tanks/:id/import-mapping: the mapping the last successful import saved (null before the first), and who may change the tank's setup. */
+export interface TankImportSetup {
+  saved: SavedImportMapping | null;
+  tankEditors: TankEditor[];
 }
 
 /** Payload of the socket.io event 'import:progress' sent to the uploader while a file is read, and once at the end. */

@@ -55,7 +55,7 @@ describe('POST /api/imports', () => {
 
   it('stores every row of a clean file with litres from the shared conversion and saves the mapping', async () => {
     const { org, tank, worker } = await world(env);
-    await worker.get(`/api/tanks/${tank.id}/import-mapping`).expect(404);
+    expect((await worker.get(`/api/tanks/${tank.id}/import-mapping`).expect(200)).body.saved).toBeNull();
     const res = await upload(worker, { tankId: tank.id, files: [{ name: 'clean.csv', content: levelCsv(hourly('2025-05-01T00:00:00Z', 5)) }] }).expect(201);
     const [imp] = res.body.imports;
     expect(imp).toMatchObject({ status: 'imported', rowsTotal: 5, rowsNew: 5, rowsDuplicate: 0, rowsRejected: 0, originalName: 'clean.csv', tankId: tank.id, farmId: org.farmIds[0], delimiter: ',', policy: 'reject-file' });
@@ -67,7 +67,7 @@ describe('POST /api/imports', () => {
     expect(readings[0].usableL).toBeCloseTo(1100 * L_PER_MM, 6);
     expect((await env.ctx.db.models.TankLatest.findByPk(tank.id))!.levelMm).toBe(1160);
     const saved = await worker.get(`/api/tanks/${tank.id}/import-mapping`).expect(200);
-    expect(saved.body).toMatchObject({ tankId: tank.id, policy: 'reject-file', mapping: { timestamp: { column: 'time', format: 'iso8601' }, value: { kind: 'level', unit: 'mm' }, decimalComma: false, temperature: null } });
+    expect(saved.body.saved).toMatchObject({ tankId: tank.id, policy: 'reject-file', mapping: { timestamp: { column: 'time', format: 'iso8601' }, value: { kind: 'level', unit: 'mm' }, decimalComma: false, temperature: null } });
   });
 
   it('imports nothing and lists the bad row when one row is bad under reject-file', async () => {
@@ -81,7 +81,7 @@ describe('POST /api/imports', () => {
     // Header on line 1, so the third data row is on line 4.
     expect(imp.rejectedPreview).toEqual([{ line: 4, field: 'value', column: 'level_mm', value: 'n/a', reason: 'Value "n/a" is not a number' }]);
     expect(await env.ctx.db.models.Reading.count({ where: { tankId: tank.id } })).toBe(0);
-    await worker.get(`/api/tanks/${tank.id}/import-mapping`).expect(404);
+    expect((await worker.get(`/api/tanks/${tank.id}/import-mapping`).expect(200)).body.saved).toBeNull();
   });
 
   it('imports the good rows and reports the bad one under valid-rows', async () => {
@@ -359,22 +359,25 @@ describe('sample logger files (samples/loggers/README.md)', () => {
     expect(await env.ctx.db.models.Reading.count({ where: { tankId: tank.id } })).toBe(480);
   });
 
-  it('imports the HR-W1 ultrasonic file across the end of summer time: 336 new, 2 duplicate', async () => {
+  it('imports the HR-W1 ultrasonic file across the end of summer time: 338 new, the repeated hour read in row order', async () => {
     const org = await makeOrganisation(env);
     const tank = await scenarioTank(env, org, 'HR-W1', 2450);
     const worker = await signedIn(env, org.users.worker.email);
     const res = await upload(worker, { tankId: tank.id, mapping: HR_W1, files: [{ name: 'hr-w1-ultrasonic-2025-10-23.csv', content: sample('hr-w1-ultrasonic-2025-10-23.csv') }] }).expect(201);
-    expect(res.body.imports[0]).toMatchObject({ status: 'imported', delimiter: ';', rowsTotal: 338, rowsNew: 336, rowsDuplicate: 2, rowsRejected: 0 });
+    expect(res.body.imports[0]).toMatchObject({ status: 'imported', delimiter: ';', rowsTotal: 338, rowsNew: 338, rowsDuplicate: 0, rowsRepeated: 0, rowsRejected: 0, noticeCount: 4 });
+    // Each row of the repeated hour is noted on its line: the first 01:00 and 01:30 as the summer-time pass, the second as winter time.
+    expect(res.body.imports[0].notices.map((n: { note: string }) => /first time round/.test(n.note))).toEqual([true, true, false, false]);
     const readings = await env.ctx.db.models.Reading.findAll({ where: { tankId: tank.id }, order: [['takenAt', 'ASC']] });
-    // 23/10/2025 00:00 Irish summer time (UTC+1) is 22 Oct 23:00 UTC; the repeated 01:00 and 01:30 of
-    // 26 Oct are read as their first occurrence (RFC 5545 §3.3.5), then 02:00 is winter time (UTC+0).
+    // 23/10/2025 00:00 Irish summer time (UTC+1) is 22 Oct 23:00 UTC; on 26 Oct the clocks go back at
+    // 02:00 (01:00 UTC, Directive 2000/84/EC), so 01:00 and 01:30 come twice: UTC+1, then UTC+0.
     expect(readings[0].takenAt.toISOString()).toBe('2025-10-22T23:00:00.000Z');
     expect(readings[0].levelMm).toBeCloseTo(2450 - 247, 6);
     expect(readings[0].temperatureC).toBe(9.4);
     const times = readings.map((r) => r.takenAt.toISOString());
     expect(times).toContain('2025-10-26T00:00:00.000Z');
     expect(times).toContain('2025-10-26T00:30:00.000Z');
-    expect(times).not.toContain('2025-10-26T01:00:00.000Z');
+    expect(times).toContain('2025-10-26T01:00:00.000Z');
+    expect(times).toContain('2025-10-26T01:30:00.000Z');
     expect(times).toContain('2025-10-26T02:00:00.000Z');
     expect(times.at(-1)).toBe('2025-10-29T23:30:00.000Z');
   });

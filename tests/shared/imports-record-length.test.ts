@@ -1,4 +1,4 @@
-// The record-length guard that runs over an upload before the CSV parser, and the UTF-8 part of the
+// The record-length guard (shared/imports/record-length.ts) that runs over an upload before the CSV parser, and the UTF-8 part of the
 // content check. Oracle for the guard: papaparse's own writer (Papa.unparse) lays out random rows, so
 // each record's bytes and the line it starts on are known; the guard must refuse exactly the first
 // record longer than the limit, at that line, however the bytes are split into chunks.

@@ -58,8 +58,7 @@ describe('timestampParser with local patterns', () => {
     ['Dublin summer', 'DD/MM/YYYY HH:mm', '15/07/2025 08:00', '2025-07-15T07:00:00.000Z'],
     ['the last minute before summer time', 'YYYY-MM-DD HH:mm:ss', '2025-03-30 00:59:00', '2025-03-30T00:59:00.000Z'],
     ['the first minute of summer time', 'YYYY-MM-DD HH:mm:ss', '2025-03-30 02:00:00', '2025-03-30T01:00:00.000Z'],
-    ['a time in the spring gap: read with the offset before it', 'YYYY-MM-DD HH:mm', '2025-03-30 01:30', '2025-03-30T01:30:00.000Z'],
-    ['the repeated hour in October: its first occurrence', 'DD.MM.YYYY HH:mm', '26.10.2025 01:30', '2025-10-26T00:30:00.000Z'],
+    ['the repeated hour in October: its first occurrence (the reader picks by row order)', 'DD.MM.YYYY HH:mm', '26.10.2025 01:30', '2025-10-26T00:30:00.000Z'],
     ['just after the repeated hour', 'DD.MM.YYYY HH:mm:ss', '26.10.2025 02:00:00', '2025-10-26T02:00:00.000Z'],
     ['single-digit day, month and hour', 'DD/MM/YYYY HH:mm', '5/7/2025 6:05', '2025-07-05T05:05:00.000Z'],
   ])('reads %s in Europe/Dublin', (_name, format, text, want) => {
@@ -67,10 +66,12 @@ describe('timestampParser with local patterns', () => {
   });
 
   // RFC 5545 §3.3.5 worked examples (recalled from memory, not re-checked): in America/New_York,
-  // 2007-03-11 02:30 does not exist and means 03:30 EDT; 2007-11-04 01:30 occurs twice and means the EDT one.
+  // 2007-03-11 02:30 does not exist; 2007-11-04 01:30 occurs twice, first as EDT.
+  it('refuses the RFC 5545 §3.3.5 gap example instead of moving it', () => {
+    expect(parseAt('YYYY-MM-DD HH:mm', '2007-03-11 02:30', 'America/New_York')).toMatch(/does not exist in America\/New_York: the clocks went forward from 02:00 to 03:00 on 11 Mar 2007/);
+  });
   it.each([
-    ['RFC 5545 §3.3.5 gap example', '2007-03-11 02:30', '2007-03-11T07:30:00.000Z'],
-    ['RFC 5545 §3.3.5 repeated-hour example', '2007-11-04 01:30', '2007-11-04T05:30:00.000Z'],
+    ['RFC 5545 §3.3.5 repeated-hour example (first occurrence)', '2007-11-04 01:30', '2007-11-04T05:30:00.000Z'],
     ['the same day an hour later (EST)', '2007-11-04 02:30', '2007-11-04T07:30:00.000Z'],
   ])('follows %s', (_name, text, want) => {
     expect(parseAt('YYYY-MM-DD HH:mm', text, 'America/New_York')).toBe(want);
@@ -84,10 +85,12 @@ describe('timestampParser with local patterns', () => {
 
   it('gives the same answer from the cache as on first use', () => {
     const parse = timestampParser('YYYY-MM-DD HH:mm:ss', 'Europe/Dublin');
-    const first = ['2025-10-26 01:10:00', '2025-10-26 01:20:00', '2025-03-30 01:05:00', '2025-03-30 01:14:59'].map((t) => parse(t));
-    const again = ['2025-10-26 01:10:00', '2025-10-26 01:20:00', '2025-03-30 01:05:00', '2025-03-30 01:14:59'].map((t) => parse(t));
+    const texts = ['2025-10-26 01:10:00', '2025-10-26 01:20:00', '2025-03-30 00:59:59', '2025-03-30 02:14:59', '2025-03-30 01:05:00'];
+    const first = texts.map((t) => parse(t));
+    const again = texts.map((t) => parse(t));
     expect(again).toEqual(first);
-    expect(first.map((r) => (r.ok ? iso(r.ms) : r.reason))).toEqual(['2025-10-26T00:10:00.000Z', '2025-10-26T00:20:00.000Z', '2025-03-30T01:05:00.000Z', '2025-03-30T01:14:59.000Z']);
+    expect(first.slice(0, 4).map((r) => (r.ok ? iso(r.ms) : r.reason))).toEqual(['2025-10-26T00:10:00.000Z', '2025-10-26T00:20:00.000Z', '2025-03-30T00:59:59.000Z', '2025-03-30T01:14:59.000Z']);
+    expect(first[4]).toMatchObject({ ok: false, reason: expect.stringMatching(/does not exist/) });
   });
 
   it('refuses text that does not match the pattern and dates that do not exist', () => {
@@ -173,7 +176,7 @@ describe('importMappingSchema', () => {
   };
 
   it('fills the defaults: auto delimiter, decimal point, a header row, no temperature', () => {
-    expect(importMappingSchema.parse(base)).toEqual({ ...base, delimiter: 'auto', decimalComma: false, hasHeader: true, temperature: null });
+    expect(importMappingSchema.parse(base)).toEqual({ ...base, timestamp: { ...base.timestamp, time: null }, delimiter: 'auto', decimalComma: false, hasHeader: true, temperature: null });
   });
 
   it.each([
@@ -229,7 +232,7 @@ describe('createImportReader', () => {
     const { results, end, counts } = readAll('\uFEFFtime,LEVEL,temp\n2025-06-01T00:00:00Z,50,68\n\n2025-06-01T01:00:00Z,49.5,\n', mapping);
     expect(end).toEqual({ ok: true });
     // One blank line, and the empty record after the final line break.
-    expect(counts).toEqual({ rows: 2, rejected: 0, blank: 2 });
+    expect(counts).toEqual({ rows: 2, rejected: 0, blank: 2, noticed: 0 });
     const readings = results.flatMap((r) => (r.kind === 'reading' ? [r.reading] : []));
     // 68 °F = 20 °C exactly ((68 − 32) × 5/9); 50 cm = 500 mm.
     expect(readings.map((r) => [r.line, iso(r.takenAtMs), r.levelMm, r.temperatureC])).toEqual([
@@ -249,7 +252,7 @@ describe('createImportReader', () => {
 
   it('reports every problem of a row, each with its column', () => {
     const { results, counts } = readAll('time,level,temp\n2099-01-01T00:00:00Z,1600,200\n2025-06-01T00:00:00Z\n', mapping);
-    expect(counts).toEqual({ rows: 2, rejected: 2, blank: 1 });
+    expect(counts).toEqual({ rows: 2, rejected: 2, blank: 1, noticed: 0 });
     const [first, second] = results.filter((r) => r.kind === 'rejected') as Extract<FeedResult, { kind: 'rejected' }>[];
     expect(first.problems.map((p) => [p.field, p.column])).toEqual([
       ['timestamp', 'time'],
