@@ -4,8 +4,10 @@ import { createHash } from 'node:crypto';
 import { promisify } from 'node:util';
 import { gzip } from 'node:zlib';
 import { QueryTypes } from 'sequelize';
-import { capacityL, type TankGeometry } from '@shared/calibration';
+import { capacityL, heightMm, type TankGeometry } from '@shared/calibration';
 import { totalsOf } from '@shared/board';
+import { daysOfCoverSince } from '@shared/forecast';
+import { stockFigures, usableCapacityL } from '@shared/readings';
 import { TANK_CONTENTS, type BoardHistory, type FarmBoard, type SessionUser, type StockBoard, type TankContents, type TankTile } from '@shared/schemas';
 import type { AppContext } from '../context';
 import { queueForecastRefresh } from './forecasts';
@@ -20,7 +22,11 @@ interface Row {
   code: string;
   contents: TankContents;
   geometry: TankGeometry | string;
+  datumOffsetMm: number;
+  outletHeightMm: number;
+  safeFillLevelMm: number;
   lowStockL: number;
+  levelMm: number | null;
   grossL: number | null;
   usableL: number | null;
   temperatureC: number | null;
@@ -29,18 +35,25 @@ interface Row {
   forecastAt: Date | null;
 }
 
-// Capacity by geometry (as stored): the closed forms cost tens of microseconds a tank, and a
-// board of a thousand tanks is read on every request and every push.
-const capacities = new Map<string, number>();
-function capacityOf(stored: TankGeometry | string): number {
-  const key = typeof stored === 'string' ? stored : JSON.stringify(stored);
-  let cap = capacities.get(key);
-  if (cap === undefined) {
-    cap = capacityL(typeof stored === 'string' ? (JSON.parse(stored) as TankGeometry) : stored);
-    if (capacities.size >= 10_000) capacities.clear();
-    capacities.set(key, cap);
+// Sizes by geometry (as stored) and outlet and fill line: the closed forms cost tens of microseconds
+// a tank, and a board of a thousand tanks is read on every request and every push.
+interface Sizes {
+  capacityL: number;
+  usableCapacityL: number;
+  heightMm: number;
+}
+const sizes = new Map<string, Sizes>();
+function sizesOf(r: Pick<Row, 'geometry' | 'outletHeightMm' | 'safeFillLevelMm'>): Sizes {
+  const stored = typeof r.geometry === 'string' ? r.geometry : JSON.stringify(r.geometry);
+  const key = `${r.outletHeightMm}|${r.safeFillLevelMm}|${stored}`;
+  let kept = sizes.get(key);
+  if (kept === undefined) {
+    const g = typeof r.geometry === 'string' ? (JSON.parse(r.geometry) as TankGeometry) : r.geometry;
+    kept = { capacityL: capacityL(g), usableCapacityL: usableCapacityL(g, r), heightMm: heightMm(g) };
+    if (sizes.size >= 10_000) sizes.clear();
+    sizes.set(key, kept);
   }
-  return cap;
+  return kept;
 }
 
 /**
@@ -54,8 +67,8 @@ async function boardRows(ctx: AppContext, organisationId: number, farmIds: numbe
   const [order, rows] = await Promise.all([
     ctx.db.sequelize.query<{ id: number }>(`SELECT t.id FROM tanks t JOIN farms f ON f.id = t.farmId WHERE ${where} ORDER BY f.name, t.walkOrder, t.name`, { replacements, type: QueryTypes.SELECT }),
     ctx.db.sequelize.query<Row>(
-      `SELECT t.id AS tankId, t.farmId, f.name AS farmName, t.name, t.code, t.contents, t.geometry, t.lowStockL,
-              l.grossL, l.usableL, l.temperatureC, l.takenAt, l.useLPerDay, l.forecastAt
+      `SELECT t.id AS tankId, t.farmId, f.name AS farmName, t.name, t.code, t.contents, t.geometry, t.datumOffsetMm, t.outletHeightMm, t.safeFillLevelMm, t.lowStockL,
+              l.levelMm, l.grossL, l.usableL, l.temperatureC, l.takenAt, l.useLPerDay, l.forecastAt
          FROM tanks t JOIN farms f ON f.id = t.farmId
          LEFT JOIN tank_latest l ON l.tankId = t.id
         WHERE ${where}`,
@@ -77,25 +90,34 @@ export async function boardOf(ctx: AppContext, organisationId: number, farmIds: 
   const rows = farmIds.length ? await boardRows(ctx, organisationId, farmIds) : [];
   const farms = new Map<number, FarmBoard>();
   const all: TankTile[] = [];
+  const now = Date.now();
   for (const r of rows) {
-    const cap = capacityOf(r.geometry);
+    const size = sizesOf(r);
+    const figures = r.grossL === null || r.usableL === null ? null : stockFigures({ grossL: r.grossL, usableL: r.usableL }, size.usableCapacityL);
+    const takenAt = r.takenAt ? new Date(r.takenAt) : null;
     const tile: TankTile = {
       tankId: r.tankId,
       farmId: r.farmId,
       name: r.name,
       code: r.code,
       contents: r.contents,
-      capacityL: cap,
+      capacityL: size.capacityL,
+      usableCapacityL: size.usableCapacityL,
       lowStockL: r.lowStockL,
       grossL: r.grossL,
       usableL: r.usableL,
-      percentFull: r.grossL === null ? null : (r.grossL / cap) * 100,
+      percentOfUsableCapacity: figures?.percentOfUsableCapacity ?? null,
+      levelMm: r.levelMm,
+      heightMm: size.heightMm,
+      datumOffsetMm: r.datumOffsetMm,
+      outletHeightMm: r.outletHeightMm,
+      safeFillLevelMm: r.safeFillLevelMm,
       temperatureC: r.temperatureC,
-      takenAt: r.takenAt ? new Date(r.takenAt).toISOString() : null,
+      takenAt: takenAt ? takenAt.toISOString() : null,
       low: r.usableL !== null && r.usableL < r.lowStockL,
       useLPerDay: r.useLPerDay,
       // Counted from the reading, not from now: a tank read days ago has been drawn on since.
-      daysOfCover: r.useLPerDay && r.usableL !== null && r.takenAt ? Math.max(0, r.usableL / r.useLPerDay - (Date.now() - new Date(r.takenAt).getTime()) / 86_400_000) : null,
+      daysOfCover: r.useLPerDay !== null && r.useLPerDay > 0 && r.usableL !== null && takenAt ? daysOfCoverSince(r.usableL, r.useLPerDay, takenAt.getTime(), now) : null,
     };
     all.push(tile);
     if (!farms.has(r.farmId)) farms.set(r.farmId, { farmId: r.farmId, name: r.farmName, totals: [], tanks: [] });

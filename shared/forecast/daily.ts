@@ -95,6 +95,16 @@ export function daysOfCover(usableL: number, meanLPerDay: number): number {
   return usable / use;
 }
 
+/**
+ * Days the usable volume of a reading lasts from `now` at the mean use (days): the days of cover of what
+ * is left once the use since the reading (taken at `takenAt`, epoch ms) is taken off; Infinity when use is 0.
+ */
+export function daysOfCoverSince(usableAtReadingL: number, meanLPerDay: number, takenAt: number, now: number): number {
+  const use = nonNegative('meanLPerDay', meanLPerDay);
+  const sinceDays = Math.max(0, finiteNumber('now', now) - finiteNumber('takenAt', takenAt)) / MS_PER_DAY;
+  return daysOfCover(finiteNumber('usableAtReadingL', usableAtReadingL) - use * sinceDays, use);
+}
+
 /** When the usable volume runs out at the mean use (epoch ms): `now` when empty, null when use is 0. */
 export function projectedEmptyDate(now: number, usableL: number, meanLPerDay: number): number | null {
   const at = finiteNumber('now', now);

@@ -2,3 +2,5 @@
 export { WATER_DENSITY_KG_M3, levelFromSightTube, levelFromUltrasonic, levelFromPressure } from './levels';
 export { MAX_SPECIFIC_GRAVITY, tankVolumes, readingToVolumes } from './volumes';
 export type { TankLevels, TankVolumes, TankSetup, ReadingInput, ReadingResult } from './volumes';
+export { usableCapacityL, stockFigures } from './figures';
+export type { StockFigures } from './figures';

@@ -6,8 +6,10 @@ export interface ContentsTotal {
   grossL: number;
   usableL: number;
   capacityL: number;
-  /** Gross as a percentage of the capacity of the tanks that have a reading. */
-  percentFull: number;
+  /** The usable capacity (outlet to safe fill line) of the tanks that have a reading (L). */
+  usableCapacityL: number;
+  /** usableL as a percentage of usableCapacityL (shared/readings stockFigures); null when none of the tanks has one. */
+  percentOfUsableCapacity: number | null;
   tanks: number;
   tanksWithoutReading: number;
   /** The oldest latest-reading behind this total (how stale the figure can be). */
@@ -22,16 +24,26 @@ export interface TankTile {
   code: string;
   contents: TankContents;
   capacityL: number;
+  /** Litres between the outlet and the safe fill line: what percentOfUsableCapacity is of. */
+  usableCapacityL: number;
   lowStockL: number;
   grossL: number | null;
   usableL: number | null;
-  percentFull: number | null;
+  /** usableL as a percentage of usableCapacityL (shared/readings stockFigures); null without a reading. */
+  percentOfUsableCapacity: number | null;
+  /** Level of the latest reading above the floor (mm); null without a reading. */
+  levelMm: number | null;
+  /** The tank's inside height, the sight tube's zero mark, the outlet and the safe fill line, mm above the floor (for the sight-tube glyph). */
+  heightMm: number;
+  datumOffsetMm: number;
+  outletHeightMm: number;
+  safeFillLevelMm: number;
   temperatureC: number | null;
   takenAt: string | null;
   low: boolean;
   /** Mean use over the last two weeks (L/day); null before there is enough history. */
   useLPerDay: number | null;
-  /** Usable volume over the use rate (days); null when no use was seen. */
+  /** Days the usable volume lasts from now at the use rate, counted on from the reading (shared/forecast daysOfCoverSince); null when no use was seen. */
   daysOfCover: number | null;
 }
 

@@ -63,20 +63,23 @@ describe('RoundView', () => {
     expect(wrapper.get('[data-testid="round-tank-CS-W1"]').text()).toContain('No reading yet');
   });
 
-  it('shows litres and percent full while the reading is typed', async () => {
+  it('shows usable litres, their share of the usable capacity and the litres in the tank while the reading is typed', async () => {
     const { wrapper } = await mountAs();
 
     await wrapper.get('[data-testid="round-input-CS-W1"]').setValue('1140');
 
-    // 1140 mm + 60 mm datum = 1.2 m of water in a cylinder 3.2 m across: π × 1.6² × 1.2 m³ = 9,651 L,
-    // half of its 2.4 m height (right circular cylinder V = π r² h; recalled from memory).
-    expect(wrapper.get('[data-testid="round-litres-CS-W1"]').text()).toBe('9,651 L');
-    expect(wrapper.get('[data-testid="round-percent-CS-W1"]').text()).toBe('50 % full');
+    // 1140 mm + 60 mm datum = 1.2 m of water in a cylinder 3.2 m across: π × 1.6² × 1.2 m³ = 9,651 L in the tank,
+    // of which 1.05 m lies above the 150 mm outlet: 8,445 L usable, 1.05 of the 2.15 m up to the 2,300 mm
+    // fill line = 49 % of the 17,291 L usable capacity (right circular cylinder V = π r² h; recalled from memory).
+    expect(wrapper.get('[data-testid="round-stock-CS-W1-usable"]').text()).toBe('8,445 L');
+    expect(wrapper.get('[data-testid="round-stock-CS-W1-percent"]').text()).toBe('49 % of 17,291 L usable capacity');
+    expect(wrapper.get('[data-testid="round-stock-CS-W1-total"]').text()).toBe('9,651 L in the tank');
+    expect(wrapper.get('[data-testid="round-tank-CS-W1"]').text()).not.toMatch(/% full/);
     expect(wrapper.find('[data-testid="round-error-CS-W1"]').exists()).toBe(false);
 
     await wrapper.get('[data-testid="round-input-CS-W1"]').setValue('1200');
-    // 1260 mm: π × 1.6² × 1.26 m³ = 10.1335 m³.
-    expect(wrapper.get('[data-testid="round-litres-CS-W1"]').text()).toBe('10,134 L');
+    // 1260 mm: π × 1.6² × 1.11 m³ = 8.9271 m³ above the outlet.
+    expect(wrapper.get('[data-testid="round-stock-CS-W1-usable"]').text()).toBe('8,927 L');
   });
 
   it('shows gallons beside the litres for a US user typing inches', async () => {
@@ -84,12 +87,12 @@ describe('RoundView', () => {
 
     await wrapper.get('[data-testid="round-input-CS-W1"]').setValue('45');
 
-    // 45 in = 1143 mm; level 1203 mm; π × 1.6² × 1.203 m³ = 9,675.10 L = 2,555.9 US gal
+    // 45 in = 1143 mm; level 1203 mm; π × 1.6² × (1.203 − 0.15) m³ = 8,468.73 L usable = 2,237.2 US gal
     // (1 US gal = 231 in³ = 3.785411784 L, NIST Handbook 44 Appendix C).
     const card = wrapper.get('[data-testid="round-tank-CS-W1"]');
     expect(card.text()).toContain('in');
-    expect(wrapper.get('[data-testid="round-litres-CS-W1"]').text()).toBe('9,675 L');
-    expect(card.text()).toContain('(2,556 gal)');
+    expect(wrapper.get('[data-testid="round-stock-CS-W1-usable"]').text()).toBe('8,469 L');
+    expect(wrapper.get('[data-testid="round-gallons-CS-W1"]').text()).toBe('(2,237 gal usable)');
   });
 
   it('refuses an out-of-range reading at once with the reason', async () => {
@@ -98,7 +101,7 @@ describe('RoundView', () => {
     await wrapper.get('[data-testid="round-input-CS-W1"]').setValue('2400');
 
     expect(wrapper.get('[data-testid="round-error-CS-W1"]').text()).toMatch(/above the top of the tank \(2,400 mm\)/);
-    expect(wrapper.find('[data-testid="round-litres-CS-W1"]').exists()).toBe(false);
+    expect(wrapper.find('[data-testid="round-stock-CS-W1"]').exists()).toBe(false);
     expect(wrapper.get('[data-testid="round-input-CS-W1"]').attributes('aria-invalid')).toBe('true');
   });
 

@@ -2,6 +2,7 @@ import { beforeEach, describe, expect, it, vi } from 'vitest';
 import { flushPromises } from '@vue/test-utils';
 import { createPinia, setActivePinia, type Pinia } from 'pinia';
 import * as authApi from '@/api/auth';
+import * as boardApi from '@/api/board';
 import * as farmsApi from '@/api/farms';
 import * as readingsApi from '@/api/readings';
 import * as tanksApi from '@/api/tanks';
@@ -11,7 +12,7 @@ import { formatInZone } from '@/components/tank/tankContents';
 import TankView from '@/views/TankView.vue';
 import { makeFarm, makeUser, sessionOf } from './support/fixtures';
 import { mountWithApp } from './support/mountApp';
-import { makeWaterTank } from './support/tanks';
+import { makeBoard, makeFarmBoard, makeTile, makeWaterTank } from './support/tanks';
 
 vi.mock('@/api/auth', () => ({ fetchSession: vi.fn(), signIn: vi.fn(), signOut: vi.fn(), updateProfile: vi.fn(), setPassword: vi.fn(), requestPasswordReset: vi.fn(), fetchTokenInfo: vi.fn() }));
 vi.mock('@/api/tanks', () => ({
@@ -27,6 +28,7 @@ vi.mock('@/api/tanks', () => ({
 }));
 vi.mock('@/api/readings', () => ({ submitRound: vi.fn(), fetchReadings: vi.fn(), fetchSeries: vi.fn(), correctReading: vi.fn() }));
 vi.mock('@/api/farms', () => ({ fetchFarms: vi.fn(), fetchFarm: vi.fn(), createFarm: vi.fn(), updateFarm: vi.fn() }));
+vi.mock('@/api/board', () => ({ fetchBoard: vi.fn(), fetchBoardHistory: vi.fn() }));
 
 const auth = vi.mocked(authApi);
 const farms = vi.mocked(farmsApi);
@@ -63,6 +65,31 @@ beforeEach(() => {
   farms.fetchFarms.mockResolvedValue([makeFarm(11, 'Creek site', { timeZone: ZONE })]);
   tanks.fetchTank.mockResolvedValue(TANK);
   readings.fetchSeries.mockResolvedValue([]);
+  vi.mocked(boardApi).fetchBoard.mockResolvedValue(makeBoard([]));
+});
+
+describe('TankView latest reading', () => {
+  it('shows usable litres first, their share of the usable capacity and the litres in the tank, with the sight tube', async () => {
+    tanks.fetchForecast.mockResolvedValue(forecastOf());
+    // The tank's latest reading: level 1,200 mm of the 3.2 m wide cylinder, 9,651 L in it, 8,445 L above the
+    // 150 mm outlet (π × 1.6² × 1.05 m³), 1.05 of the 2.15 m between outlet and the 2,300 mm fill line: 49 %.
+    vi.mocked(boardApi).fetchBoard.mockResolvedValue(
+      makeBoard([makeFarmBoard(11, 'Creek site', [makeTile({ tankId: TANK.id, code: TANK.code, grossL: 9_651, usableL: 8_445, levelMm: 1_200, takenAt: new Date().toISOString() })])]),
+    );
+    const { wrapper } = await mountWithApp(TankView, { pinia, path: `/tanks/${TANK.id}` });
+
+    const now = wrapper.get('[data-testid="tank-now"]');
+    expect(now.get('[data-testid="tank-stock-usable"]').text()).toBe('8,445 L');
+    expect(now.get('[data-testid="tank-stock-percent"]').text()).toBe('49 % of 17,291 L usable capacity');
+    expect(now.get('[data-testid="tank-stock-total"]').text()).toBe('9,651 L in the tank');
+    expect(now.get('svg[role="img"]').attributes('aria-label')).toMatch(/^Sight tube: level 1,200 mm above the floor, 1,140 mm on the tube; outlet line at 150 mm; safe fill line at 2,300 mm\. 8,445 L usable/);
+  });
+
+  it('says so when the tank has no reading yet', async () => {
+    tanks.fetchForecast.mockResolvedValue(forecastOf({ usableL: null }));
+    const { wrapper } = await mountWithApp(TankView, { pinia, path: `/tanks/${TANK.id}` });
+    expect(wrapper.get('[data-testid="tank-stock-none"]').text()).toBe('No reading yet.');
+  });
 });
 
 describe('TankView forecast panel', () => {

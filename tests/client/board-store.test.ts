@@ -13,12 +13,12 @@ const api = vi.mocked(boardApi);
 // Ridge block: one water tank. Figures in litres, chosen so the sums are easy to check by hand.
 const creek = () =>
   makeFarmBoard(11, 'Creek site', [
-    makeTile({ tankId: 1, code: 'CS-W1', capacityL: 10_000, grossL: 6_000, usableL: 5_500, percentFull: 60, takenAt: '2026-03-02T08:00:00.000Z' }),
-    makeTile({ tankId: 2, code: 'CS-W2', capacityL: 5_000, grossL: 1_000, usableL: 900, percentFull: 20, takenAt: '2026-03-01T08:00:00.000Z' }),
+    makeTile({ tankId: 1, code: 'CS-W1', capacityL: 10_000, usableCapacityL: 9_000, grossL: 6_000, usableL: 5_500, percentOfUsableCapacity: (5_500 / 9_000) * 100, takenAt: '2026-03-02T08:00:00.000Z' }),
+    makeTile({ tankId: 2, code: 'CS-W2', capacityL: 5_000, usableCapacityL: 4_500, grossL: 1_000, usableL: 900, percentOfUsableCapacity: 20, takenAt: '2026-03-01T08:00:00.000Z' }),
     makeTile({ tankId: 3, code: 'CS-F1', contents: 'fertilizer', capacityL: 1_000 }),
   ]);
 const ridge = () =>
-  makeFarmBoard(12, 'Ridge block', [makeTile({ tankId: 4, code: 'RB-W1', capacityL: 5_000, grossL: 2_500, usableL: 2_400, percentFull: 50, takenAt: '2026-03-02T07:30:00.000Z' })]);
+  makeFarmBoard(12, 'Ridge block', [makeTile({ tankId: 4, code: 'RB-W1', capacityL: 5_000, usableCapacityL: 4_500, grossL: 2_500, usableL: 2_400, percentOfUsableCapacity: (2_400 / 4_500) * 100, takenAt: '2026-03-02T07:30:00.000Z' })]);
 
 const waterOf = (store: ReturnType<typeof useBoardStore>) => store.totals.find((t) => t.contents === 'water')!;
 
@@ -38,7 +38,9 @@ describe('useBoardStore', () => {
       usableL: 5_500 + 900 + 2_400,
       grossL: 6_000 + 1_000 + 2_500,
       capacityL: 20_000,
-      percentFull: (9_500 / 20_000) * 100,
+      // Usable litres of the usable capacity (outlet to fill line) of the tanks read, not gross of the brim-full capacity.
+      usableCapacityL: 18_000,
+      percentOfUsableCapacity: (8_800 / 18_000) * 100,
       tanks: 3,
       tanksWithoutReading: 0,
       oldestReadingAt: '2026-03-01T08:00:00.000Z',
@@ -51,12 +53,12 @@ describe('useBoardStore', () => {
     store.applyBoard(makeBoard([creek(), ridge()]));
 
     store.applyFarm(
-      makeFarmBoard(12, 'Ridge block', [makeTile({ tankId: 4, code: 'RB-W1', capacityL: 5_000, grossL: 4_000, usableL: 3_900, percentFull: 80, takenAt: '2026-03-02T10:00:00.000Z' })]),
+      makeFarmBoard(12, 'Ridge block', [makeTile({ tankId: 4, code: 'RB-W1', capacityL: 5_000, usableCapacityL: 4_500, grossL: 4_000, usableL: 3_900, percentOfUsableCapacity: (3_900 / 4_500) * 100, takenAt: '2026-03-02T10:00:00.000Z' })]),
     );
 
     expect(store.farms).toHaveLength(2);
     expect(store.farms.find((f) => f.farmId === 12)!.tanks[0]!.usableL).toBe(3_900);
-    expect(waterOf(store)).toMatchObject({ usableL: 5_500 + 900 + 3_900, grossL: 6_000 + 1_000 + 4_000, percentFull: (11_000 / 20_000) * 100 });
+    expect(waterOf(store)).toMatchObject({ usableL: 5_500 + 900 + 3_900, grossL: 6_000 + 1_000 + 4_000, percentOfUsableCapacity: (10_300 / 18_000) * 100 });
     // The other farm's tiles are untouched.
     expect(store.farms.find((f) => f.farmId === 11)!.tanks.map((t) => t.code)).toEqual(['CS-W1', 'CS-W2', 'CS-F1']);
   });
@@ -87,7 +89,7 @@ describe('useBoardStore', () => {
     const store = useBoardStore();
 
     const loading = store.load();
-    store.applyFarm(makeFarmBoard(12, 'Ridge block', [makeTile({ tankId: 4, code: 'RB-W1', grossL: 4_000, usableL: 3_900, percentFull: 40, takenAt: '2026-03-02T10:00:00.000Z' })]));
+    store.applyFarm(makeFarmBoard(12, 'Ridge block', [makeTile({ tankId: 4, code: 'RB-W1', grossL: 4_000, usableL: 3_900, takenAt: '2026-03-02T10:00:00.000Z' })]));
     answer(makeBoard([creek(), ridge()]));
     await loading;
 

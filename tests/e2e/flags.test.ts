@@ -50,6 +50,8 @@ describe('flags on the board and the Flags screen', () => {
     await expect.poll(() => coldC1.count(), { timeout: 5000 }).toBe(1);
     expect(reloads).toBe(0);
     expect(await coldC1.innerText()).toContain('Culture too cold');
+    // The tank's own tile says it too, in words beside an icon, from the same live flags.
+    await expect.poll(() => board.getByTestId('board-tile-flags-HR-C1').innerText(), { timeout: 5000 }).toContain('Culture too cold');
     await screenshot(board, 'flags-board-manager');
 
     await board.goto(`${baseUrl}/flags`);

@@ -49,9 +49,11 @@ describe('round and live stock board', () => {
     await phone.getByTestId('round-tank-HR-W1').waitFor();
 
     // Litres appear while typing: 1140 mm + 60 mm datum = 1.2 m in a cylinder 3.2 m across,
-    // π × 1.6² × 1.2 m³ = 9,651 L (right circular cylinder V = π r² h; recalled from memory).
+    // π × 1.6² × 1.2 m³ = 9,651 L in the tank, π × 1.6² × 1.05 m³ = 8,445 L of it above the 150 mm outlet
+    // (right circular cylinder V = π r² h; recalled from memory).
     await phone.getByTestId('round-input-HR-W1').fill('1140');
-    await expect.poll(() => phone.getByTestId('round-litres-HR-W1').innerText()).toBe('9,651 L');
+    await expect.poll(() => phone.getByTestId('round-stock-HR-W1-usable').innerText()).toBe('8,445 L');
+    expect(await phone.getByTestId('round-stock-HR-W1-total').innerText()).toBe('9,651 L in the tank');
     // A reading past the top of the 950 mm drum is refused on the spot, then corrected.
     await phone.getByTestId('round-input-HR-P1').fill('5000');
     await expect.poll(() => phone.getByTestId('round-error-HR-P1').innerText()).toMatch(/above the top of the tank/);
@@ -91,11 +93,52 @@ describe('round and live stock board', () => {
     await screenshot(phone, 'round-worker-phone');
 
     // The tile shows the new reading as usable stock: π × 1.6² × (1.2 − 0.15) m³ above the 150 mm outlet.
-    await expect.poll(() => board.getByTestId('board-tile-HR-W1').innerText()).toMatch(/8,445 L usable[\s\S]*Read just now/);
+    await expect.poll(() => board.getByTestId('board-stock-HR-W1-usable').innerText()).toBe('8,445 L');
+    expect(await board.getByTestId('board-tile-HR-W1').innerText()).toMatch(/usable[\s\S]*Read just now/);
     expect(await historyRefreshed).toBe(true);
     await board.getByTestId('board-history-chart').waitFor();
     await board.waitForTimeout(1200);
     await screenshot(board, 'board-manager');
+  });
+
+  it('shows the same usable litres and the same share of the usable capacity on the round, the board and the tank page', async () => {
+    const desk = await open();
+    await signIn(desk.page, 'manager');
+    const page = desk.page;
+    await page.goto(`${baseUrl}/round`);
+    await pickOption(page, 'round-farm', 'Hollin Ridge');
+    await page.getByTestId('round-input-HR-W1').fill('1700');
+    // 1700 + 60 mm = 1.76 m in the 3.2 m cylinder: π × 1.6² × (1.76 − 0.15) m³ = 12,948 L usable (V = π r² h).
+    await expect.poll(() => page.getByTestId('round-stock-HR-W1-usable').innerText()).toBe('12,948 L');
+    const onRound = { usable: await page.getByTestId('round-stock-HR-W1-usable').innerText(), percent: await page.getByTestId('round-stock-HR-W1-percent').innerText() };
+    expect(onRound.percent).toMatch(/^\d+ % of [\d,]+ L usable capacity$/);
+    await page.evaluate(() => window.scrollTo(0, 0));
+    await screenshot(page, 'round-manager-desktop');
+    await page.getByTestId('round-submit').click();
+    await expect.poll(() => page.getByTestId('round-result-HR-W1').innerText(), { timeout: 5000 }).toBe('Stored');
+
+    await page.goto(`${baseUrl}/`);
+    const tile = page.getByTestId('board-tile-HR-W1');
+    await expect.poll(() => tile.getByTestId('board-stock-HR-W1-usable').innerText(), { timeout: 5000 }).toBe(onRound.usable);
+    expect(await tile.getByTestId('board-stock-HR-W1-percent').innerText()).toBe(onRound.percent);
+    expect(await tile.locator('svg[role="img"]').getAttribute('aria-label')).toContain(`${onRound.usable} usable`);
+
+    await tile.click();
+    await page.waitForURL(/\/tanks\/\d+/);
+    await expect.poll(() => page.getByTestId('tank-stock-usable').innerText(), { timeout: 5000 }).toBe(onRound.usable);
+    expect(await page.getByTestId('tank-stock-percent').innerText()).toBe(onRound.percent);
+    await screenshot(page, 'tank-manager-desktop');
+
+    // The manager's round on a phone, before anything is typed.
+    const phone = await open(PHONE);
+    await signIn(phone.page, 'manager');
+    await phone.page.goto(`${baseUrl}/round`);
+    await pickOption(phone.page, 'round-farm', 'Hollin Ridge');
+    await phone.page.getByTestId('round-input-HR-W1').fill('1500');
+    await phone.page.getByTestId('round-stock-HR-W1-usable').waitFor();
+    expect(await phone.page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(360);
+    await phone.page.evaluate(() => window.scrollTo(0, 0));
+    await screenshot(phone.page, 'round-manager-phone');
   });
 
   it('shows a buyer the board read-only, without a round', async () => {

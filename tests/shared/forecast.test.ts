@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import {
   dailyUse,
   daysOfCover,
+  daysOfCoverSince,
   detectLeak,
   projectedEmptyDate,
   splitMovements,
@@ -167,6 +168,23 @@ describe('daysOfCover', () => {
 
   it('throws a RangeError naming meanLPerDay when it is negative', () => {
     expect(() => daysOfCover(10, -1)).toThrow(/meanLPerDay/);
+  });
+});
+
+describe('daysOfCoverSince', () => {
+  // Hand computation: 900 L at the reading, 45 L/day, read 4 days ago → 900 − 4 × 45 = 720 L left → 16 days.
+  it.each([
+    [900, 45, 4, 16],
+    [900, 45, 20, 0],
+    [900, 45, 25, 0],
+    [900, 0, 4, Infinity],
+    [0, 10, 0, 0],
+  ])('gives %s L at the reading, %s L/day, read %s days ago → %s days left', (usable, use, ago, expected) => {
+    expect(daysOfCoverSince(usable, use, T0 - ago * DAY, T0)).toBe(expected);
+  });
+
+  it('counts no use for a reading stamped after now (a clock ahead)', () => {
+    expect(daysOfCoverSince(900, 45, T0 + DAY, T0)).toBe(20);
   });
 });
 

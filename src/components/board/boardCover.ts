@@ -27,13 +27,21 @@ export function formatCoverDays(daysOfCover: number): string {
 }
 
 /**
+ * True when a reading showed usable litres but the use since then has likely drawn them all: its
+ * litres are no longer what the tank holds, so screens show the estimate (about 0 L) in their place.
+ */
+export function isLikelyRunDown(daysOfCover: number | null, usableAtReadingL: number | null): boolean {
+  return daysOfCover !== null && daysOfCover <= 0 && usableAtReadingL !== null && usableAtReadingL > 0;
+}
+
+/**
  * "≈ 9 days left", "≈ 1.4 days left", "Nothing usable left"; "No use seen" for null. Cover is counted
  * from the latest reading, so a tank read with litres above its outlet whose use has since run past
- * them is "Likely run down by now": the reading still shows those litres beside it.
+ * them is "Likely run down by now": its litres are shown small, with the reading's age.
  */
 export function coverText(daysOfCover: number | null, usableAtReadingL: number | null = null): string {
   if (daysOfCover === null) return 'No use seen';
-  if (daysOfCover <= 0) return usableAtReadingL !== null && usableAtReadingL > 0 ? 'Likely run down by now' : 'Nothing usable left';
+  if (daysOfCover <= 0) return isLikelyRunDown(daysOfCover, usableAtReadingL) ? 'Likely run down by now' : 'Nothing usable left';
   return `≈ ${formatCoverDays(daysOfCover)} left`;
 }
 

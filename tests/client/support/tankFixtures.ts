@@ -1,4 +1,5 @@
 import { calibrationVersion, capacityL, heightMm, type TankGeometry } from '@shared/calibration';
+import { stockFigures, usableCapacityL } from '@shared/readings';
 import type { StockBoard, Tank, TankTile } from '@shared/schemas';
 
 // Invented tanks of the Hollowbrook scenario the other client tests use.
@@ -33,6 +34,7 @@ export function makeTank(id: number, overrides: Partial<Tank> = {}): Tank {
 
 /** A board tile for a tank with a reading of `grossL` litres. */
 export function makeTile(tank: Tank, grossL: number | null): TankTile {
+  const usableCapacity = usableCapacityL(tank.geometry, tank);
   return {
     tankId: tank.id,
     farmId: tank.farmId,
@@ -40,10 +42,16 @@ export function makeTile(tank: Tank, grossL: number | null): TankTile {
     code: tank.code,
     contents: tank.contents,
     capacityL: tank.capacityL,
+    usableCapacityL: usableCapacity,
     lowStockL: tank.lowStockL,
     grossL,
     usableL: grossL,
-    percentFull: grossL === null ? null : (grossL / tank.capacityL) * 100,
+    percentOfUsableCapacity: grossL === null ? null : stockFigures({ grossL, usableL: grossL }, usableCapacity).percentOfUsableCapacity,
+    levelMm: null,
+    heightMm: tank.heightMm,
+    datumOffsetMm: tank.datumOffsetMm,
+    outletHeightMm: tank.outletHeightMm,
+    safeFillLevelMm: tank.safeFillLevelMm,
     temperatureC: null,
     takenAt: grossL === null ? null : '2026-03-02T08:15:00.000Z',
     low: grossL !== null && grossL <= tank.lowStockL,
