@@ -23,6 +23,7 @@ import { inventoryRouter } from './routes/inventory';
 import { flagsRouter } from './routes/flags';
 import { brewsRouter } from './routes/brews';
 import { importsRouter } from './routes/imports';
+import { setupRouter } from './routes/setup';
 import { invalidateBoards } from './services/board';
 
 export function createApp(ctx: AppContext, opts: { staticDir?: string } = {}) {
@@ -51,6 +52,7 @@ export function createApp(ctx: AppContext, opts: { staticDir?: string } = {}) {
   });
   const mounts: [string, Router][] = [
     ['/auth', authRouter(ctx, csrf)],
+    ['/setup', setupRouter(ctx, csrf)],
     ['/farms', farmsRouter(ctx)],
     ['/tanks', tanksRouter(ctx)],
     ['', readingsRouter(ctx)],

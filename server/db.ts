@@ -18,6 +18,7 @@ import * as m0010 from './migrations/0010-import-file-claim';
 import * as m0012 from './migrations/0012-flag-clear-note';
 import * as m0013 from './migrations/0013-email-per-organisation';
 import * as m0014 from './migrations/0014-import-repeats-and-notices';
+import * as m0015 from './migrations/0015-first-owner-setup';
 
 /** Migrations in order; add a new numbered file and list it here. */
 const MIGRATIONS = [
@@ -34,6 +35,7 @@ const MIGRATIONS = [
   { name: '0012-flag-clear-note', module: m0012 },
   { name: '0013-email-per-organisation', module: m0013 },
   { name: '0014-import-repeats-and-notices', module: m0014 },
+  { name: '0015-first-owner-setup', module: m0015 },
 ];
 
 export interface Database {

@@ -5,6 +5,7 @@ import { startServer } from './start';
 const config = loadConfig();
 const server = await startServer(config);
 server.ctx.logger.info(`Brimstock is serving on http://${config.host}:${server.port}`);
+if (server.firstOwnerLink) console.log(`No organisation exists yet: open ${server.firstOwnerLink} to make the first owner (the link works once, until the next start).`);
 console.log(`Brimstock is ready: open ${config.publicUrl}`);
 
 let stopping = false;

@@ -12,6 +12,7 @@ import { createLogger } from './logger';
 import { createMailer } from './mail/mailer';
 import { attachRealtime } from './realtime';
 import { recoverInterruptedImports } from './services/imports';
+import { openFirstOwnerSetup } from './services/first-owner';
 import { attachFlagRules } from './services/flags';
 import { startSessionPurge } from './services/sessions';
 
@@ -20,6 +21,8 @@ export interface RunningServer {
   io: SocketServer;
   http: Server;
   port: number;
+  /** With no organisation in the database, the one-time link that makes the first owner (a new one each start); else null. */
+  firstOwnerLink: string | null;
   close(): Promise<void>;
 }
 
@@ -28,13 +31,14 @@ export function createContext(config: Config): AppContext {
   return { config, logger, db: createDatabase(config), mailer: createMailer(config), events: new EventEmitter() };
 }
 
-/** Migrates, builds the app and listens on config.host:config.port (0 picks a free port). */
+/** Migrates, opens the first-owner set-up of an empty database, builds the app and listens on config.host:config.port (0 picks a free port). */
 export async function startServer(config: Config, opts: { staticDir?: string } = {}): Promise<RunningServer> {
   const ctx = createContext(config);
   await migrate(ctx.db.sequelize);
   // An import cut off by a crash rolled back with its transaction: mark it failed so it can be retried.
   const interrupted = await recoverInterruptedImports(ctx);
   if (interrupted) ctx.logger.warn(`${interrupted} interrupted logger import(s) marked failed`);
+  const firstOwnerLink = await openFirstOwnerSetup(ctx);
   const app = createApp(ctx, opts);
   const http = createServer(app);
   const io = attachRealtime(ctx, http, app.locals.sessionMiddleware);
@@ -51,6 +55,7 @@ export async function startServer(config: Config, opts: { staticDir?: string } =
     io,
     http,
     port,
+    firstOwnerLink,
     async close() {
       stopFlagRules();
       stopSessionPurge();

@@ -11,15 +11,16 @@ import { LoggerImport, LoggerImportRejection, TankImportMapping } from './logger
 import { Supplier, Input, StockMovement, PurchaseOrder, PurchaseOrderLine } from './inventory';
 import { Flag } from './flag';
 import { Brew, BrewTemperature } from './brew';
+import { SetupToken } from './setup-token';
 
-export { Organisation, User, Farm, FarmAccess, Session, AuthToken, Tank, TankCalibration, TankContentsPeriod, Reading, TankLatest, TankDay, LoggerImport, LoggerImportRejection, TankImportMapping, Supplier, Input, StockMovement, PurchaseOrder, PurchaseOrderLine, Flag, Brew, BrewTemperature };
+export { Organisation, User, Farm, FarmAccess, Session, AuthToken, Tank, TankCalibration, TankContentsPeriod, Reading, TankLatest, TankDay, LoggerImport, LoggerImportRejection, TankImportMapping, Supplier, Input, StockMovement, PurchaseOrder, PurchaseOrderLine, Flag, Brew, BrewTemperature, SetupToken };
 
 /** Every model, initialised on one Sequelize instance. */
 export function initModels(sequelize: Sequelize) {
-  for (const m of [Organisation, User, Farm, FarmAccess, Session, AuthToken, Tank, TankCalibration, TankContentsPeriod, Reading, TankLatest, TankDay, LoggerImport, LoggerImportRejection, TankImportMapping, Supplier, Input, StockMovement, PurchaseOrder, PurchaseOrderLine, Flag, Brew, BrewTemperature]) m.initModel(sequelize);
+  for (const m of [Organisation, User, Farm, FarmAccess, Session, AuthToken, Tank, TankCalibration, TankContentsPeriod, Reading, TankLatest, TankDay, LoggerImport, LoggerImportRejection, TankImportMapping, Supplier, Input, StockMovement, PurchaseOrder, PurchaseOrderLine, Flag, Brew, BrewTemperature, SetupToken]) m.initModel(sequelize);
   User.belongsTo(Organisation, { foreignKey: 'organisationId' });
   User.hasMany(FarmAccess, { foreignKey: 'userId', as: 'farmAccess' });
   Farm.belongsTo(Organisation, { foreignKey: 'organisationId' });
-  return { Organisation, User, Farm, FarmAccess, Session, AuthToken, Tank, TankCalibration, TankContentsPeriod, Reading, TankLatest, TankDay, LoggerImport, LoggerImportRejection, TankImportMapping, Supplier, Input, StockMovement, PurchaseOrder, PurchaseOrderLine, Flag, Brew, BrewTemperature };
+  return { Organisation, User, Farm, FarmAccess, Session, AuthToken, Tank, TankCalibration, TankContentsPeriod, Reading, TankLatest, TankDay, LoggerImport, LoggerImportRejection, TankImportMapping, Supplier, Input, StockMovement, PurchaseOrder, PurchaseOrderLine, Flag, Brew, BrewTemperature, SetupToken };
 }
 export type Models = ReturnType<typeof initModels>;

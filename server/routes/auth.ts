@@ -11,7 +11,7 @@ function regenerate(req: Request): Promise<void> {
   return new Promise((resolve, reject) => req.session.regenerate((err) => (err ? reject(err) : resolve())));
 }
 
-async function startSession(ctx: AppContext, req: Request, res: Response, csrf: CsrfTools, userId: number): Promise<SessionState> {
+export async function startSession(ctx: AppContext, req: Request, res: Response, csrf: CsrfTools, userId: number): Promise<SessionState> {
   await regenerate(req);
   req.session.userId = userId;
   req.session.signedInAt = Date.now();

@@ -113,15 +113,19 @@ export async function describeToken(ctx: AppContext, token: string): Promise<Tok
   return { purpose: row.purpose, email: user.email, name: user.name };
 }
 
+/** Throws 422 naming `password` when a new password is easy to guess: the same rule and wording as the password forms (shared/passwords). */
+export function assertStrongPassword(password: string, personalInputs: readonly string[]): void {
+  const strength = passwordStrength(password, personalInputs);
+  if (!strength.acceptable) throw new AppError(422, 'weak_password', `password: ${strength.message}`, 'password');
+}
+
 /** Uses a link: sets the password (and name for invitations); returns the user. A password easy to guess is refused with 422 and leaves the link unused. */
 export async function setPasswordWithToken(ctx: AppContext, token: string, password: string, name?: string): Promise<User> {
   const { AuthToken, User } = ctx.db.models;
   const link = await liveToken(ctx, token);
   const person = await User.findByPk(link.userId);
   if (!person) throw new AppError(404, 'token_invalid', 'This link is unknown, already used or expired; ask for a new one');
-  // The same rule and wording as the set-password form (shared/passwords).
-  const strength = passwordStrength(password, [person.email, person.name, ...(name ? [name] : [])]);
-  if (!strength.acceptable) throw new AppError(422, 'weak_password', `password: ${strength.message}`, 'password');
+  assertStrongPassword(password, [person.email, person.name, ...(name ? [name] : [])]);
   const hash = await hashPassword(password);
   return ctx.db.sequelize.transaction(async (transaction) => {
     const row = await liveToken(ctx, token);

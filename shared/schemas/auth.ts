@@ -28,6 +28,21 @@ export const setPasswordSchema = z.object({
 });
 export type SetPasswordInput = z.infer<typeof setPasswordSchema>;
 
+/** Body of POST /api/setup/first-owner: the set-up link's token, the new organisation and its owner. */
+export const firstOwnerSchema = z.object({
+  token: z.string().min(20).max(200),
+  organisationName: z.string().trim().min(1, 'Required').max(160),
+  name: z.string().trim().min(1, 'Required').max(120),
+  email: emailSchema,
+  password: passwordSchema,
+});
+export type FirstOwnerInput = z.infer<typeof firstOwnerSchema>;
+
+/** GET /api/setup: whether this server still needs its first owner (no organisation exists yet). */
+export interface SetupState {
+  firstOwnerNeeded: boolean;
+}
+
 /** Body of POST /api/auth/password-reset. */
 export const passwordResetSchema = z.object({ email: emailSchema });
 

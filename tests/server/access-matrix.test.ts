@@ -69,6 +69,14 @@ const ROWS: Row[] = [
   { route: 'POST /api/auth/password-reset', url: () => '/api/auth/password-reset', body: () => ({ email: 'nobody@test.example' }), expect: same(202) },
   { route: 'GET /api/auth/tokens/:token', url: () => `/api/auth/tokens/${'x'.repeat(43)}`, expect: same(404) },
   { route: 'POST /api/auth/set-password', url: () => '/api/auth/set-password', body: () => ({ token: 'y'.repeat(43), password: 'long-enough-pw' }), expect: same(404) },
+  { route: 'GET /api/setup', url: () => '/api/setup', expect: same(200) },
+  // Organisations exist here: the first-owner set-up is closed to everyone, whatever the token.
+  {
+    route: 'POST /api/setup/first-owner',
+    url: () => '/api/setup/first-owner',
+    body: () => ({ token: 'z'.repeat(43), organisationName: 'Matrix Co-op', name: 'Matrix Owner', email: `first-${++seq}@test.example`, password: 'kettle heron basalt plum' }),
+    expect: same(409),
+  },
   { route: 'GET /api/farms', url: () => '/api/farms', expect: signedInOnly(200) },
   { route: 'GET /api/farms/:id', url: (w, s) => `/api/farms/${farm(w, s)}`, expect: farmRead(200) },
   { route: 'POST /api/farms', url: () => '/api/farms', body: () => ({ name: `New farm ${++seq}`, timeZone: 'Europe/Dublin' }), expect: managersOnly(201) },

@@ -18,4 +18,13 @@ describe('loadConfig', () => {
     const c = loadConfig({ NODE_ENV: 'production', SESSION_SECRET: 'x'.repeat(32), DEV_OUTBOX: 'true' });
     expect(c.devOutbox).toBe(false);
   });
+
+  it('loads the demo in development and test only, unless DEMO says otherwise', () => {
+    const secret = { SESSION_SECRET: 'x'.repeat(32) };
+    expect(loadConfig({ NODE_ENV: 'production', ...secret }).demo).toBe(false);
+    expect(loadConfig({ NODE_ENV: 'production', ...secret, DEMO: 'true' }).demo).toBe(true);
+    expect(loadConfig({ NODE_ENV: 'development' }).demo).toBe(true);
+    expect(loadConfig({ NODE_ENV: 'test' }).demo).toBe(true);
+    expect(loadConfig({ NODE_ENV: 'development', DEMO: 'false' }).demo).toBe(false);
+  });
 });
