@@ -1,5 +1,6 @@
 // Flag rules: which conditions of a tank need a person, with the sentence that says so.
 import type { FlagKind, TankContents } from '../schemas/index';
+import { CAUTION_SENTENCES } from '../cautions/index';
 import { formatNumberTrimmed } from '../units/index';
 
 /** Cultures go inactive below about this temperature (°C): common practice, no published source. */
@@ -35,16 +36,36 @@ export const FLAG_LABELS: Record<FlagKind, string> = {
   overfill: 'Above the fill line',
 };
 
-/** The caution each kind shows, deferring to local codes and licensed practice (null: none applies). */
-export const FLAG_CAUTIONS: Record<FlagKind, string | null> = {
-  'low-stock': null,
-  'reorder-due': null,
-  'suspected-leak': 'Look for the leak from outside the tank — never climb in (confined space). Where fertilizer or pest solution is drawn into a line that touches a water supply, check the backflow preventer; follow your local plumbing code.',
-  'stale-tank': null,
-  'cold-culture': 'Check the heater. Immersion heaters and pumps belong on a residual-current (RCD/GFCI) protected circuit installed to your local electrical code by a licensed electrician.',
-  'frost-risk': 'Drain or protect exposed lines, pumps and small tanks before the frost; switch pumps off at a residual-current protected supply before draining. Follow local codes.',
-  overfill: 'Stop filling. If the tank holds fertilizer or pest solution, make sure nothing can back-siphon into the water supply (backflow prevention per local plumbing code); wear the protective equipment the product label lists when cleaning up a spill.',
+/** The caution of each kind as short sentences, deferring to local codes and licensed practice (empty: none applies). */
+export const FLAG_CAUTION_SENTENCES: Record<FlagKind, readonly string[]> = {
+  'low-stock': [],
+  'reorder-due': [],
+  'suspected-leak': [
+    'Look for the leak from outside the tank.',
+    'Never climb in.',
+    'A tank is a confined space.',
+    'If the tank feeds fertilizer or pest solution into a line, check its backflow preventer.',
+    'Follow your local plumbing code.',
+  ],
+  'stale-tank': [],
+  'cold-culture': ['Check the heater.', ...CAUTION_SENTENCES.electrical],
+  'frost-risk': [
+    'Drain or cover exposed lines, pumps and small tanks before the frost.',
+    'Switch pumps off at their residual-current protected supply before you drain them.',
+    'Follow your local codes.',
+  ],
+  overfill: [
+    'Stop filling.',
+    'If the tank holds fertilizer or pest solution, nothing may flow back into the water supply.',
+    'Your local plumbing code says which backflow prevention it needs.',
+    'Wear the protective equipment the product label lists to clean up a spill.',
+  ],
 };
+
+/** The caution each kind shows as one paragraph (null: none applies). */
+export const FLAG_CAUTIONS: Record<FlagKind, string | null> = Object.fromEntries(
+  Object.entries(FLAG_CAUTION_SENTENCES).map(([kind, sentences]) => [kind, sentences.length ? sentences.join(' ') : null]),
+) as Record<FlagKind, string | null>;
 
 /** What the rules look at for one tank; litres, mm, °C, epoch ms. */
 export interface TankFlagInput {

@@ -5,7 +5,7 @@ import * as authApi from '@/api/auth';
 import * as farmsApi from '@/api/farms';
 import * as inventoryApi from '@/api/inventory';
 import { ApiError } from '@/api/http';
-import { PEST_CONTROL_CAUTION } from '@/components/inputs/inputsFormat';
+import { cautionText } from '@shared/cautions';
 import InputsView from '@/views/InputsView.vue';
 import { makeFarm, makeUser, sessionOf } from './support/fixtures';
 import { makeInput, makeMovement, makeOrder, makeSupplier } from './support/inventoryFixtures';
@@ -129,10 +129,11 @@ describe('InputsView', () => {
     api.fetchInputs.mockResolvedValue([makeInput(43, { name: 'Neem oil emulsion', category: 'pest-control' })]);
     const { wrapper } = await mountAs('buyer');
 
-    expect(wrapper.get('[data-testid="inputs-caution"]').text()).toContain(PEST_CONTROL_CAUTION);
+    expect(wrapper.get('[data-testid="inputs-caution"]').text()).toContain(cautionText('pest-control-storage'));
     await openInput(wrapper, 43);
     const caution = inDocument('input-caution');
-    expect(caution.text()).toBe(PEST_CONTROL_CAUTION);
+    expect(caution.text()).toBe(cautionText('pest-control-storage'));
+    expect(caution.text()).toMatch(/Follow the label and your local rules\.$/);
     // Under test the Message's transition is stubbed and takes the test id; its root is inside.
     const root = caution.find('[data-pc-name="message"]');
     expect((root.exists() ? root : caution).attributes('data-p')).toBe('warn');

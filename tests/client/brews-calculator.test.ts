@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { flushPromises, mount } from '@vue/test-utils';
 import PrimeVue from 'primevue/config';
 import SelectButton from 'primevue/selectbutton';
+import { cautionText } from '@shared/cautions';
 import { concentrateVolume, describeRatio, dosingRate, injectionRatio, mixFromRatio, topUpPlan } from '@shared/mixing';
 import type { BrewKind, UnitSystem } from '@shared/schemas';
 import { formatVolume, toSI } from '@shared/units';
@@ -111,10 +112,18 @@ describe('BrewsMixingCalculator', () => {
   });
 
   it.each([
-    ['pest-solution', 'caution-pest', 'protective equipment'],
-    ['culture', 'caution-heater', 'residual-current'],
-  ] as const)('shows the caution for a %s brew', (kind, testId, words) => {
+    ['pest-solution', 'caution-pest', 'pest-solution', 'protective equipment'],
+    ['culture', 'caution-heater', 'electrical', 'residual-current'],
+  ] as const)('shows the caution for a %s brew in the shared words', (kind, testId, topic, words) => {
     const wrapper = mountCalculator({ kind });
-    expect(wrapper.find(`[data-testid="${testId}"]`).text()).toContain(words);
+    const caution = wrapper.get(`[data-testid="${testId}"]`).text();
+    expect(caution).toContain(words);
+    expect(caution).toBe(cautionText(topic));
+  });
+
+  it('ends the heater caution with a whole sentence that defers to the local electrical code', () => {
+    const wrapper = mountCalculator({ kind: 'culture' });
+    const sentences = wrapper.get('[data-testid="caution-heater"]').text().split(/(?<=\.)\s+/);
+    expect(sentences.at(-1)).toBe('A licensed electrician should install it to your local electrical code.');
   });
 });

@@ -173,7 +173,7 @@ describe('buyer’s side', () => {
 
     const pest = page.locator('[data-testid^="input-row-"]', { has: page.locator('.input-pest') }).first();
     await pest.locator('[data-testid^="input-open-"]').click();
-    expect(await page.getByTestId('input-caution').innerText()).toContain('Store pest-control products locked, labelled and away from food and water');
+    expect(await page.getByTestId('input-caution').innerText()).toContain('Store pest-control products locked up and labelled.');
     await page.keyboard.press('Escape');
 
     await page.goto(`${baseUrl}/orders`);

@@ -2,10 +2,6 @@
 // InputStatus (worked out in shared/inventory); these functions only round and phrase them.
 import type { InputCategory, InputStatus, Movement } from '@shared/schemas';
 
-/** The caution shown wherever a pest-control product is handled or stocked. */
-export const PEST_CONTROL_CAUTION =
-  'Store pest-control products locked, labelled and away from food and water; wear the protective equipment the product label lists; follow the label and local rules.';
-
 export const CATEGORY_LABELS: Record<InputCategory, string> = {
   fertilizer: 'Fertilizer',
   'pest-control': 'Pest control',
