@@ -34,6 +34,12 @@ export const routes: RouteRecordRaw[] = [
     component: () => import('@/views/SetPasswordView.vue'),
     meta: { title: 'Set your password', public: true, bare: true },
   },
+  {
+    path: '/first-owner',
+    name: 'first-owner',
+    component: () => import('@/views/FirstOwnerView.vue'),
+    meta: { title: 'Set up this server', public: true, bare: true },
+  },
   { path: '/farms', name: 'farms', component: () => import('@/views/FarmsView.vue'), meta: { title: 'Farms' } },
   { path: '/farms/:farmId(\\d+)', name: 'farm', component: () => import('@/views/FarmView.vue'), meta: { title: 'Farm' } },
   { path: '/tanks/:id(\\d+)', name: 'tank', component: () => import('@/views/TankView.vue'), meta: { title: 'Tank' } },

@@ -1,7 +1,8 @@
 import { computed, ref } from 'vue';
 import { defineStore } from 'pinia';
-import type { ProfileInput, Role, SessionState, SetPasswordInput, SignInInput, SessionUser } from '@shared/schemas';
+import type { FirstOwnerInput, ProfileInput, Role, SessionState, SetPasswordInput, SignInInput, SessionUser } from '@shared/schemas';
 import * as authApi from '@/api/auth';
+import * as setupApi from '@/api/setup';
 import { registerCsrfSource } from '@/api/http';
 import { useFarmsStore } from './farms';
 import { usePeopleStore } from './people';
@@ -63,6 +64,14 @@ export const useSessionStore = defineStore('session', () => {
     return state.user;
   }
 
+  /** Makes the first owner of a server with no organisation from its set-up link; they are signed in. */
+  async function createFirstOwner(input: FirstOwnerInput): Promise<SessionUser> {
+    if (!csrfToken.value) await load(true);
+    const state = await setupApi.createFirstOwner(input);
+    adopt(state);
+    return state.user;
+  }
+
   /** Signs out on the server, then fetches the new anonymous session so the next sign-in has a token. */
   async function signOut(): Promise<void> {
     try {
@@ -93,5 +102,5 @@ export const useSessionStore = defineStore('session', () => {
 
   registerCsrfSource({ token: () => csrfToken.value, refresh: () => load(true) });
 
-  return { user, csrfToken, loaded, loadError, isSignedIn, role, hasRole, load, signIn, setPassword, signOut, clear, updateProfile };
+  return { user, csrfToken, loaded, loadError, isSignedIn, role, hasRole, load, signIn, setPassword, createFirstOwner, signOut, clear, updateProfile };
 });

@@ -3,6 +3,7 @@ import { flushPromises } from '@vue/test-utils';
 import { createPinia, setActivePinia, type Pinia } from 'pinia';
 import { fieldErrors, passwordResetSchema, signInSchema } from '@shared/schemas';
 import * as authApi from '@/api/auth';
+import * as setupApi from '@/api/setup';
 import { ApiError } from '@/api/http';
 import SignInView from '@/views/SignInView.vue';
 import { makeUser, sessionOf } from './support/fixtures';
@@ -17,8 +18,10 @@ vi.mock('@/api/auth', () => ({
   requestPasswordReset: vi.fn(),
   fetchTokenInfo: vi.fn(),
 }));
+vi.mock('@/api/setup', () => ({ fetchSetupState: vi.fn(), createFirstOwner: vi.fn() }));
 
 const api = vi.mocked(authApi);
+const setup = vi.mocked(setupApi);
 let pinia: Pinia;
 
 beforeEach(() => {
@@ -27,6 +30,7 @@ beforeEach(() => {
   pinia = createPinia();
   setActivePinia(pinia);
   api.fetchSession.mockResolvedValue(sessionOf(null, 'tok-anon'));
+  setup.fetchSetupState.mockResolvedValue({ firstOwnerNeeded: false });
 });
 
 function expectedErrors(schema: typeof signInSchema | typeof passwordResetSchema, data: unknown): Record<string, string> {
@@ -104,5 +108,23 @@ describe('SignInView', () => {
 
     expect(api.requestPasswordReset).toHaveBeenCalledWith('dana@hollowbrook.test');
     expect(wrapper.get('[data-testid="forgot-sent"]').text()).toContain('If an account exists for dana@hollowbrook.test');
+  });
+
+  it('says where the set-up link is when the server has no organisation yet', async () => {
+    setup.fetchSetupState.mockResolvedValue({ firstOwnerNeeded: true });
+    const { wrapper } = await mountWithApp(SignInView, { pinia, path: '/sign-in' });
+    expect(wrapper.get('[data-testid="signin-first-owner"]').text()).toBe(
+      "This server has no organisation yet: the set-up link that makes its first owner is printed in the server's console.",
+    );
+  });
+
+  it.each([
+    ['the server has an organisation', () => setup.fetchSetupState.mockResolvedValue({ firstOwnerNeeded: false })],
+    ['the server cannot be asked', () => setup.fetchSetupState.mockRejectedValue(new ApiError(0, 'network', 'Cannot reach the server.'))],
+  ])('says nothing of a set-up link when %s', async (_case, arrange) => {
+    arrange();
+    const { wrapper } = await mountWithApp(SignInView, { pinia, path: '/sign-in' });
+    expect(setup.fetchSetupState).toHaveBeenCalled();
+    expect(wrapper.find('[data-testid="signin-first-owner"]').exists()).toBe(false);
   });
 });
