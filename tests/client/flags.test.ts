@@ -1,13 +1,14 @@
 import { beforeEach, describe, expect, it, vi } from 'vitest';
 import { flushPromises } from '@vue/test-utils';
 import { createPinia, setActivePinia, type Pinia } from 'pinia';
-import { FLAG_CAUTIONS } from '@shared/flags';
-import type { Flag } from '@shared/schemas';
+import { FLAG_CAUTIONS, FLAG_LABELS } from '@shared/flags';
+import { FLAG_KINDS, FLAG_STATUSES, type Flag } from '@shared/schemas';
 import * as authApi from '@/api/auth';
 import * as farmsApi from '@/api/farms';
 import * as flagsApi from '@/api/flags';
 import { useFlagsStore } from '@/stores/flags';
 import FlagsView from '@/views/FlagsView.vue';
+import { FLAG_KIND_LOOKS } from '@/components/flags/flagKinds';
 import { makeFarm, makeUser, sessionOf } from './support/fixtures';
 import { mountWithApp } from './support/mountApp';
 
@@ -118,6 +119,24 @@ describe('FlagsView', () => {
     expect(wrapper.get('[data-testid="flags-caution-2"]').text()).toContain(FLAG_CAUTIONS['frost-risk']!);
     expect(wrapper.find('[data-testid="flags-caution-3"]').exists()).toBe(false);
     expect(wrapper.get('[data-testid="flags-subject-1"]').attributes('href')).toBe('/tanks/101');
+  });
+
+  it('gives every kind an icon and words of its own, and every status an icon beside its word', async () => {
+    api.fetchFlags.mockResolvedValue(FLAG_KINDS.map((kind, i) => makeFlag(i + 1, { kind, status: FLAG_STATUSES[i % FLAG_STATUSES.length]! })));
+    const { wrapper } = await mountWithApp(FlagsView, { pinia, path: '/flags' });
+
+    const icons = FLAG_KINDS.map((_kind, i) => wrapper.get(`[data-testid="flags-icon-${i + 1}"]`).classes().join(' '));
+    const meanings = FLAG_KINDS.map((_kind, i) => wrapper.get(`[data-testid="flags-meaning-${i + 1}"]`).text());
+    expect(icons.every((icon) => /\bpi-[a-z-]+/.test(icon))).toBe(true);
+    expect(new Set(icons).size).toBe(FLAG_KINDS.length);
+    expect(new Set(meanings).size).toBe(FLAG_KINDS.length);
+    FLAG_KINDS.forEach((kind, i) => {
+      expect(wrapper.get(`[data-testid="flags-row-${i + 1}"] .flag__kind`).text()).toBe(FLAG_LABELS[kind]);
+      expect(meanings[i]).toBe(FLAG_KIND_LOOKS[kind].meaning);
+    });
+    const statusIcons = FLAG_STATUSES.map((_s, i) => wrapper.get(`[data-testid="flags-row-${i + 1}"] .flag__status i`).classes().join(' '));
+    expect(new Set(statusIcons).size).toBe(FLAG_STATUSES.length);
+    expect(FLAG_STATUSES.map((_s, i) => wrapper.get(`[data-testid="flags-status-${i + 1}"]`).text())).toEqual(['Needs someone', 'Seen', 'Over']);
   });
 
   it('acknowledges a flag with a note and shows it on the row', async () => {
