@@ -81,6 +81,25 @@ export const loch = {
   950: '#162236',
 };
 
+/**
+ * Pest solution's own hue: a warm, greyed umber. Red is kept for "act now" alone, and pesticide
+ * labels' own warning colours are reds and yellows, so the tank's contents take neither.
+ * umber-800 on umber-50 is 9.8:1.
+ */
+export const umber = {
+  50: '#f6f4f1',
+  100: '#ebe6df',
+  200: '#d7cec3',
+  300: '#bcae9e',
+  400: '#9c8c7a',
+  500: '#807060',
+  600: '#67594b',
+  700: '#54483d',
+  800: '#463c33',
+  900: '#3b332c',
+  950: '#211c17',
+};
+
 /** Surfaces and text: slate with a faint green-blue cast. */
 export const shale = {
   0: '#ffffff',
@@ -114,6 +133,7 @@ export const BrimstockPreset = definePreset(Aura, {
     brick,
     moss,
     loch,
+    umber,
     shale,
     // The base's components name stock palettes for their severities; point those names at ours.
     amber: ember,

@@ -1,4 +1,5 @@
 import type { TankContents } from '@shared/schemas';
+import { loch, moss, tide, umber } from '@/theme/preset';
 
 /** What each kind of contents is called on screen. */
 export const CONTENTS_LABELS: Readonly<Record<TankContents, string>> = {
@@ -8,13 +9,27 @@ export const CONTENTS_LABELS: Readonly<Record<TankContents, string>> = {
   culture: 'Culture',
 };
 
+/** How one kind of contents is drawn: a hue for fills and lines, ink on ground for its label, and a pattern. */
+export interface ContentsLook {
+  fill: string;
+  stroke: string;
+  /** Text of its label, on `ground`. */
+  ink: string;
+  ground: string;
+  /** Its line in charts. */
+  line: 'solid' | 'dashed';
+  /** Its label carries diagonal stripes as well as its glyph, so no colour alone tells it apart. */
+  hatched: boolean;
+}
+
 /**
- * One colour per contents for fills, chart lines and chips, from the theme's own scales (see
- * src/theme/preset.ts). Amber is left out on purpose: it means "low" everywhere.
+ * One look per contents for fills, chart lines and labels, from the theme's own scales (see
+ * src/theme/preset.ts). Amber is left out on purpose: it means "low" everywhere. Red too: it means
+ * "act now" only, so pest solution takes a neutral umber of its own, dashed and striped.
  */
-export const CONTENTS_COLOURS: Readonly<Record<TankContents, { fill: string; stroke: string }>> = {
-  water: { fill: '#5a8cc9', stroke: '#305894' },
-  fertilizer: { fill: '#6ea357', stroke: '#3f6c2e' },
-  'pest-solution': { fill: '#d6604d', stroke: '#a23424' },
-  culture: { fill: '#45979d', stroke: '#175158' },
+export const CONTENTS_COLOURS: Readonly<Record<TankContents, ContentsLook>> = {
+  water: { fill: loch[400], stroke: loch[600], ink: loch[700], ground: loch[50], line: 'solid', hatched: false },
+  fertilizer: { fill: moss[400], stroke: moss[600], ink: moss[700], ground: moss[50], line: 'solid', hatched: false },
+  'pest-solution': { fill: umber[400], stroke: umber[700], ink: umber[800], ground: umber[50], line: 'dashed', hatched: true },
+  culture: { fill: tide[400], stroke: tide[700], ink: '#5e3f7a', ground: '#f4eff8', line: 'solid', hatched: false },
 };
