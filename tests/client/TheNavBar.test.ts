@@ -38,18 +38,85 @@ async function mountAs(role: Role) {
   return mountWithApp(TheNavBar, { pinia, path: '/farms' });
 }
 
+/** The nav test ids a person can reach: the bar's own links, then each menu's links once it is opened. */
+async function reachable(wrapper: Awaited<ReturnType<typeof mountAs>>['wrapper']): Promise<string[]> {
+  const ids = wrapper.findAll('.navbar [data-testid^="nav-"]').map((el) => el.attributes('data-testid')!);
+  for (const group of wrapper.findAll('[data-testid^="nav-group-"]')) {
+    await group.trigger('click');
+    await flushPromises();
+    const menu = document.getElementById(group.attributes('aria-controls')!)!;
+    ids.push(...[...menu.querySelectorAll('[data-testid^="nav-"]')].map((el) => el.getAttribute('data-testid')!));
+    await group.trigger('click');
+    await flushPromises();
+  }
+  return ids.filter((id) => id !== 'nav-sign-out' && !id.startsWith('nav-group-') && id !== 'nav-menu');
+}
+
 describe('TheNavBar', () => {
   it.each([
-    ['owner', ['home', 'round', 'imports', 'farms', 'inputs', 'orders', 'suppliers', 'brews', 'flags', 'people', 'outbox', 'profile']],
-    ['manager', ['home', 'round', 'imports', 'farms', 'inputs', 'orders', 'suppliers', 'brews', 'flags', 'outbox', 'profile']],
-    ['worker', ['home', 'round', 'imports', 'farms', 'inputs', 'brews', 'flags', 'profile']],
-    ['buyer', ['home', 'farms', 'inputs', 'orders', 'suppliers', 'flags', 'outbox', 'profile']],
-  ] as const)('shows a %s the links %j', async (role, expected) => {
+    ['owner', ['home', 'round', 'imports', 'brews', 'flags', 'profile', 'inputs', 'orders', 'suppliers', 'farms', 'people', 'outbox']],
+    ['manager', ['home', 'round', 'imports', 'brews', 'flags', 'profile', 'inputs', 'orders', 'suppliers', 'farms', 'outbox']],
+    ['worker', ['home', 'round', 'imports', 'brews', 'flags', 'inputs', 'farms', 'profile']],
+    ['buyer', ['home', 'flags', 'profile', 'inputs', 'orders', 'suppliers', 'farms', 'outbox']],
+  ] as const)('lets a %s reach the screens %j from the bar and its menus', async (role, expected) => {
     const { wrapper } = await mountAs(role);
 
-    const shown = wrapper.findAll('[data-testid^="nav-"]').map((el) => el.attributes('data-testid'));
-    expect(shown.filter((id) => id !== 'nav-sign-out')).toEqual(expected.map((name) => `nav-${name}`));
-    expect(wrapper.find('[data-testid="nav-people"]').exists()).toBe(role === 'owner');
+    const shown = await reachable(wrapper);
+    expect(shown).toEqual(expected.map((name) => `nav-${name}`));
+    // Every screen the role may open is reachable, once.
+    expect([...shown].sort()).toEqual([...new Set(navItemsFor(role).map((item) => `nav-${item.name}`))].sort());
+  });
+
+  it.each([
+    ['owner', ['nav-home', 'nav-round', 'nav-imports', 'nav-brews', 'nav-flags', 'nav-group-buying', 'nav-group-setup']],
+    ['manager', ['nav-home', 'nav-round', 'nav-imports', 'nav-brews', 'nav-flags', 'nav-group-buying', 'nav-group-setup']],
+    ['worker', ['nav-home', 'nav-round', 'nav-imports', 'nav-brews', 'nav-flags', 'nav-inputs', 'nav-farms']],
+    ['buyer', ['nav-home', 'nav-flags', 'nav-group-buying', 'nav-group-setup']],
+  ] as const)('puts at most seven entries on a %s’s bar, the buying and set-up screens in menus', async (role, expected) => {
+    const { wrapper } = await mountAs(role);
+
+    const bar = wrapper.findAll('.navbar__links > [data-testid]').map((el) => el.attributes('data-testid'));
+    expect(bar).toEqual(expected);
+    expect(bar.length).toBeLessThanOrEqual(7);
+  });
+
+  it('names the groups in our words and marks the menu holding the current page', async () => {
+    const { wrapper } = await mountAs('owner');
+
+    expect(wrapper.get('[data-testid="nav-group-buying"]').text()).toBe('Buying');
+    expect(wrapper.get('[data-testid="nav-group-setup"]').text()).toBe('Set-up');
+    // Mounted at /farms: Set-up holds the current page.
+    expect(wrapper.get('[data-testid="nav-group-setup"]').classes()).toContain('navbar__link--current');
+    expect(wrapper.get('[data-testid="nav-group-buying"]').classes()).not.toContain('navbar__link--current');
+    await wrapper.get('[data-testid="nav-group-setup"]').trigger('click');
+    await flushPromises();
+    expect(document.querySelector('[data-testid="nav-farms"]')!.getAttribute('aria-current')).toBe('page');
+  });
+
+  it('opens a menu with a button that says it has one, and follows the link chosen in it', async () => {
+    const { wrapper, router } = await mountAs('buyer');
+    const button = wrapper.get('[data-testid="nav-group-buying"]');
+
+    // Keyboard use of the open menu (arrows, Enter, Escape) is checked in Chromium: tests/e2e/navigation.test.ts.
+    expect(button.element.tagName).toBe('BUTTON');
+    expect(button.attributes('aria-haspopup')).toBe('menu');
+    expect(button.attributes('aria-expanded')).toBe('false');
+    await button.trigger('click');
+    await flushPromises();
+    document.querySelector<HTMLAnchorElement>(`#${button.attributes('aria-controls')} [data-testid="nav-orders"]`)!.click();
+    await flushPromises();
+
+    await vi.waitFor(() => expect(router.currentRoute.value.name).toBe('orders'));
+  });
+
+  it('shows the signed-in name as a link to the profile, kept on one line beside Sign out', async () => {
+    const { wrapper } = await mountAs('manager');
+
+    const name = wrapper.get('[data-testid="nav-profile"]');
+    expect(name.attributes('href')).toBe('/profile');
+    expect(name.text()).toContain('Dana Okafor');
+    expect(name.attributes('title')).toContain('Dana Okafor');
+    expect(wrapper.get('.navbar__user').element.contains(wrapper.get('[data-testid="nav-sign-out"]').element)).toBe(true);
   });
 
   it('marks the current page for assistive technology', async () => {
@@ -80,9 +147,12 @@ describe('TheNavBar', () => {
     await wrapper.get('[data-testid="nav-menu"]').trigger('click');
     await flushPromises();
 
-    // The drawer is teleported to <body>.
+    // The drawer is teleported to <body>; it lists every screen, the menus' under their names.
     expect(document.querySelectorAll('[data-testid="nav-people"]')).toHaveLength(1);
     expect(document.querySelectorAll('[data-testid="nav-sign-out"]')).toHaveLength(1);
+    const drawn = [...document.querySelectorAll('.nav-drawer__list [data-testid^="nav-"]')].map((el) => el.getAttribute('data-testid'));
+    expect([...drawn].sort()).toEqual([...new Set(navItemsFor('owner').map((item) => `nav-${item.name}`))].sort());
+    expect([...document.querySelectorAll('.nav-drawer__heading')].map((el) => el.textContent)).toEqual(['Buying', 'Set-up']);
   });
 });
 

@@ -5,7 +5,7 @@
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { readScenario } from '../../server/services/demo';
-import { type Browser, dialogOpened, launch, quantityOf, screenshot, signInAs } from '../support/browser';
+import { type Browser, dialogOpened, launch, navigateTo, quantityOf, screenshot, signInAs } from '../support/browser';
 import { waitForMail } from '../support/mail';
 
 const { baseUrl, outboxDir } = inject('app');
@@ -51,7 +51,7 @@ describe('buyer’s side', () => {
   it('orders a due input from the suggestions, e-mails the order, books it in and sees the stock rise', async () => {
     const { page } = await open();
     await signIn(page);
-    await page.getByTestId('nav-inputs').click();
+    await navigateTo(page, 'inputs');
     await page.waitForURL(/\/inputs$/);
     await page.getByTestId('inputs-list').waitFor();
 
@@ -90,7 +90,7 @@ describe('buyer’s side', () => {
 
     // Draft orders from the suggestions, then send the one for this input's supplier.
     const supplier = supplierOf(inputName);
-    await page.getByTestId('nav-orders').click();
+    await navigateTo(page, 'orders');
     await page.waitForURL(/\/orders/);
     await page.getByTestId('orders-draft-suggestions').click();
     const draftRow = page.locator('[data-testid^="order-row-"][data-status="draft"]', { hasText: supplier.name }).first();

@@ -88,3 +88,32 @@ export async function dialogOpened(page: Page, testId: string): Promise<void> {
     return !!dialog && !dialog.className.includes('enter') && !!document.activeElement && dialog.contains(document.activeElement);
   }, testId);
 }
+
+/** The nav test ids (`nav-<screen>`) a person can reach on a wide screen: the bar's links, then each menu's, opened in turn. */
+export async function reachableNav(page: Page): Promise<string[]> {
+  await page.locator('.navbar__links').waitFor();
+  const ids = await page.locator('.navbar [data-testid^="nav-"]').evaluateAll((els) => els.map((el) => el.getAttribute('data-testid')!));
+  for (const group of ids.filter((id) => id.startsWith('nav-group-'))) {
+    const button = page.getByTestId(group);
+    await button.click();
+    const menu = page.locator(`#${await button.getAttribute('aria-controls')}`);
+    await menu.waitFor();
+    ids.push(...(await menu.locator('[data-testid^="nav-"]').evaluateAll((els) => els.map((el) => el.getAttribute('data-testid')!))));
+    await page.keyboard.press('Escape');
+    await menu.waitFor({ state: 'detached' });
+  }
+  return ids.filter((id) => id !== 'nav-sign-out' && !id.startsWith('nav-group-'));
+}
+
+/** Follows the wide navigation to screen `name`, opening the menu it sits in when it is not on the bar itself. */
+export async function navigateTo(page: Page, name: string): Promise<void> {
+  const link = page.getByTestId(`nav-${name}`);
+  if (!(await link.isVisible())) {
+    for (const group of await page.locator('[data-testid^="nav-group-"]').all()) {
+      await group.click();
+      if (await link.isVisible()) break;
+      await page.keyboard.press('Escape');
+    }
+  }
+  await link.click();
+}
