@@ -15,6 +15,7 @@ import * as m0007 from './migrations/0007-flags';
 import * as m0008 from './migrations/0008-brews';
 import * as m0009 from './migrations/0009-flag-mail';
 import * as m0010 from './migrations/0010-import-file-claim';
+import * as m0011 from './migrations/0011-reading-key-per-person';
 import * as m0012 from './migrations/0012-flag-clear-note';
 import * as m0013 from './migrations/0013-email-per-organisation';
 import * as m0014 from './migrations/0014-import-repeats-and-notices';
@@ -32,6 +33,7 @@ const MIGRATIONS = [
   { name: '0008-brews', module: m0008 },
   { name: '0009-flag-mail', module: m0009 },
   { name: '0010-import-file-claim', module: m0010 },
+  { name: '0011-reading-key-per-person', module: m0011 },
   { name: '0012-flag-clear-note', module: m0012 },
   { name: '0013-email-per-organisation', module: m0013 },
   { name: '0014-import-repeats-and-notices', module: m0014 },

@@ -374,7 +374,9 @@ export async function toReadingDto(ctx: AppContext, rows: Reading[]): Promise<Re
 
 /**
  * Stores a worker's round: each entry is converted with the same shared function the phone
- * form uses; refused entries are reported with their reason, retried entries as duplicates.
+ * form uses; refused entries are reported with their reason, retried entries as duplicates, and an
+ * entry that meets another reading of its tank at the same instant as a conflict (not stored).
+ * Idempotency keys are the sender's own: another person's key neither answers nor blocks an entry.
  */
 export async function submitRound(ctx: AppContext, actor: SessionUser, input: RoundSubmitInput): Promise<RoundEntryResult[]> {
   const farm = await assertFarmAccess(ctx, actor, input.farmId);
@@ -384,11 +386,13 @@ export async function submitRound(ctx: AppContext, actor: SessionUser, input: Ro
   const { Tank, Reading } = ctx.db.models;
   const tanks = new Map((await Tank.findAll({ where: { farmId: farm.id, organisationId: actor.organisationId } })).map((t) => [t.id, t]));
   const keys = input.entries.map((e) => e.idempotencyKey);
-  const earlier = new Map((await Reading.findAll({ where: { idempotencyKey: keys, organisationId: actor.organisationId } })).map((r) => [r.idempotencyKey!, r]));
+  const earlier = new Map((await Reading.findAll({ where: { idempotencyKey: keys, enteredById: actor.id } })).map((r) => [r.idempotencyKey!, r]));
 
   const results: RoundEntryResult[] = [];
   const rows: NewReading[] = [];
+  const sent: { result: RoundEntryResult; tank: Tank; key: string }[] = [];
   const seenTanks = new Set<number>();
+  const seenKeys = new Set<string>();
   for (const e of input.entries) {
     const tank = tanks.get(e.tankId);
     if (!tank) {
@@ -397,7 +401,12 @@ export async function submitRound(ctx: AppContext, actor: SessionUser, input: Ro
     }
     const prior = earlier.get(e.idempotencyKey);
     if (prior) {
-      results.push({ tankId: e.tankId, status: 'duplicate', reading: (await toReadingDto(ctx, [prior]))[0] });
+      // The sender's key of another tank's reading (perhaps on a farm no longer theirs) gives nothing of that reading back.
+      results.push(
+        prior.tankId === tank.id
+          ? { tankId: e.tankId, status: 'duplicate', reading: (await toReadingDto(ctx, [prior]))[0] }
+          : { tankId: e.tankId, status: 'refused', reason: `${tankLabel(tank)}: this entry's key was sent before with a reading of another tank; start a new round and type the reading again` },
+      );
       continue;
     }
     if (tank.archivedAt) {
@@ -408,32 +417,52 @@ export async function submitRound(ctx: AppContext, actor: SessionUser, input: Ro
       results.push({ tankId: e.tankId, status: 'refused', reason: 'This tank appears twice in the round' });
       continue;
     }
+    if (seenKeys.has(e.idempotencyKey)) {
+      results.push({ tankId: e.tankId, status: 'refused', reason: `${tankLabel(tank)}: this entry's key is used by another entry of the round` });
+      continue;
+    }
     const v = readingToVolumes(tankSetup(tank), { kind: 'sight-tube', readingMm: e.readingMm } satisfies ReadingInput);
     if (!v.ok) {
       results.push({ tankId: e.tankId, status: 'refused', reason: v.reason });
       continue;
     }
     seenTanks.add(tank.id);
+    seenKeys.add(e.idempotencyKey);
     rows.push({
       organisationId: actor.organisationId, farmId: farm.id, tankId: tank.id, takenAt, source: 'round', levelMm: v.levelMm, grossL: v.grossL, usableL: v.usableL,
       temperatureC: e.temperatureC ?? null, calibrationVersion: tank.calibrationVersion, enteredById: actor.id, importId: null, note: e.note, idempotencyKey: e.idempotencyKey,
     });
-    results.push({ tankId: e.tankId, status: 'stored' });
+    const result: RoundEntryResult = { tankId: e.tankId, status: 'stored' };
+    results.push(result);
+    sent.push({ result, tank, key: e.idempotencyKey });
   }
   if (rows.length) {
-    await ctx.db.sequelize.transaction((transaction) => insertReadings(ctx, rows, new Map([[farm.id, farm.timeZone]]), transaction));
-    const stored = await Reading.findAll({ where: { idempotencyKey: rows.map((r) => r.idempotencyKey!) } });
-    const dtos = new Map((await toReadingDto(ctx, stored)).map((d) => [d.tankId, d]));
-    for (const r of results) {
-      if (r.status !== 'stored') continue;
-      r.reading = dtos.get(r.tankId);
-      // Another reading of this tank was stored at the very same instant: nothing new was added.
-      if (!r.reading) r.status = 'duplicate';
+    const mine = await ctx.db.sequelize.transaction(async (transaction) => {
+      await insertReadings(ctx, rows, new Map([[farm.id, farm.timeZone]]), transaction);
+      // What is stored under the sender's keys, this request's rows or a simultaneous retry's. A row
+      // missing here was skipped because another reading of its tank holds the same instant.
+      return Reading.findAll({ where: { enteredById: actor.id, idempotencyKey: rows.map((r) => r.idempotencyKey!) }, transaction });
+    });
+    const dtos = await toReadingDto(ctx, mine);
+    const byKey = new Map(mine.map((r, i) => [r.idempotencyKey!, { row: r, dto: dtos[i] }]));
+    for (const { result, tank, key } of sent) {
+      const found = byKey.get(key);
+      if (found && found.row.tankId === tank.id) {
+        result.reading = found.dto;
+        continue;
+      }
+      // A simultaneous request stored this key with another tank: sending it again would not help.
+      result.status = found ? 'refused' : 'conflict';
+      result.reason = found
+        ? `${tankLabel(tank)}: this entry's key was stored just now with a reading of another tank; start a new round and type the reading again`
+        : `${tankLabel(tank)}: not stored, because another reading of this tank is stored for the very same moment; check the tube and send it again to store it at a new time`;
     }
-    ctx.events.emit('readings', { organisationId: actor.organisationId, farmIds: [farm.id] });
+    if (sent.some((s) => s.result.status === 'stored')) ctx.events.emit('readings', { organisationId: actor.organisationId, farmIds: [farm.id] });
   }
   return results;
 }
+
+const tankLabel = (tank: Tank) => `${tank.name} (${tank.code})`;
 
 /** Readings of a tank, newest first, corrected ones included (they show the audit trail). */
 export async function listReadings(ctx: AppContext, actor: SessionUser, tankId: number, q: { from?: string; to?: string; limit: number }): Promise<ReadingDto[]> {

@@ -28,10 +28,14 @@ export const roundSubmitSchema = z.object({
 });
 export type RoundSubmitInput = z.infer<typeof roundSubmitSchema>;
 
-/** What happened to one line of a round. */
+/**
+ * What happened to one line of a round: stored; stored before under the sender's key (duplicate);
+ * refused with a reason; or not stored because another reading of the tank holds the same instant
+ * (conflict, with a reason naming the tank; sending it again at a new time stores it).
+ */
 export interface RoundEntryResult {
   tankId: number;
-  status: 'stored' | 'duplicate' | 'refused';
+  status: 'stored' | 'duplicate' | 'refused' | 'conflict';
   reason?: string;
   reading?: Reading;
 }

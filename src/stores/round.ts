@@ -97,6 +97,10 @@ export interface RoundSummary {
   stored: number;
   duplicate: number;
   refused: number;
+  /** Not stored: another reading of the tank holds the same moment (sent again, it is stored at a new time). */
+  conflict: number;
+  /** The names of those tanks. */
+  conflictNames: string[];
   /** Typed entries not yet stored (to send, or to fix). */
   waiting: number;
   /** Some entries were sent and every typed entry is now stored. */
@@ -279,7 +283,7 @@ export const useRoundStore = defineStore('round', () => {
       let payload: RoundEntry | null = null;
       if (reading.state === 'invalid') problem = reading.reason;
       else if (temperature.state === 'invalid') problem = temperature.reason;
-      else if (reading.state === 'ok' && entry.idempotencyKey && !entry.result) {
+      else if (reading.state === 'ok' && entry.idempotencyKey && (!entry.result || entry.result.status === 'conflict')) {
         const checked = roundEntrySchema.safeParse({
           tankId: tank.id,
           readingMm: reading.readingMm,
@@ -311,19 +315,23 @@ export const useRoundStore = defineStore('round', () => {
     let stored = 0;
     let duplicate = 0;
     let refused = 0;
+    const conflictNames: string[] = [];
     let waiting = 0;
     for (const row of rows.value) {
       const outcome = row.entry.result?.status;
       if (outcome === 'stored') stored++;
       else if (outcome === 'duplicate') duplicate++;
       else if (outcome === 'refused') refused++;
+      else if (outcome === 'conflict') conflictNames.push(row.tank.name);
       if (!row.locked && row.reading.state !== 'empty') waiting++;
     }
     const parts: string[] = [];
-    if (stored || (!duplicate && !refused)) parts.push(`${stored} stored`);
+    const conflict = conflictNames.length;
+    if (stored || (!duplicate && !refused && !conflict)) parts.push(`${stored} stored`);
     if (duplicate) parts.push(`${duplicate} already stored`);
     if (refused) parts.push(`${refused} refused`);
-    return { stored, duplicate, refused, waiting, complete: stored + duplicate > 0 && waiting === 0, text: parts.join(', ') };
+    if (conflict) parts.push(`${conflict} not stored`);
+    return { stored, duplicate, refused, conflict, conflictNames, waiting, complete: stored + duplicate > 0 && waiting === 0, text: parts.join(', ') };
   });
 
   const hasResults = computed(() => rows.value.some((r) => r.entry.result !== null));
@@ -416,8 +424,8 @@ export const useRoundStore = defineStore('round', () => {
 
   function edited(entry: RoundEntryDraft): void {
     entry.editedAt = new Date().toISOString();
-    // The server's refusal was about what was there before.
-    if (entry.result?.status === 'refused') entry.result = null;
+    // The server's refusal (or clash) was about what was there before.
+    if (entry.result?.status === 'refused' || entry.result?.status === 'conflict') entry.result = null;
     submitProblem.value = null;
     persist();
   }
@@ -489,6 +497,12 @@ export const useRoundStore = defineStore('round', () => {
           grossL: result.reading?.grossL,
           usableL: result.reading?.usableL,
         };
+        // Another reading holds this moment: a new round time (every entry sent has its answer now)
+        // and this entry's answer as its last change, so sending it again stores it at a new time.
+        if (result.status === 'conflict') {
+          d.takenAt = null;
+          entry.editedAt = new Date().toISOString();
+        }
       }
     } catch (e) {
       submitProblem.value = isApiError(e, { status: 0 })

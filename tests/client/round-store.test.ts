@@ -236,6 +236,33 @@ describe('useRoundStore', () => {
     expect(round.summary).toMatchObject({ stored: 2, refused: 0, complete: true, text: '2 stored' });
   });
 
+  it('names a tank whose reading met another reading at the same moment and sends it again at a new time with its key', async () => {
+    vi.useFakeTimers({ toFake: ['Date'] });
+    try {
+      readings.submitRound
+        .mockResolvedValueOnce({ results: [stored(water.id), { tankId: culture.id, status: 'conflict', reason: `${culture.name} (${culture.code}): not stored, because another reading of this tank is stored for the very same moment` }] })
+        .mockResolvedValueOnce({ results: [stored(culture.id, 300)] });
+      vi.setSystemTime(new Date('2026-03-02T09:30:00.000Z'));
+      const round = await freshStore();
+      round.setReading(water.id, '1140');
+      round.setReading(culture.id, '600');
+      vi.setSystemTime(new Date('2026-03-02T09:30:05.000Z'));
+
+      await round.submit();
+      expect(round.rows[1]!.locked).toBe(false);
+      expect(round.rows[1]!.entry.result).toMatchObject({ status: 'conflict', reason: expect.stringContaining(culture.name) });
+      expect(round.summary).toMatchObject({ stored: 1, conflict: 1, complete: false, conflictNames: [culture.name], text: '1 stored, 1 not stored' });
+      expect(round.toSend.map((r) => r.tank.id)).toEqual([culture.id]);
+
+      await round.submit();
+      expect(sent(1).entries).toEqual([expect.objectContaining({ tankId: culture.id, readingMm: 600, idempotencyKey: sent(0).entries[1]!.idempotencyKey })]);
+      expect(sent(1).takenAt).not.toBe(sent(0).takenAt);
+      expect(round.summary).toMatchObject({ stored: 2, conflict: 0, complete: true, text: '2 stored' });
+    } finally {
+      vi.useRealTimers();
+    }
+  });
+
   it('reports entries the server already had as already stored', async () => {
     const earlier = stored(water.id, 9651);
     readings.submitRound.mockResolvedValueOnce({ results: [{ ...earlier, status: 'duplicate' }] });

@@ -73,6 +73,81 @@ describe('POST /api/rounds', () => {
   });
 });
 
+describe('POST /api/rounds idempotency keys', () => {
+  it('stores a worker\'s reading whose key another farm\'s reading uses, and never hands back that reading', async () => {
+    const { org, a, worker } = await setup();
+    const hidden = await makeTank(env, org, org.farmIds[1], { code: 'H' });
+    const manager = await signedIn(env, org.users.manager.email);
+    const shared = key();
+    await call(manager, 'post', '/api/rounds', { farmId: org.farmIds[1], entries: [{ tankId: hidden.id, readingMm: 900, note: 'padlock code 4711', idempotencyKey: shared }] }).expect(201);
+    const res = await call(worker, 'post', '/api/rounds', { farmId: org.farmIds[0], entries: [{ tankId: a.id, readingMm: 300, idempotencyKey: shared }] }).expect(201);
+    expect(res.body.results[0]).toMatchObject({ tankId: a.id, status: 'stored', reading: { tankId: a.id, levelMm: 320 } });
+    expect(JSON.stringify(res.body)).not.toContain('padlock');
+    expect(await env.ctx.db.models.Reading.count({ where: { tankId: a.id } })).toBe(1);
+  });
+
+  it('stores a reading whose key was used in another organisation', async () => {
+    const { org, a, worker } = await setup();
+    const stranger = await makeOrganisation(env);
+    const theirs = await makeTank(env, stranger, stranger.farmIds[0], { code: 'S' });
+    const strangerWorker = await signedIn(env, stranger.users.worker.email);
+    const shared = key();
+    await call(strangerWorker, 'post', '/api/rounds', { farmId: stranger.farmIds[0], entries: [{ tankId: theirs.id, readingMm: 500, idempotencyKey: shared }] }).expect(201);
+    const res = await call(worker, 'post', '/api/rounds', { farmId: org.farmIds[0], entries: [{ tankId: a.id, readingMm: 400, idempotencyKey: shared }] }).expect(201);
+    expect(res.body.results[0]).toMatchObject({ status: 'stored', reading: { tankId: a.id, levelMm: 420 } });
+    expect(await env.ctx.db.models.Reading.count({ where: { tankId: a.id } })).toBe(1);
+  });
+
+  it('refuses a key the same person used for another tank, without that reading', async () => {
+    const { org, a, b, worker } = await setup();
+    const k = key();
+    await call(worker, 'post', '/api/rounds', { farmId: org.farmIds[0], entries: [{ tankId: a.id, readingMm: 600, note: 'first tank', idempotencyKey: k }] }).expect(201);
+    const res = await call(worker, 'post', '/api/rounds', { farmId: org.farmIds[0], entries: [{ tankId: b.id, readingMm: 700, idempotencyKey: k }] }).expect(200);
+    expect(res.body.results[0]).toMatchObject({ tankId: b.id, status: 'refused' });
+    expect(res.body.results[0].reading).toBeUndefined();
+    expect(res.body.results[0].reason).toMatch(/Tank B/);
+    expect(await env.ctx.db.models.Reading.count({ where: { tankId: b.id } })).toBe(0);
+  });
+});
+
+describe('POST /api/rounds readings at the same instant', () => {
+  it('reports a clash with another person\'s reading of the tank at the same instant as a conflict naming the tank, not as stored', async () => {
+    const { org, a, b, worker } = await setup();
+    const manager = await signedIn(env, org.users.manager.email);
+    const takenAt = new Date(Date.now() - 60_000).toISOString();
+    await call(manager, 'post', '/api/rounds', { farmId: org.farmIds[0], takenAt, entries: [{ tankId: a.id, readingMm: 800, idempotencyKey: key() }] }).expect(201);
+    const res = await call(worker, 'post', '/api/rounds', { farmId: org.farmIds[0], takenAt, entries: [{ tankId: a.id, readingMm: 300, idempotencyKey: key() }, { tankId: b.id, readingMm: 500, idempotencyKey: key() }] }).expect(201);
+    expect(res.body.results[0]).toMatchObject({ tankId: a.id, status: 'conflict' });
+    expect(res.body.results[0].reason).toMatch(/Tank A/);
+    expect(res.body.results[0].reading).toBeUndefined();
+    expect(res.body.results[1]).toMatchObject({ tankId: b.id, status: 'stored' });
+    const stored = await env.ctx.db.models.Reading.findAll({ where: { tankId: a.id } });
+    expect(stored.map((r) => [r.levelMm, r.enteredById])).toEqual([[820, org.users.manager.id]]);
+  });
+
+  it('answers the same instant and key sent twice at once as one stored reading, never a conflict', async () => {
+    const { org, a, worker } = await setup();
+    const body = { farmId: org.farmIds[0], takenAt: new Date(Date.now() - 120_000).toISOString(), entries: [{ tankId: a.id, readingMm: 640, idempotencyKey: key() }] };
+    const answers = await Promise.all([call(worker, 'post', '/api/rounds', body), call(worker, 'post', '/api/rounds', body)]);
+    for (const res of answers) {
+      expect([200, 201]).toContain(res.status);
+      expect(['stored', 'duplicate']).toContain(res.body.results[0].status);
+      expect(res.body.results[0].reading).toMatchObject({ tankId: a.id, levelMm: 660 });
+    }
+    expect(await env.ctx.db.models.Reading.count({ where: { tankId: a.id } })).toBe(1);
+  });
+
+  it('stores every reading it answers as stored when rounds without a time arrive together', async () => {
+    const { org, a } = await setup();
+    const people = await Promise.all((['owner', 'manager', 'worker'] as const).map((role) => signedIn(env, org.users[role].email)));
+    const answers = await Promise.all(people.map((p, i) => call(p, 'post', '/api/rounds', { farmId: org.farmIds[0], entries: [{ tankId: a.id, readingMm: 300 + i * 100, idempotencyKey: key() }] })));
+    const stored = await env.ctx.db.models.Reading.findAll({ where: { tankId: a.id } });
+    const said = answers.map((res) => res.body.results[0]);
+    for (const r of said) expect(['stored', 'conflict']).toContain(r.status);
+    expect(said.filter((r) => r.status === 'stored').map((r) => r.reading.id).sort()).toEqual(stored.map((r) => Number(r.id)).sort());
+  });
+});
+
 describe('corrections', () => {
   it('replaces a wrong reading but keeps it in the audit trail', async () => {
     const { org, a, worker } = await setup();
