@@ -1,6 +1,6 @@
 import type { ImportMapping, ImportPolicy } from '@shared/imports';
-import type { LoggerImport, LoggerImportDetail, SavedImportMapping } from '@shared/schemas';
-import { http, isApiError, upload, type UploadOptions } from './http';
+import type { LoggerImport, LoggerImportDetail, SavedImportMapping, TankImportSetup } from '@shared/schemas';
+import { http, upload, type UploadOptions } from './http';
 
 /** Largest file one upload may carry, in bytes: the server's default (UPLOAD_MAX_MB=200, in MiB). */
 export const UPLOAD_MAX_BYTES = 200 * 1024 * 1024;
@@ -44,14 +44,14 @@ export function retryImport(importId: number): Promise<LoggerImportDetail> {
   return http.post<LoggerImportDetail>(`/api/imports/${importId}/retry`);
 }
 
+/** What the import form needs of a tank: the mapping its last successful import saved (null before the first), and who may change its setup. */
+export function fetchImportSetup(tankId: number): Promise<TankImportSetup> {
+  return http.get<TankImportSetup>(`/api/tanks/${tankId}/import-mapping`);
+}
+
 /** The column mapping the tank's last successful import saved, or null when it has none yet. */
 export async function fetchSavedMapping(tankId: number): Promise<SavedImportMapping | null> {
-  try {
-    return await http.get<SavedImportMapping>(`/api/tanks/${tankId}/import-mapping`);
-  } catch (error) {
-    if (isApiError(error, { status: 404, code: 'no_mapping' })) return null;
-    throw error;
-  }
+  return (await fetchImportSetup(tankId)).saved;
 }
 
 /** The address of an import's refused rows as a CSV download (every problem, not just the first hundred). */

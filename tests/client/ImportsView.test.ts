@@ -85,6 +85,8 @@ function result(overrides: Partial<LoggerImportDetail>): LoggerImportDetail {
     rowsTotal: 3,
     rowsNew: 0,
     rowsDuplicate: 0,
+    rowsRepeated: 0,
+    noticeCount: 0,
     rowsRejected: 1,
     error: '1 of 3 rows have problems, so nothing from this file was imported (policy: reject the whole file)',
     duplicateOfId: null,
@@ -93,6 +95,7 @@ function result(overrides: Partial<LoggerImportDetail>): LoggerImportDetail {
     finishedAt: '2026-12-01T10:00:01.000Z',
     rejectedPreview: [{ line: 4, field: 'value', column: 'Abstand', value: 'ERR', reason: 'Value "ERR" is not a number' }],
     rejectedProblems: 1,
+    notices: [],
     ...overrides,
   };
 }
@@ -157,7 +160,7 @@ describe('ImportsView', () => {
       delimiter: 'auto',
       decimalComma: true,
       hasHeader: true,
-      timestamp: { column: 'Datum', format: 'DD.MM.YYYY HH:mm', timeZone: 'Europe/Berlin' },
+      timestamp: { column: 'Datum', format: 'DD.MM.YYYY HH:mm', timeZone: 'Europe/Berlin', time: null },
       value: { column: 'Abstand', kind: 'ultrasonic', unit: 'cm' },
       temperature: { column: 'Temp', unit: 'C' },
     });

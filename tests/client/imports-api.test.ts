@@ -1,7 +1,7 @@
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import { importMappingSchema } from '@shared/imports';
 import { ApiError, onUnauthenticated, registerCsrfSource } from '@/api/http';
-import { fetchSavedMapping, uploadLoggerFiles } from '@/api/imports';
+import { fetchImportSetup, uploadLoggerFiles } from '@/api/imports';
 import { jsonResponse } from './support/fixtures';
 
 /** A stand-in XMLHttpRequest that records what is sent and answers with the next scripted reply. */
@@ -120,17 +120,18 @@ describe('uploadLoggerFiles', () => {
   });
 });
 
-describe('fetchSavedMapping', () => {
+describe('fetchImportSetup', () => {
   afterEach(() => vi.unstubAllGlobals());
 
-  it('answers null when the tank has no saved mapping yet, and passes other errors on', async () => {
+  it('reads a tank without a saved mapping from a 200 answer (no 404 in the console), and passes errors on', async () => {
     const fetchMock = vi.fn<typeof fetch>();
     vi.stubGlobal('fetch', fetchMock);
-    fetchMock.mockResolvedValueOnce(jsonResponse(404, { error: { code: 'no_mapping', message: 'No column mapping is saved for this tank yet' } }));
+    const editors = [{ name: 'Nora Quill', role: 'manager' }];
+    fetchMock.mockResolvedValueOnce(jsonResponse(200, { saved: null, tankEditors: editors }));
     fetchMock.mockResolvedValueOnce(jsonResponse(404, { error: { code: 'not_found', message: 'Tank not found' } }));
 
-    await expect(fetchSavedMapping(21)).resolves.toBeNull();
-    await expect(fetchSavedMapping(22)).rejects.toMatchObject({ code: 'not_found' });
+    await expect(fetchImportSetup(21)).resolves.toEqual({ saved: null, tankEditors: editors });
+    await expect(fetchImportSetup(22)).rejects.toMatchObject({ code: 'not_found' });
     expect(fetchMock.mock.calls[0]![0]).toBe('/api/tanks/21/import-mapping');
   });
 });

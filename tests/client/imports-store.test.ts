@@ -100,6 +100,8 @@ function detail(id: number, overrides: Partial<LoggerImportDetail> = {}): Logger
     rowsTotal: 3,
     rowsNew: 3,
     rowsDuplicate: 0,
+    rowsRepeated: 0,
+    noticeCount: 0,
     rowsRejected: 0,
     error: null,
     duplicateOfId: null,
@@ -108,6 +110,7 @@ function detail(id: number, overrides: Partial<LoggerImportDetail> = {}): Logger
     finishedAt: '2026-11-30T10:00:01.000Z',
     rejectedPreview: [],
     rejectedProblems: 0,
+    notices: [],
     ...overrides,
   };
 }
@@ -223,7 +226,7 @@ describe('useImportsStore: mapping pre-fill', () => {
 
     await store.addFiles([csv('local.csv', 'When,Level (mm)\n11/01/2026 06:00,500\n11/13/2026 06:30,501\n')]);
 
-    expect(store.built.ok && store.built.mapping.timestamp).toEqual({ column: 'When', format: 'MM/DD/YYYY HH:mm', timeZone: 'America/Chicago' });
+    expect(store.built.ok && store.built.mapping.timestamp).toEqual({ column: 'When', format: 'MM/DD/YYYY HH:mm', timeZone: 'America/Chicago', time: null });
   });
 });
 

@@ -10,6 +10,7 @@ import {
   type ColumnRef,
   type Delimiter,
   type ImportMapping,
+  type DateFormat,
   type TimestampFormat,
   type ValueKind,
 } from '@shared/imports';
@@ -23,7 +24,7 @@ export interface MappingDraft {
   decimalComma: boolean;
   hasHeader: boolean;
   timestampColumn: ColumnRef | null;
-  timestampFormat: TimestampFormat | null;
+  timestampFormat: TimestampFormat | DateFormat | null;
   timeZone: string;
   valueColumn: ColumnRef | null;
   valueKind: ValueKind;
