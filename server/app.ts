@@ -10,6 +10,7 @@ import { AppError } from './errors';
 import { DATABASE_RETRY_AFTER_S, isDatabaseUnavailable } from './db-errors';
 import { requestLogSerializers } from './logger';
 import { loadActor } from './middleware/access';
+import { refuseUnstorableText, rememberNotUtf8 } from './middleware/json-text';
 import { csrfProtection, csrfTools, noStore, securityHeaders, sessions } from './middleware/security';
 import { authRouter } from './routes/auth';
 import { devRouter } from './routes/dev';
@@ -38,7 +39,9 @@ export function createApp(ctx: AppContext, opts: { staticDir?: string } = {}) {
   const csrf = csrfTools(ctx.config);
   api.use(noStore());
   api.use('/health', healthRouter(ctx));
-  api.use(express.json({ limit: '1mb' }));
+  api.use(express.json({ limit: '1mb', verify: rememberNotUtf8 }));
+  // Text that could not be stored as sent (NUL, bytes that are not UTF-8) is refused here for every route.
+  api.use(refuseUnstorableText());
   const sessionMiddleware = sessions(ctx);
   app.locals.sessionMiddleware = sessionMiddleware;
   api.use(sessionMiddleware);
