@@ -1,5 +1,5 @@
 import type { ImportMapping, ImportPolicy } from '@shared/imports';
-import type { LoggerImport, LoggerImportDetail, SavedImportMapping, TankImportSetup } from '@shared/schemas';
+import type { ImportDryRun, LoggerImport, LoggerImportDetail, SavedImportMapping, TankImportSetup } from '@shared/schemas';
 import { http, upload, type UploadOptions } from './http';
 
 /** Largest file one upload may carry, in bytes: the server's default (UPLOAD_MAX_MB=200, in MiB). */
@@ -26,6 +26,20 @@ export async function uploadLoggerFiles(input: ImportUpload, options: UploadOpti
   form.append('mapping', JSON.stringify(input.mapping));
   for (const file of input.files) form.append('files', file, file.name);
   const body = await upload<{ imports: LoggerImportDetail[] }>('/api/imports', form, options);
+  return body.imports;
+}
+
+/**
+ * Sends logger files for a dry run: the server reads and checks every row as the import would and
+ * stores nothing; the answer is what the import would do with each file. `signal` cancels it.
+ */
+export async function dryRunLoggerFiles(input: ImportUpload, signal?: AbortSignal): Promise<ImportDryRun[]> {
+  const form = new FormData();
+  form.append('tankId', String(input.tankId));
+  form.append('policy', input.policy);
+  form.append('mapping', JSON.stringify(input.mapping));
+  for (const file of input.files) form.append('files', file, file.name);
+  const body = await upload<{ imports: ImportDryRun[] }>('/api/imports?dryRun=true', form, { signal });
   return body.imports;
 }
 

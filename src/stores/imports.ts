@@ -2,38 +2,20 @@ import { computed, ref, shallowRef } from 'vue';
 import { defineStore } from 'pinia';
 import type { ImportMapping, ImportPolicy } from '@shared/imports';
 import type { TankSetup } from '@shared/readings';
-import type { ImportProgress, LoggerImport, LoggerImportDetail, SavedImportMapping, Tank } from '@shared/schemas';
+import type { SavedImportMapping, Tank, TankEditor } from '@shared/schemas';
 import * as importsApi from '@/api/imports';
 import * as tanksApi from '@/api/tanks';
 import { errorMessage } from '@/api/http';
-import { onServerEvent, whenConnected } from '@/api/socket';
 import { buildMapping, columnOptions, draftFromMapping, emptyDraft, guessDraft, rebaseColumn, unitsFor, type MappingDraft } from '@/components/imports/importMapping';
-import { checkPreview, previewRecords, readFileHead, resolveDelimiter, uncheckedRows, type FileHead, type PreviewCheck } from '@/components/imports/importPreview';
-import { formatBytes } from '@/components/imports/importLabels';
+import { checkPreview, previewRecords, resolveDelimiter, uncheckedRows, type PreviewCheck } from '@/components/imports/importPreview';
 import { useFarmsStore, type LoadStatus } from './farms';
+import { useDryRun } from './imports-dry-run';
+import { useChosenFiles } from './imports-files';
+import { useImportUpload } from './imports-upload';
 import { useSessionStore } from './session';
 
-/** A file picked for upload, with its first bytes once read and why it cannot go, if it cannot. */
-export interface ChosenFile {
-  key: string;
-  file: File;
-  head: FileHead | null;
-  problem: string | null;
-}
-
-/** idle: nothing sent; uploading: the body is going out; importing: the server is reading the files; done: results are in. */
-export type UploadPhase = 'idle' | 'uploading' | 'importing' | 'done';
-
-/** What the uploader sees of one file of the upload under way. */
-export interface FileProgress {
-  name: string;
-  sizeBytes: number;
-  progress: ImportProgress | null;
-}
-
-/** How long an upload waits for the live connection before it goes anyway (progress is then only missing, not needed). */
-const SOCKET_WAIT_MS = 1500;
-const HISTORY_LIMIT = 25;
+export type { ChosenFile } from './imports-files';
+export type { FileProgress, UploadPhase } from './imports-upload';
 
 /** The tank's setup as the shared reading functions take it. */
 export function tankSetupOf(tank: Tank): TankSetup {
@@ -47,10 +29,12 @@ export function tankSetupOf(tank: Tank): TankSetup {
   };
 }
 
-const fileKey = (f: File) => `${f.name}|${f.size}|${f.lastModified}`;
 const storageKey = (userId: number) => `brimstock.imports.target.${userId}`;
 
-/** Logger file imports: the farm and tank, the chosen files, the column mapping, the upload and its results, the history. */
+/**
+ * Logger file imports: the farm and tank, the column mapping, and (from the pieces beside this file)
+ * the chosen files, the server's dry run of the previewed one, the upload with its results and the history.
+ */
 export const useImportsStore = defineStore('imports', () => {
   const farms = useFarmsStore();
   const session = useSessionStore();
@@ -66,6 +50,9 @@ export const useImportsStore = defineStore('imports', () => {
   const tank = computed(() => tanks.value.find((t) => t.id === tankId.value) ?? null);
   const setup = computed(() => (tank.value ? tankSetupOf(tank.value) : null));
   const farmTimeZone = computed(() => farm.value?.timeZone ?? 'UTC');
+  /** Owners and managers may change a tank's setup (PATCH /api/tanks/:id); others are told whom to ask. */
+  const canEditTank = computed(() => session.hasRole('owner', 'manager'));
+  const tankEditors = shallowRef<TankEditor[]>([]);
 
   // ---- saved mapping and the form's draft ----
   const saved = ref<SavedImportMapping | null>(null);
@@ -78,11 +65,9 @@ export const useImportsStore = defineStore('imports', () => {
   const draftEdited = ref(false);
   const policy = ref<ImportPolicy>('reject-file');
 
-  // ---- files and preview ----
-  const files = shallowRef<ChosenFile[]>([]);
-  const filesError = ref<string | null>(null);
-  const previewKey = ref<string | null>(null);
-  const previewFile = computed(() => files.value.find((f) => f.key === previewKey.value && f.head && !f.problem) ?? files.value.find((f) => f.head && !f.problem) ?? null);
+  // ---- files and the browser's look at the first lines ----
+  const chosen = useChosenFiles(() => guessFromPreview());
+  const { files, previewFile, readyFiles } = chosen;
   const delimiter = computed(() => (previewFile.value?.head ? resolveDelimiter(previewFile.value.head.text, draft.value) : null));
   const records = computed(() => (previewFile.value?.head && delimiter.value ? previewRecords(previewFile.value.head, delimiter.value) : []));
   const firstRecord = computed(() => records.value.find((r) => r.some((c) => c.trim() !== '')) ?? null);
@@ -93,33 +78,32 @@ export const useImportsStore = defineStore('imports', () => {
   const check = computed<PreviewCheck | null>(() => {
     if (!records.value.length) return null;
     if (!built.value.ok || !setup.value) return { rows: uncheckedRows(records.value), fatal: null, good: 0, bad: 0 };
-    return checkPreview(records.value, built.value.mapping, setup.value, Date.now());
+    return checkPreview(records.value, built.value.mapping, setup.value, Date.now(), farmTimeZone.value);
   });
-  const readyFiles = computed(() => files.value.filter((f) => f.head && !f.problem));
-  const filesBlocked = computed(() => !!filesError.value || files.value.some((f) => f.problem || !f.head));
 
-  // ---- upload ----
-  const phase = ref<UploadPhase>('idle');
-  const sentBytes = ref(0);
-  const totalBytes = ref(0);
-  const sending = shallowRef<{ name: string; sizeBytes: number }[]>([]);
-  const progress = ref<ImportProgress[]>([]);
-  const results = shallowRef<LoggerImportDetail[]>([]);
-  const retryingId = ref<number | null>(null);
-  const busy = computed(() => phase.value === 'uploading' || phase.value === 'importing');
-  const fileProgress = computed<FileProgress[]>(() =>
-    // The server imports the files one after the other in the order sent, so the n-th import it reports is the n-th file.
-    sending.value.map((f, i) => ({ name: f.name, sizeBytes: f.sizeBytes, progress: progress.value[i] ?? null })),
-  );
-
-  // ---- history ----
-  const history = shallowRef<LoggerImport[]>([]);
-  const historyStatus = ref<LoadStatus>('idle');
-  const historyError = ref<string | null>(null);
+  // ---- the server's dry run of the previewed file, and the upload ----
+  const dryRun = useDryRun({
+    tankId,
+    file: computed(() => previewFile.value?.file ?? null),
+    mapping: computed(() => (built.value.ok ? built.value.mapping : null)),
+    policy,
+  });
+  const sending = useImportUpload({
+    farmId,
+    tankId,
+    policy,
+    readyFiles,
+    clearFiles: chosen.clearFiles,
+    onSaved: (id: number, mapping: ImportMapping) => {
+      // The server saves the mapping of a successful import for the tank; show that it is the saved one now.
+      saved.value = { tankId: id, mapping, policy: policy.value, savedAt: new Date().toISOString(), savedBy: session.user?.name ?? '' };
+      draftOrigin.value = 'saved';
+      draftEdited.value = false;
+    },
+  });
 
   let tanksToken = 0;
   let savedToken = 0;
-  let historyToken = 0;
 
   function remember(): void {
     if (ownerId === null || typeof localStorage === 'undefined') return;
@@ -142,9 +126,8 @@ export const useImportsStore = defineStore('imports', () => {
 
   /** A fresh draft for the chosen farm, guessed from the previewed file when there is one. */
   function freshDraft(): void {
-    const base = emptyDraft(farmTimeZone.value);
     draftEdited.value = false;
-    draft.value = base;
+    draft.value = emptyDraft(farmTimeZone.value);
     draftOrigin.value = 'none';
     guessFromPreview();
   }
@@ -170,7 +153,7 @@ export const useImportsStore = defineStore('imports', () => {
     if (wanted.farmId === undefined && wanted.tankId === undefined && farmId.value !== null && active.some((f) => f.id === farmId.value)) {
       if (tanksStatus.value === 'error') await loadTanks();
       // Someone may have imported meanwhile (another device, a colleague).
-      void loadHistory();
+      void sending.loadHistory();
       return;
     }
     const last = wanted.farmId !== undefined || wanted.tankId !== undefined ? wanted : remembered();
@@ -216,25 +199,23 @@ export const useImportsStore = defineStore('imports', () => {
       saved.value = null;
       savedStatus.value = 'idle';
       if (draftOrigin.value !== 'saved' && !draftEdited.value) draft.value = { ...draft.value, timeZone: farmTimeZone.value };
-    }
-    if (changed) {
-      history.value = [];
-      historyStatus.value = 'idle';
+      sending.clearHistory();
     }
     remember();
     await loadTanks(preferTankId);
     // With a tank picked its history is loading already; otherwise show the farm's.
-    if (tankId.value === null) void loadHistory();
+    if (tankId.value === null) void sending.loadHistory();
   }
 
   /** Chooses the tank: its saved mapping fills the form, and its history is shown. */
   async function selectTank(id: number): Promise<void> {
     tankId.value = id;
     remember();
-    void loadHistory();
+    void sending.loadHistory();
     await loadSaved();
   }
 
+  /** The tank's saved mapping (a tank without one answers null, not an error) and who may change its setup. */
   async function loadSaved(): Promise<void> {
     const id = tankId.value;
     if (id === null) return;
@@ -242,13 +223,14 @@ export const useImportsStore = defineStore('imports', () => {
     savedStatus.value = 'loading';
     savedError.value = null;
     try {
-      const found = await importsApi.fetchSavedMapping(id);
+      const found = await importsApi.fetchImportSetup(id);
       if (token !== savedToken) return;
-      saved.value = found;
+      saved.value = found.saved;
+      tankEditors.value = found.tankEditors;
       savedStatus.value = 'ready';
-      if (found) {
-        draft.value = draftFromMapping(found.mapping, farmTimeZone.value);
-        policy.value = found.policy;
+      if (found.saved) {
+        draft.value = draftFromMapping(found.saved.mapping, farmTimeZone.value);
+        policy.value = found.saved.policy;
         draftOrigin.value = 'saved';
         draftEdited.value = false;
       } else if (draftOrigin.value === 'saved') {
@@ -261,15 +243,25 @@ export const useImportsStore = defineStore('imports', () => {
     }
   }
 
+  /**
+   * Keeps the ultrasonic sensor's height (mm above the tank floor) on the chosen tank, for an owner or
+   * manager importing distances. Throws the ApiError of a refused change (its field is sensorHeightMm).
+   */
+  async function saveSensorHeight(sensorHeightMm: number): Promise<Tank> {
+    const id = tankId.value;
+    if (id === null) throw new Error('Choose the tank the logger belongs to.');
+    const updated = await tanksApi.updateTank(id, { sensorHeightMm });
+    tanks.value = tanks.value.map((t) => (t.id === updated.id ? updated : t));
+    return updated;
+  }
+
   /** Changes part of the form; keeps the unit fitting the value kind and the columns pointing at the same place. */
   function updateDraft(patch: Partial<MappingDraft>): void {
     const next = { ...draft.value, ...patch };
     if (patch.valueKind && !unitsFor(next.valueKind).includes(next.valueUnit)) next.valueUnit = next.valueKind === 'pressure' ? 'kPa' : 'mm';
     if (patch.hasHeader !== undefined && patch.hasHeader !== draft.value.hasHeader) {
       const names = firstRecord.value ? firstRecord.value.map((c) => c.trim()) : null;
-      next.timestampColumn = rebaseColumn(draft.value.timestampColumn, names, next.hasHeader, width.value);
-      next.valueColumn = rebaseColumn(draft.value.valueColumn, names, next.hasHeader, width.value);
-      next.temperatureColumn = rebaseColumn(draft.value.temperatureColumn, names, next.hasHeader, width.value);
+      for (const key of ['timestampColumn', 'timeColumn', 'valueColumn', 'temperatureColumn'] as const) next[key] = rebaseColumn(draft.value[key], names, next.hasHeader, width.value);
     }
     draft.value = next;
     draftEdited.value = true;
@@ -285,182 +277,22 @@ export const useImportsStore = defineStore('imports', () => {
     } else freshDraft();
   }
 
-  function checkCount(list: ChosenFile[]): void {
-    filesError.value =
-      list.length > importsApi.MAX_FILES_PER_UPLOAD ? `At most ${importsApi.MAX_FILES_PER_UPLOAD} files go in one upload; remove ${list.length - importsApi.MAX_FILES_PER_UPLOAD}.` : null;
-  }
-
-  function replaceFile(key: string, change: Partial<ChosenFile>): void {
-    files.value = files.value.map((f) => (f.key === key ? { ...f, ...change } : f));
-  }
-
-  /** Adds files to the upload; each is checked for size and content, and the first good one previewed. */
+  /** Adds files to the upload; a new batch after results goes back to the form (the old results stay until it is sent). */
   async function addFiles(picked: readonly File[]): Promise<void> {
-    if (phase.value === 'done') {
-      // A new batch after results: the old results stay until this one is sent.
-      phase.value = 'idle';
-    }
-    const known = new Set(files.value.map((f) => f.key));
-    const added: ChosenFile[] = [];
-    for (const file of picked) {
-      const key = fileKey(file);
-      if (known.has(key)) continue;
-      known.add(key);
-      let problem: string | null = null;
-      if (file.size === 0) problem = 'The file is empty.';
-      else if (file.size > importsApi.UPLOAD_MAX_BYTES) problem = `It is ${formatBytes(file.size)}; the limit is ${formatBytes(importsApi.UPLOAD_MAX_BYTES)} per file. Split it into smaller files.`;
-      added.push({ key, file, head: null, problem });
-    }
-    const list = [...files.value, ...added];
-    files.value = list;
-    checkCount(list);
-    await Promise.all(
-      added
-        .filter((f) => !f.problem)
-        .map(async (f) => {
-          try {
-            const head = await readFileHead(f.file);
-            replaceFile(f.key, { head, problem: head.problem });
-          } catch (e) {
-            replaceFile(f.key, { problem: `It could not be read here: ${errorMessage(e)}` });
-          }
-        }),
-    );
-    guessFromPreview();
-  }
-
-  function removeFile(key: string): void {
-    files.value = files.value.filter((f) => f.key !== key);
-    checkCount(files.value);
-    if (previewKey.value === key) previewKey.value = null;
-  }
-
-  function clearFiles(): void {
-    files.value = [];
-    filesError.value = null;
-    previewKey.value = null;
-  }
-
-  function showPreviewOf(key: string): void {
-    previewKey.value = key;
-  }
-
-  /** A pushed progress report: kept when it belongs to the upload or retry under way. */
-  function onProgress(payload: ImportProgress): void {
-    const known = progress.value.findIndex((p) => p.importId === payload.importId);
-    if (known >= 0) {
-      progress.value = progress.value.map((p, i) => (i === known ? payload : p));
-      return;
-    }
-    if (busy.value || retryingId.value === payload.importId) progress.value = [...progress.value, payload];
-  }
-
-  /** Listens for the server's progress reports; returns the function that stops listening. */
-  function listen(): () => void {
-    return onServerEvent('import:progress', onProgress);
-  }
-
-  /**
-   * Sends the chosen files with `mapping` and the policy; returns each file's outcome. Throws the
-   * ApiError of a refused request (nothing imported then), leaving the files chosen.
-   */
-  async function upload(mapping: ImportMapping): Promise<LoggerImportDetail[]> {
-    const id = tankId.value;
-    if (id === null) throw new Error('Choose the tank the logger belongs to.');
-    const list = readyFiles.value.map((f) => f.file);
-    if (!list.length) throw new Error('Choose at least one CSV file.');
-    phase.value = 'uploading';
-    sentBytes.value = 0;
-    totalBytes.value = list.reduce((sum, f) => sum + f.size, 0);
-    sending.value = list.map((f) => ({ name: f.name, sizeBytes: f.size }));
-    progress.value = [];
-    await whenConnected(SOCKET_WAIT_MS);
-    try {
-      const out = await importsApi.uploadLoggerFiles(
-        { tankId: id, policy: policy.value, mapping, files: list },
-        {
-          onProgress: (sent, total) => {
-            sentBytes.value = sent;
-            totalBytes.value = total;
-          },
-          onSent: () => {
-            phase.value = 'importing';
-          },
-        },
-      );
-      results.value = out;
-      phase.value = 'done';
-      clearFiles();
-      void loadHistory();
-      // The server saves the mapping of a successful import for the tank; show that it is the saved one now.
-      if (out.some((r) => r.status === 'imported') && tankId.value === id) {
-        saved.value = { tankId: id, mapping, policy: policy.value, savedAt: new Date().toISOString(), savedBy: session.user?.name ?? '' };
-        draftOrigin.value = 'saved';
-        draftEdited.value = false;
-      }
-      return out;
-    } catch (e) {
-      phase.value = 'idle';
-      throw e;
-    }
-  }
-
-  /** Runs a failed import again; its new outcome replaces the old one in the results and the history. */
-  async function retry(importId: number): Promise<LoggerImportDetail> {
-    retryingId.value = importId;
-    progress.value = progress.value.filter((p) => p.importId !== importId);
-    try {
-      const detail = await importsApi.retryImport(importId);
-      results.value = results.value.some((r) => r.id === importId) ? results.value.map((r) => (r.id === importId ? detail : r)) : [detail, ...results.value];
-      history.value = history.value.map((h) => (h.id === importId ? detail : h));
-      return detail;
-    } finally {
-      retryingId.value = null;
-    }
-  }
-
-  /** The first refused rows of an import from the history, to show beside it. */
-  async function openResult(importId: number): Promise<LoggerImportDetail> {
-    const detail = await importsApi.fetchImport(importId);
-    results.value = [detail, ...results.value.filter((r) => r.id !== importId)];
-    return detail;
-  }
-
-  /** Hides one result card, or all of them. */
-  function dismissResults(importId?: number): void {
-    results.value = importId === undefined ? [] : results.value.filter((r) => r.id !== importId);
-    if (!results.value.length && !busy.value) phase.value = 'idle';
-  }
-
-  /** The chosen tank's recent imports, or the farm's when no tank is chosen. */
-  async function loadHistory(): Promise<void> {
-    const query = tankId.value !== null ? { tankId: tankId.value } : farmId.value !== null ? { farmId: farmId.value } : null;
-    if (!query) return;
-    const token = ++historyToken;
-    historyStatus.value = 'loading';
-    historyError.value = null;
-    try {
-      const list = await importsApi.fetchImports({ ...query, limit: HISTORY_LIMIT });
-      if (token !== historyToken) return;
-      history.value = list;
-      historyStatus.value = 'ready';
-    } catch (e) {
-      if (token !== historyToken) return;
-      historyError.value = errorMessage(e);
-      historyStatus.value = 'error';
-    }
+    if (sending.phase.value === 'done') sending.phase.value = 'idle';
+    await chosen.addFiles(picked);
   }
 
   function reset(): void {
     tanksToken++;
     savedToken++;
-    historyToken++;
     ownerId = null;
     farmId.value = null;
     tankId.value = null;
     tanks.value = [];
     tanksStatus.value = 'idle';
     tanksError.value = null;
+    tankEditors.value = [];
     saved.value = null;
     savedStatus.value = 'idle';
     savedError.value = null;
@@ -468,17 +300,9 @@ export const useImportsStore = defineStore('imports', () => {
     draftOrigin.value = 'none';
     draftEdited.value = false;
     policy.value = 'reject-file';
-    clearFiles();
-    phase.value = 'idle';
-    sentBytes.value = 0;
-    totalBytes.value = 0;
-    sending.value = [];
-    progress.value = [];
-    results.value = [];
-    retryingId.value = null;
-    history.value = [];
-    historyStatus.value = 'idle';
-    historyError.value = null;
+    chosen.clearFiles();
+    sending.reset();
+    dryRun.reset();
   }
 
   return {
@@ -491,6 +315,8 @@ export const useImportsStore = defineStore('imports', () => {
     tank,
     setup,
     farmTimeZone,
+    canEditTank,
+    tankEditors,
     saved,
     savedStatus,
     savedError,
@@ -499,7 +325,7 @@ export const useImportsStore = defineStore('imports', () => {
     draftEdited,
     policy,
     files,
-    filesError,
+    filesError: chosen.filesError,
     previewFile,
     delimiter,
     records,
@@ -508,36 +334,42 @@ export const useImportsStore = defineStore('imports', () => {
     built,
     check,
     readyFiles,
-    filesBlocked,
-    phase,
-    sentBytes,
-    totalBytes,
-    progress,
-    fileProgress,
-    results,
-    retryingId,
-    busy,
-    history,
-    historyStatus,
-    historyError,
+    filesBlocked: chosen.filesBlocked,
+    dryRunStatus: dryRun.status,
+    dryRunResult: dryRun.result,
+    dryRunError: dryRun.error,
+    dryRunFile: dryRun.resultFile,
+    refreshDryRun: dryRun.refresh,
+    phase: sending.phase,
+    sentBytes: sending.sentBytes,
+    totalBytes: sending.totalBytes,
+    progress: sending.progress,
+    fileProgress: sending.fileProgress,
+    results: sending.results,
+    retryingId: sending.retryingId,
+    busy: sending.busy,
+    history: sending.history,
+    historyStatus: sending.historyStatus,
+    historyError: sending.historyError,
     start,
     loadTanks,
     selectFarm,
     selectTank,
     loadSaved,
+    saveSensorHeight,
     updateDraft,
     resetDraft,
     addFiles,
-    removeFile,
-    clearFiles,
-    showPreviewOf,
-    onProgress,
-    listen,
-    upload,
-    retry,
-    openResult,
-    dismissResults,
-    loadHistory,
+    removeFile: chosen.removeFile,
+    clearFiles: chosen.clearFiles,
+    showPreviewOf: chosen.showPreviewOf,
+    onProgress: sending.onProgress,
+    listen: sending.listen,
+    upload: sending.upload,
+    retry: sending.retry,
+    openResult: sending.openResult,
+    dismissResults: sending.dismissResults,
+    loadHistory: sending.loadHistory,
     reset,
   };
 });

@@ -2,7 +2,7 @@ import { beforeEach, describe, expect, it, vi } from 'vitest';
 import { flushPromises, type VueWrapper } from '@vue/test-utils';
 import { createPinia, setActivePinia, type Pinia } from 'pinia';
 import { importMappingSchema } from '@shared/imports';
-import type { LoggerImportDetail, Tank } from '@shared/schemas';
+import type { LoggerImportDetail, Tank, TankEditor } from '@shared/schemas';
 import * as authApi from '@/api/auth';
 import * as farmsApi from '@/api/farms';
 import * as importsApi from '@/api/imports';
@@ -22,7 +22,7 @@ vi.mock('@/api/auth', () => ({
   fetchTokenInfo: vi.fn(),
 }));
 vi.mock('@/api/farms', () => ({ fetchFarms: vi.fn(), fetchFarm: vi.fn(), createFarm: vi.fn(), updateFarm: vi.fn() }));
-vi.mock('@/api/tanks', () => ({ fetchTanks: vi.fn(), fetchTank: vi.fn() }));
+vi.mock('@/api/tanks', () => ({ fetchTanks: vi.fn(), fetchTank: vi.fn(), updateTank: vi.fn() }));
 vi.mock('@/api/imports', () => ({
   UPLOAD_MAX_BYTES: 200 * 1024 * 1024,
   MAX_FILES_PER_UPLOAD: 20,
@@ -30,7 +30,8 @@ vi.mock('@/api/imports', () => ({
   fetchImports: vi.fn(),
   fetchImport: vi.fn(),
   retryImport: vi.fn(),
-  fetchSavedMapping: vi.fn(),
+  fetchImportSetup: vi.fn(),
+  dryRunLoggerFiles: vi.fn(async () => []),
   rejectedRowsCsvUrl: (id: number) => `/api/imports/${id}/rejected.csv`,
 }));
 vi.mock('@/api/socket', () => ({ onServerEvent: vi.fn(() => () => undefined), whenConnected: vi.fn(async () => true) }));
@@ -39,6 +40,11 @@ const auth = vi.mocked(authApi);
 const farms = vi.mocked(farmsApi);
 const tanks = vi.mocked(tanksApi);
 const api = vi.mocked(importsApi);
+// The invented co-operative's owner and manager, who may change a tank's setup.
+const EDITORS: TankEditor[] = [
+  { name: 'Imre Vasquez', role: 'owner' },
+  { name: 'Dana Okafor', role: 'manager' },
+];
 let pinia: Pinia;
 
 // An invented 1,200 mm tall cylinder with an ultrasonic sensor 1,400 mm above its floor.
@@ -132,7 +138,7 @@ beforeEach(() => {
   farms.fetchFarms.mockResolvedValue([makeFarm(11, 'Creek site', { timeZone: 'Europe/Berlin' })]);
   tanks.fetchTanks.mockResolvedValue([tank]);
   api.fetchImports.mockResolvedValue([]);
-  api.fetchSavedMapping.mockResolvedValue(null);
+  api.fetchImportSetup.mockResolvedValue({ saved: null, tankEditors: EDITORS });
 });
 
 describe('ImportsView', () => {
@@ -214,5 +220,68 @@ describe('ImportsView', () => {
     const { wrapper } = await mountWithApp(ImportsView, { pinia, path: '/imports' });
 
     expect(wrapper.get('#imports-file-limit').text()).toBe('CSV text files, up to 200 MB each, at most 20 at once.');
+  });
+});
+
+describe('ImportsView: distances and the sensor height', () => {
+  const noSensor: Tank = { ...tank, sensorHeightMm: null };
+  const distanceFile = () => new File(['Time,Distance (mm)\n2026-11-01T06:00:00Z,412\n2026-11-01T06:30:00Z,415\n'], 'creek.csv', { type: 'text/csv' });
+
+  it('tells a worker exactly whom to ask for the sensor height, by name', async () => {
+    tanks.fetchTanks.mockResolvedValue([noSensor]);
+    const { wrapper } = await mountWithApp(ImportsView, { pinia, path: '/imports' });
+    await chooseFile(wrapper, distanceFile());
+
+    expect(wrapper.get('[data-testid="map-value-kind"]').text()).toContain('Distance down from the sensor');
+    const ask = wrapper.get('[data-testid="imports-sensor-height-ask"]').text();
+    expect(ask).toContain('ask Imre Vasquez (owner) or Dana Okafor (manager)');
+    expect(wrapper.find('[data-testid="imports-sensor-height-input"]').exists()).toBe(false);
+  });
+
+  it('lets a manager keep the sensor height on the tank from the import form', async () => {
+    auth.fetchSession.mockResolvedValue(sessionOf(makeUser('manager')));
+    tanks.fetchTanks.mockResolvedValue([noSensor]);
+    tanks.updateTank.mockResolvedValue({ ...noSensor, sensorHeightMm: 1450 });
+    const { wrapper } = await mountWithApp(ImportsView, { pinia, path: '/imports' });
+    await chooseFile(wrapper, distanceFile());
+
+    const input = wrapper.get('[data-testid="imports-sensor-height-input"] input');
+    await input.setValue('1450');
+    await input.trigger('blur');
+    await wrapper.get('[data-testid="imports-sensor-height-save"]').trigger('click');
+    await flushPromises();
+
+    expect(tanks.updateTank).toHaveBeenCalledWith(21, { sensorHeightMm: 1450 });
+    expect(wrapper.find('[data-testid="imports-sensor-height"]').exists()).toBe(false);
+    expect(wrapper.get('[data-testid="imports-tank-facts"]').text()).toContain('ultrasonic sensor 1,450 mm above the floor');
+  });
+});
+
+describe('ImportsView: the server dry run', () => {
+  it('sends the previewed file for a dry run and shows the server counts and the line messages past the first lines', async () => {
+    api.dryRunLoggerFiles.mockResolvedValue([
+      {
+        originalName: 'creek.csv', sizeBytes: 120, status: 'imported', delimiter: ';', rowsTotal: 1440, rowsNew: 1436, rowsDuplicate: 1, rowsRepeated: 1, rowsRejected: 2, noticeCount: 0, error: null, duplicateOfId: null,
+        rejectedPreview: [
+          { line: 4, field: 'value', column: 'Abstand', value: 'ERR', reason: 'Value "ERR" is not a number' },
+          { line: 977, field: 'value', column: 'Abstand', value: '-3,0', reason: '-3,0 cm: the distance is negative' },
+        ],
+        rejectedProblems: 2,
+        notices: [],
+      },
+    ]);
+    const { wrapper } = await mountWithApp(ImportsView, { pinia, path: '/imports' });
+    await chooseFile(wrapper, new File([FILE], 'creek.csv', { type: 'text/csv' }));
+    await pick(wrapper, 'map-value-column', 'Abstand (column 2)');
+    await pick(wrapper, 'map-value-kind', 'Distance down from the sensor (ultrasonic)');
+
+    await vi.waitFor(() => expect(wrapper.get('[data-testid="imports-dry-run"]').attributes('data-state')).toBe('ready'), { timeout: 2000 });
+    const [input, signal] = api.dryRunLoggerFiles.mock.calls.at(-1)!;
+    expect(input).toMatchObject({ tankId: 21, policy: 'reject-file', files: [expect.objectContaining({ name: 'creek.csv' })] });
+    expect(signal).toBeInstanceOf(AbortSignal);
+    expect(wrapper.get('[data-testid="imports-dry-run-new"]').text()).toBe('1,436');
+    expect(wrapper.get('[data-testid="imports-dry-run-duplicate"]').text()).toBe('1');
+    expect(wrapper.get('[data-testid="imports-dry-run-repeated"]').text()).toBe('1');
+    expect(wrapper.get('[data-testid="imports-dry-run-lines-line-977"]').text()).toContain('the distance is negative');
   });
 });

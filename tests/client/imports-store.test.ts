@@ -3,7 +3,7 @@ import { join } from 'node:path';
 import { beforeEach, describe, expect, it, vi } from 'vitest';
 import { createPinia, setActivePinia } from 'pinia';
 import { importMappingSchema } from '@shared/imports';
-import type { ImportProgress, LoggerImportDetail, SavedImportMapping, Tank } from '@shared/schemas';
+import type { ImportProgress, LoggerImportDetail, SavedImportMapping, Tank, TankEditor } from '@shared/schemas';
 import * as authApi from '@/api/auth';
 import * as farmsApi from '@/api/farms';
 import * as importsApi from '@/api/imports';
@@ -23,7 +23,7 @@ vi.mock('@/api/auth', () => ({
   fetchTokenInfo: vi.fn(),
 }));
 vi.mock('@/api/farms', () => ({ fetchFarms: vi.fn(), fetchFarm: vi.fn(), createFarm: vi.fn(), updateFarm: vi.fn() }));
-vi.mock('@/api/tanks', () => ({ fetchTanks: vi.fn(), fetchTank: vi.fn() }));
+vi.mock('@/api/tanks', () => ({ fetchTanks: vi.fn(), fetchTank: vi.fn(), updateTank: vi.fn() }));
 vi.mock('@/api/imports', () => ({
   UPLOAD_MAX_BYTES: 64 * 1024,
   MAX_FILES_PER_UPLOAD: 3,
@@ -31,7 +31,8 @@ vi.mock('@/api/imports', () => ({
   fetchImports: vi.fn(),
   fetchImport: vi.fn(),
   retryImport: vi.fn(),
-  fetchSavedMapping: vi.fn(),
+  fetchImportSetup: vi.fn(),
+  dryRunLoggerFiles: vi.fn(async () => []),
   rejectedRowsCsvUrl: (id: number) => `/api/imports/${id}/rejected.csv`,
 }));
 vi.mock('@/api/socket', () => ({ onServerEvent: vi.fn(() => () => undefined), whenConnected: vi.fn(async () => true) }));
@@ -40,6 +41,11 @@ const auth = vi.mocked(authApi);
 const farms = vi.mocked(farmsApi);
 const tanks = vi.mocked(tanksApi);
 const api = vi.mocked(importsApi);
+// The invented co-operative's owner and manager, who may change a tank's setup.
+const EDITORS: TankEditor[] = [
+  { name: 'Imre Vasquez', role: 'owner' },
+  { name: 'Dana Okafor', role: 'manager' },
+];
 
 // Invented tanks of the test co-operative: a 1,000 mm cube tote and a horizontal header tank.
 function makeTank(id: number, farmId: number, overrides: Partial<Tank> = {}): Tank {
@@ -120,7 +126,7 @@ const LEVEL_FILE = 'Time,Level (mm),Temp (C)\n2026-11-01T06:00:00Z,612.5,14.0\n2
 const sample = (name: string) => new File([readFileSync(join(import.meta.dirname, '../../samples/loggers', name))], name, { type: 'text/csv' });
 
 async function storeWithTank(saved: SavedImportMapping | null) {
-  api.fetchSavedMapping.mockResolvedValue(saved);
+  api.fetchImportSetup.mockResolvedValue({ saved, tankEditors: EDITORS });
   const session = useSessionStore();
   await session.load();
   const store = useImportsStore();
@@ -144,7 +150,7 @@ describe('useImportsStore: choosing farm and tank', () => {
 
     expect(store.farmId).toBe(11);
     expect(store.tankId).toBe(21);
-    expect(api.fetchSavedMapping).toHaveBeenCalledWith(21);
+    expect(api.fetchImportSetup).toHaveBeenCalledWith(21);
     expect(api.fetchImports).toHaveBeenLastCalledWith({ tankId: 21, limit: 25 });
   });
 

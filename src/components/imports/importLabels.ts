@@ -1,5 +1,5 @@
 // Words the Logger files screen shows for the mapping choices and import outcomes.
-import type { Delimiter, ImportPolicy, TimestampFormat, ValueKind } from '@shared/imports';
+import { IMPORT_POLICY_TITLES, type DateFormat, type Delimiter, type ImportPolicy, type TimeFormat, type TimestampFormat, type ValueKind } from '@shared/imports';
 import type { ImportStatus } from '@shared/schemas';
 import { UNIT_SYMBOLS, type LengthUnit, type PressureUnit } from '@shared/units';
 
@@ -21,6 +21,21 @@ export const TIMESTAMP_FORMAT_LABELS: Record<TimestampFormat, string> = {
   'MM/DD/YYYY HH:mm': 'Month/day/year — 03/01/2026 06:00',
   'DD.MM.YYYY HH:mm:ss': 'Day.month.year, seconds — 01.03.2026 06:00:00',
   'DD.MM.YYYY HH:mm': 'Day.month.year — 01.03.2026 06:00',
+};
+
+/** Date-only layouts, for a file with the time of day in a column of its own. */
+export const DATE_FORMAT_LABELS: Record<DateFormat, string> = {
+  'YYYY-MM-DD': 'Year-month-day, time in its own column — 2026-03-01',
+  'DD/MM/YYYY': 'Day/month/year, time in its own column — 01/03/2026',
+  'MM/DD/YYYY': 'Month/day/year, time in its own column — 03/01/2026',
+  'DD.MM.YYYY': 'Day.month.year, time in its own column — 01.03.2026',
+};
+
+export const TIME_FORMAT_LABELS: Record<TimeFormat, string> = {
+  'HH:mm:ss': '24-hour, seconds — 06:00:00',
+  'HH:mm': '24-hour — 06:00',
+  'hh:mm:ss AM/PM': '12-hour with AM/PM, seconds — 06:00:00 AM',
+  'hh:mm AM/PM': '12-hour with AM/PM — 6:00 AM',
 };
 
 export const VALUE_KIND_LABELS: Record<ValueKind, string> = {
@@ -47,13 +62,14 @@ export function valueUnitLabel(unit: LengthUnit | PressureUnit): string {
   return `${UNIT_SYMBOLS[unit]} — ${UNIT_NAMES[unit]}`;
 }
 
+/** Each policy's one title (shared with the server's messages) and what it does. */
 export const POLICY_LABELS: Record<ImportPolicy, { title: string; detail: string }> = {
   'reject-file': {
-    title: 'Refuse the whole file if any row is bad',
+    title: IMPORT_POLICY_TITLES['reject-file'],
     detail: 'Nothing from the file is stored until every row reads cleanly. Every bad line is listed so the file can be fixed and sent again.',
   },
   'valid-rows': {
-    title: 'Import the good rows, list the bad ones',
+    title: IMPORT_POLICY_TITLES['valid-rows'],
     detail: 'Good rows are stored now; the bad ones are listed with the reason and can be downloaded as a CSV.',
   },
 };

@@ -1,16 +1,22 @@
 // The column-mapping form's own state (a draft that may be half filled in), the mapping it builds
 // for the server, and a first guess from a file's first rows so a new logger needs few clicks.
 import {
+  DATE_FORMATS,
+  dateCellParser,
   importMappingSchema,
+  isDateFormat,
   mappingProblem,
   needsTimeZone,
   parseDecimal,
+  timeCellParser,
   timestampParser,
+  TIME_FORMATS,
   TIMESTAMP_FORMATS,
   type ColumnRef,
+  type DateFormat,
   type Delimiter,
   type ImportMapping,
-  type DateFormat,
+  type TimeFormat,
   type TimestampFormat,
   type ValueKind,
 } from '@shared/imports';
@@ -23,8 +29,12 @@ export interface MappingDraft {
   delimiter: Delimiter;
   decimalComma: boolean;
   hasHeader: boolean;
+  /** The column with the date and time, or with the date only when the layout is a date layout. */
   timestampColumn: ColumnRef | null;
   timestampFormat: TimestampFormat | DateFormat | null;
+  /** The time-of-day column of a file that writes the date and the time in two columns (used with a date layout only). */
+  timeColumn: ColumnRef | null;
+  timeFormat: TimeFormat;
   timeZone: string;
   valueColumn: ColumnRef | null;
   valueKind: ValueKind;
@@ -42,6 +52,8 @@ export const MAPPING_FIELDS = [
   'timestamp.column',
   'timestamp.format',
   'timestamp.timeZone',
+  'timestamp.time.column',
+  'timestamp.time.format',
   'value.column',
   'value.kind',
   'value.unit',
@@ -58,6 +70,8 @@ export function emptyDraft(timeZone: string): MappingDraft {
     hasHeader: true,
     timestampColumn: null,
     timestampFormat: null,
+    timeColumn: null,
+    timeFormat: 'HH:mm:ss',
     timeZone,
     valueColumn: null,
     valueKind: 'level',
@@ -75,6 +89,8 @@ export function draftFromMapping(mapping: ImportMapping, fallbackTimeZone: strin
     hasHeader: mapping.hasHeader,
     timestampColumn: mapping.timestamp.column,
     timestampFormat: mapping.timestamp.format,
+    timeColumn: mapping.timestamp.time?.column ?? null,
+    timeFormat: mapping.timestamp.time?.format ?? 'HH:mm:ss',
     timeZone: mapping.timestamp.timeZone || fallbackTimeZone,
     valueColumn: mapping.value.column,
     valueKind: mapping.value.kind,
@@ -99,6 +115,7 @@ export function mappingInputOf(d: MappingDraft) {
       column: d.timestampColumn,
       format: d.timestampFormat,
       ...(d.timestampFormat && needsTimeZone(d.timestampFormat) ? { timeZone: d.timeZone } : {}),
+      time: d.timestampFormat && isDateFormat(d.timestampFormat) ? { column: d.timeColumn, format: d.timeFormat } : null,
     },
     value: { column: d.valueColumn, kind: d.valueKind, unit: d.valueUnit },
     temperature: d.temperatureColumn === null ? null : { column: d.temperatureColumn, unit: d.temperatureUnit },
@@ -115,12 +132,15 @@ export function buildMapping(d: MappingDraft, tank: TankSetup | null): BuiltMapp
   const errors: Partial<Record<MappingField, string>> = {};
   if (d.timestampColumn === null) errors['timestamp.column'] = 'Choose the column that holds the date and time';
   if (d.timestampFormat === null) errors['timestamp.format'] = 'Choose how the date and time are written';
+  if (d.timestampFormat !== null && isDateFormat(d.timestampFormat) && d.timeColumn === null) errors['timestamp.time.column'] = 'Choose the column that holds the time of day';
   if (d.valueColumn === null) errors['value.column'] = 'Choose the column that holds the level, distance or pressure';
   if (Object.keys(errors).length) return { ok: false, errors };
   const parsed = importMappingSchema.safeParse(mappingInputOf(d));
   if (!parsed.success) {
     for (const [path, message] of Object.entries(fieldErrors(parsed.error))) {
-      const field = MAPPING_FIELDS.find((f) => path === f || path.startsWith(`${f}.`)) ?? (path.split('.')[0] === 'temperature' ? 'temperature.column' : undefined);
+      const field =
+        MAPPING_FIELDS.find((f) => path === f || path.startsWith(`${f}.`)) ??
+        (path === 'timestamp.time' ? 'timestamp.time.column' : path.split('.')[0] === 'temperature' ? 'temperature.column' : undefined);
       if (field) errors[field] ??= message;
       else errors['value.column'] ??= `${path}: ${message}`;
     }
@@ -181,9 +201,10 @@ export function rebaseColumn(ref: ColumnRef | null, header: readonly string[] | 
 // Header words loggers commonly print (common practice, no published source).
 const TEMPERATURE_RE = /temp|°\s*[cf]\b|deg\s*[cf]\b|celsius|fahrenheit/i;
 const FAHRENHEIT_RE = /°\s*f\b|deg\s*f\b|fahrenheit|\(f\)|_f\b/i;
-const DISTANCE_RE = /dist|ultra|sonic|air\s*gap|ullage|range/i;
+// Distance down from a sensor: named as such, or as the space above the liquid, or "to the water".
+const DISTANCE_RE = /dist|ultra|sonic|sonar|radar|air\s*gap|ullage|range|freeboard|head\s*space|empty|\bto\s+(the\s+)?(water|liquid|surface)|from\s+(the\s+)?(top|sensor)|abstand|afstand/i;
 const PRESSURE_RE = /press|kpa|\bbar\b|psi|h2o|head/i;
-const VALUE_RE = /level|depth|height|dist|press|head|range|stage/i;
+const VALUE_RE = /level|depth|height|dist|press|head|range|stage|ullage|gap|abstand|afstand|sonic|sonar|radar/i;
 const UTC_RE = /\butc\b|_utc\b|\bgmt\b|\(z\)/i;
 
 function unitFromHeader(name: string, kind: ValueKind): LengthUnit | PressureUnit {
@@ -235,10 +256,30 @@ export function guessDraft(records: readonly (readonly string[])[], base: Mappin
     }
   }
 
+  // A date column and a time column beside it: used when that pair reads more rows than any one column.
+  const dateParsers = DATE_FORMATS.map((format) => ({ format, parse: dateCellParser(format) }));
+  const timeParsers = TIME_FORMATS.map((format) => ({ format, parse: timeCellParser(format) }));
+  const bestOf = <F extends string>(list: { format: F; parse: (t: string) => { ok: boolean } }[], skip: number | null) => {
+    let top: { column: number; format: F; hits: number } | null = null;
+    for (let i = 0; i < width; i++) {
+      if (i === skip) continue;
+      const cells = cellsOf(i);
+      for (const { format, parse } of list) {
+        const hits = cells.filter((c) => parse(c).ok).length;
+        if (hits > 0 && (!top || hits > top.hits)) top = { column: i, format, hits };
+      }
+    }
+    return top;
+  };
+  const dateCol = bestOf(dateParsers, null);
+  const timeCol = dateCol ? bestOf(timeParsers, dateCol.column) : null;
+  const split = dateCol && timeCol && Math.min(dateCol.hits, timeCol.hits) > (best?.hits ?? 0) ? { date: dateCol, time: timeCol } : null;
+  const stampColumns = new Set(split ? [split.date.column, split.time.column] : best ? [best.column] : []);
+
   const decimalComma = base.delimiter !== ',' && data.some((r) => r.some((c) => /^[+-]?\d+,\d+$/.test(c.trim())));
   const numeric: number[] = [];
   for (let i = 0; i < width; i++) {
-    if (i === best?.column) continue;
+    if (stampColumns.has(i)) continue;
     const cells = cellsOf(i);
     // Most, not all: a logger writes ERR or similar now and then, and that column is still the reading.
     const ok = cells.filter((c) => parseDecimal(c, decimalComma).ok).length;
@@ -247,20 +288,23 @@ export function guessDraft(records: readonly (readonly string[])[], base: Mappin
   const nameOf = (i: number) => header?.[i] ?? '';
   const temperature = numeric.find((i) => TEMPERATURE_RE.test(nameOf(i))) ?? null;
   const candidates = numeric.filter((i) => i !== temperature);
-  const value = candidates.find((i) => VALUE_RE.test(nameOf(i))) ?? candidates[0] ?? null;
+  const value = candidates.find((i) => DISTANCE_RE.test(nameOf(i)) || VALUE_RE.test(nameOf(i))) ?? candidates[0] ?? null;
   const valueName = value === null ? '' : nameOf(value);
   const valueKind: ValueKind = DISTANCE_RE.test(valueName) ? 'ultrasonic' : PRESSURE_RE.test(valueName) ? 'pressure' : 'level';
 
   // A local layout in a column headed "UTC" is UTC wall-clock time, whatever the farm's zone.
-  const timeZone = best && UTC_RE.test(nameOf(best.column)) ? 'UTC' : base.timeZone;
+  const stampNames = [...stampColumns].map(nameOf);
+  const timeZone = stampNames.some((n) => UTC_RE.test(n)) ? 'UTC' : base.timeZone;
 
   return {
     ...base,
     timeZone,
     decimalComma,
     hasHeader,
-    timestampColumn: best ? options[best.column].value : null,
-    timestampFormat: best?.format ?? null,
+    timestampColumn: split ? options[split.date.column].value : best ? options[best.column].value : null,
+    timestampFormat: split ? split.date.format : (best?.format ?? null),
+    timeColumn: split ? options[split.time.column].value : null,
+    timeFormat: split ? split.time.format : base.timeFormat,
     valueColumn: value === null ? null : options[value].value,
     valueKind,
     valueUnit: unitFromHeader(valueName, valueKind),

@@ -11,6 +11,7 @@ import {
   stripBom,
   type FieldDelimiter,
   type ImportMapping,
+  type ImportNotice,
   type ImportProblem,
   type ImportedReading,
 } from '@shared/imports';
@@ -42,7 +43,7 @@ export async function readFileHead(file: Blob): Promise<FileHead> {
 export function resolveDelimiter(text: string, mapping: Pick<ImportMapping, 'delimiter' | 'decimalComma'>): FieldDelimiter {
   const candidates = delimiterCandidates(mapping);
   if (candidates.length === 1) return candidates[0];
-  // The same guess the server makes from the same first bytes (server/services/imports.ts chooseDelimiter).
+  // The same guess the server makes from the same first bytes (server/services/import-csv.ts chooseLayout).
   const guess = Papa.parse<string[]>(text, { delimitersToGuess: candidates, preview: 50, skipEmptyLines: 'greedy' }).meta.delimiter as FieldDelimiter;
   return candidates.includes(guess) ? guess : candidates[0];
 }
@@ -67,6 +68,8 @@ export interface PreviewRow {
   kind: 'header' | 'blank' | 'reading' | 'rejected' | 'unchecked';
   problems: ImportProblem[];
   reading: ImportedReading | null;
+  /** How a local time that happens twice was read, when it was. */
+  notice: ImportNotice | null;
 }
 
 /** The preview rows checked with the mapping; `fatal` says why the file as a whole cannot be read with it. */
@@ -81,26 +84,26 @@ export interface PreviewCheck {
  * Runs the records through the shared row reader with the tank's setup, as the server will, and says
  * for each whether it is the header, a good reading or a refused row with its problems.
  */
-export function checkPreview(records: readonly (readonly string[])[], mapping: ImportMapping, tank: TankSetup, nowMs: number): PreviewCheck {
-  const reader = createImportReader({ mapping, tank, nowMs });
+export function checkPreview(records: readonly (readonly string[])[], mapping: ImportMapping, tank: TankSetup, nowMs: number, displayTimeZone = 'UTC'): PreviewCheck {
+  const reader = createImportReader({ mapping, tank, nowMs, displayTimeZone });
   const rows: PreviewRow[] = [];
   let fatal: string | null = null;
   let line = 1;
   for (const cells of records) {
     if (fatal) {
-      rows.push({ line, cells, kind: 'unchecked', problems: [], reading: null });
+      rows.push({ line, cells, kind: 'unchecked', problems: [], reading: null, notice: null });
       continue;
     }
     const r = reader.feed(cells);
     if (r.kind === 'fatal') {
       fatal = r.reason;
-      rows.push({ line, cells, kind: 'unchecked', problems: [], reading: null });
+      rows.push({ line, cells, kind: 'unchecked', problems: [], reading: null, notice: null });
     } else if (r.kind === 'reading') {
       line = r.reading.line;
-      rows.push({ line, cells, kind: 'reading', problems: [], reading: r.reading });
+      rows.push({ line, cells, kind: 'reading', problems: [], reading: r.reading, notice: r.notice ?? null });
     } else {
       line = r.line;
-      rows.push({ line, cells, kind: r.kind, problems: r.kind === 'rejected' ? r.problems : [], reading: null });
+      rows.push({ line, cells, kind: r.kind, problems: r.kind === 'rejected' ? r.problems : [], reading: null, notice: null });
     }
     line++;
   }
@@ -112,5 +115,5 @@ export function checkPreview(records: readonly (readonly string[])[], mapping: I
 /** The records without a mapping to check them: numbered by line, nothing judged yet. */
 export function uncheckedRows(records: readonly (readonly string[])[]): PreviewRow[] {
   // Without the reader a quoted field spanning lines is not counted; fine for a preview that judges nothing.
-  return records.map((cells, i) => ({ line: i + 1, cells, kind: 'unchecked', problems: [], reading: null }));
+  return records.map((cells, i) => ({ line: i + 1, cells, kind: 'unchecked', problems: [], reading: null, notice: null }));
 }
