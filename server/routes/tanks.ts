@@ -1,8 +1,8 @@
 import { Router } from 'express';
-import Papa from 'papaparse';
 import { z } from 'zod';
 import { calibrationQuerySchema, gaugeStripQuerySchema, idSchema, tankCreateSchema, tankUpdateSchema } from '@shared/schemas';
 import type { AppContext } from '../context';
+import { toCsv } from '../csv';
 import { actorOf, requireRole, requireSignIn } from '../middleware/access';
 import { gaugeStripPdf } from '../services/gauge-strip';
 import { calibrationTable, contentsHistory, createTank, listTanks, tankFor, toTankDto, updateTank } from '../services/tanks';
@@ -39,12 +39,11 @@ export function tanksRouter(ctx: AppContext) {
     const table = await calibrationTable(ctx, actorOf(req), idParam(req.params.id, 'Tank'), q);
     if (q.format === 'json') return void res.json(table);
     const tank = await tankFor(ctx, actorOf(req), table.tankId);
-    // escapeFormulae: a cell that starts with = + - @ is prefixed so spreadsheets never run it.
-    const csv = Papa.unparse(
+    // toCsv: no cell (the tank's name included) can run as a formula in a spreadsheet.
+    const csv = toCsv(
       { fields: [`level_${table.lengthUnit}`, `tube_reading_${table.lengthUnit}`, `volume_${table.volumeUnit}`], data: table.rows.map((r) => [round(r.level), round(r.level - table.datumOffset), round(r.volume)]) },
-      { escapeFormulae: true },
     );
-    const title = Papa.unparse([[`# ${tank.name} (${tank.code})`], [`# calibration ${table.version}`]], { escapeFormulae: true });
+    const title = toCsv([[`# ${tank.name} (${tank.code})`], [`# calibration ${table.version}`]]);
     res.type('text/csv').attachment(`${tank.code}-calibration.csv`).send(`${title}\r\n${csv}\r\n`);
   });
   router.get('/:id/gauge-strip.pdf', requireSignIn, async (req, res) => {

@@ -1,9 +1,9 @@
 // Logger imports as the API shows them: the record with its tank and uploader, the first refused rows
 // and notices, and the whole list of refused rows as a CSV download produced page by page.
-import Papa from 'papaparse';
 import { Op } from 'sequelize';
 import type { LoggerImport as ImportDto, LoggerImportDetail } from '@shared/schemas';
 import type { AppContext } from '../context';
+import { toCsv } from '../csv';
 import type { LoggerImport } from '../models';
 
 /** Refused-row problems a detail response carries; the CSV download has all of them. */
@@ -68,7 +68,7 @@ const CSV_FIELDS = ['line', 'field', 'column', 'value', 'reason'];
 
 /**
  * The refused rows of an import as CSV text, produced page by page so a long list is never held
- * whole. Cells that a spreadsheet would run as a formula (= + - @ first) are escaped.
+ * whole. Cells are written by toCsv, so a spreadsheet runs none of them as a formula.
  */
 export function rejectedRowsChunks(ctx: AppContext, rec: LoggerImport): AsyncIterable<string> {
   const sourceId = problemsSourceId(rec);
@@ -76,14 +76,14 @@ export function rejectedRowsChunks(ctx: AppContext, rec: LoggerImport): AsyncIte
   async function* chunks() {
     // A byte-order mark so spreadsheet programs read the file as UTF-8 (°C, dashes in reasons).
     // With no data rows papaparse already ends the header line.
-    yield `\uFEFF${Papa.unparse({ fields: CSV_FIELDS, data: [] }, { newline: '\r\n' })}`;
+    yield `\uFEFF${toCsv({ fields: CSV_FIELDS, data: [] }, { newline: '\r\n' })}`;
     let after = 0;
     for (;;) {
       const page = await LoggerImportRejection.findAll({ where: { importId: sourceId, id: { [Op.gt]: after } }, order: [['id', 'ASC']], limit: 5_000 });
       if (!page.length) return;
       after = page[page.length - 1].id;
       const data = page.map((p) => [p.line, p.field, p.columnLabel, p.value, p.reason]);
-      yield `${Papa.unparse({ fields: CSV_FIELDS, data }, { header: false, escapeFormulae: true, newline: '\r\n' })}\r\n`;
+      yield `${toCsv({ fields: CSV_FIELDS, data }, { header: false, newline: '\r\n' })}\r\n`;
     }
   }
   return chunks();

@@ -1,13 +1,13 @@
 // Purchased inputs: suppliers, stock from movements (never edited directly), reorder advice from
 // shared/inventory, and purchase orders from draft to received.
 import type { Transaction } from 'sequelize';
-import Papa from 'papaparse';
 import { demandFromMovements, stockOnHand, suggestOrder } from '@shared/inventory';
 import type {
   InputCreateInput, InputStatus, InputUpdateInput, Movement, MovementCreateInput, OrderCreateInput, OrderReceiptInput, OrderUpdateInput,
   PurchaseOrder as OrderDto, SessionUser, Supplier as SupplierDto, SupplierCreateInput, SupplierUpdateInput,
 } from '@shared/schemas';
 import type { AppContext } from '../context';
+import { toCsv } from '../csv';
 import { AppError, forbidden, notFound } from '../errors';
 import { assertFarmAccess } from '../middleware/access';
 import type { Input, PurchaseOrder, StockMovement, Supplier } from '../models';
@@ -191,15 +191,14 @@ export async function recordMovement(ctx: AppContext, actor: SessionUser, inputI
 
 const round = (v: number) => Math.round(v * 1000) / 1000;
 
-/** The inputs as CSV (cells starting with = + - @ defused). */
+/** The inputs as CSV (toCsv: no cell runs as a formula in a spreadsheet). */
 export async function inputsCsv(ctx: AppContext, actor: SessionUser, q: { farmId?: number; supplierId?: number }): Promise<string> {
   const rows = await listInputs(ctx, actor, q);
-  return Papa.unparse(
+  return toCsv(
     {
       fields: ['farm', 'input', 'unit', 'supplier', 'on_hand', 'on_order', 'use_per_day', 'days_of_cover', 'reorder_point', 'suggested_quantity', 'order_by', 'due'],
       data: rows.map((r) => [r.farmName, r.name, r.unit, r.supplierName ?? '', round(r.onHand), round(r.onOrder), round(r.dailyDemand), r.daysOfCover === null ? '' : round(r.daysOfCover), round(r.reorderPoint), r.suggestedQuantity, r.orderBy?.slice(0, 10) ?? '', r.due ? 'yes' : 'no']),
     },
-    { escapeFormulae: true },
   );
 }
 
@@ -327,7 +326,7 @@ function orderMail(order: OrderDto, org: string, sender: SessionUser) {
 <table cellpadding="6" style="border-collapse:collapse" border="1"><thead><tr><th>Item</th><th>Quantity</th><th>Unit price</th><th>Line total</th></tr></thead><tbody>${rows}</tbody>
 <tfoot><tr><td colspan="3"><strong>Order total</strong></td><td style="text-align:right"><strong>${money(order.total)}</strong></td></tr></tfoot></table>
 ${order.notes ? `<p>Notes: ${escapeHtml(order.notes)}</p>` : ''}<p>Please confirm the delivery date by replying to this message.<br>${escapeHtml(sender.name)}, ${escapeHtml(org)}</p>`;
-  const csv = Papa.unparse({ fields: ['order', 'item', 'quantity', 'unit', 'unit_price', 'line_total'], data: order.lines.map((l) => [order.number, l.inputName, l.quantity, l.unit, l.unitPrice, l.lineTotal]) }, { escapeFormulae: true });
+  const csv = toCsv({ fields: ['order', 'item', 'quantity', 'unit', 'unit_price', 'line_total'], data: order.lines.map((l) => [order.number, l.inputName, l.quantity, l.unit, l.unitPrice, l.lineTotal]) });
   return { subject: `Purchase order ${order.number} — ${org}`, text, html, csv };
 }
 
@@ -393,15 +392,14 @@ export async function receiveOrder(ctx: AppContext, actor: SessionUser, id: numb
   return getOrder(ctx, actor, id);
 }
 
-/** Orders as CSV, one row per line (cells starting with = + - @ defused). */
+/** Orders as CSV, one row per line (toCsv: no cell runs as a formula in a spreadsheet). */
 export async function ordersCsv(ctx: AppContext, actor: SessionUser, q: { status?: string; farmId?: number } = {}): Promise<string> {
   const orders = await listOrders(ctx, actor, q, null);
-  return Papa.unparse(
+  return toCsv(
     {
       fields: ['order', 'status', 'farm', 'supplier', 'created', 'sent', 'item', 'quantity', 'unit', 'unit_price', 'line_total', 'received'],
       data: orders.flatMap((o) => o.lines.map((l) => [o.number, o.status, o.farmName, o.supplierName, o.createdAt.slice(0, 10), o.sentAt?.slice(0, 10) ?? '', l.inputName, l.quantity, l.unit, l.unitPrice, l.lineTotal, l.receivedQuantity])),
     },
-    { escapeFormulae: true },
   );
 }
 
