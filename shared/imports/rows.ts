@@ -171,7 +171,8 @@ export function createImportReader({ mapping, tank, nowMs, newline = '\n', displ
       : previousMs === null
         ? `read as the first time round (${formatOffset(rep.earlierOffsetMin)}), as no row before it tells which`
         : `read as the first time round (${formatOffset(rep.earlierOffsetMin)}), because the row before it comes earlier`;
-    const note = `"${text}" happens twice in ${zoneName} (the clocks go back an hour that night); ${why}. It is ${formatInstant(ms, displayTimeZone)} in the farm's time.`;
+    // Both passes show the same wall-clock time, so the instant is said in UTC, which tells them apart.
+    const note = `"${text}" happens twice in ${zoneName} (the clocks go back an hour that night); ${why}. It is stored as ${formatInstant(ms, 'UTC')} UTC.`;
     return { ms, notice: { line, field, column: col.label, value: text, note } };
   };
 

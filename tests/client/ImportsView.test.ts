@@ -283,5 +283,6 @@ describe('ImportsView: the server dry run', () => {
     expect(wrapper.get('[data-testid="imports-dry-run-duplicate"]').text()).toBe('1');
     expect(wrapper.get('[data-testid="imports-dry-run-repeated"]').text()).toBe('1');
     expect(wrapper.get('[data-testid="imports-dry-run-lines-line-977"]').text()).toContain('the distance is negative');
+    expect(wrapper.text()).not.toContain('Choose a file to see its first lines');
   });
 });

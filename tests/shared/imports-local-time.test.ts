@@ -95,7 +95,7 @@ describe('createImportReader with a repeated local hour', () => {
     ]);
     expect(got.map((r) => r.notice?.line ?? null)).toEqual([null, 3, 4, 5, 6, null]);
     expect(got[1].notice?.note).toMatch(/happens twice in Europe\/Madrid.*first time round \(UTC\+02:00\)/);
-    expect(got[3].notice?.note).toMatch(/second time round \(UTC\+01:00\).*25 Oct 2026, 02:00 in the farm's time/);
+    expect(got[3].notice?.note).toMatch(/second time round \(UTC\+01:00\).*stored as 25 Oct 2026, 01:00 UTC\.$/);
     expect(reader.counts.noticed).toBe(4);
     expect(reader.repeatedInFile()).toBe(0);
   });
