@@ -236,6 +236,8 @@ describe('ImportsView: distances and the sensor height', () => {
     const ask = wrapper.get('[data-testid="imports-sensor-height-ask"]').text();
     expect(ask).toContain('ask Imre Vasquez (owner) or Dana Okafor (manager)');
     expect(wrapper.find('[data-testid="imports-sensor-height-input"]').exists()).toBe(false);
+    // The file is previewed: no hint to choose one.
+    expect(wrapper.text()).not.toContain('Choose a file to see its first lines');
   });
 
   it('lets a manager keep the sensor height on the tank from the import form', async () => {
