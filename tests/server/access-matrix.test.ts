@@ -224,7 +224,7 @@ async function freshReading(w: World, s: Scope): Promise<number> {
   const r = await env.ctx.db.models.Reading.create({ organisationId: t.organisationId, farmId: t.farmId, tankId: t.id, takenAt: new Date(Date.now() - ++seq * 1000), source: 'round', levelMm: 500, grossL: 392.7, usableL: 392.7, temperatureC: null, calibrationVersion: t.calibrationVersion, enteredById: null, importId: null, idempotencyKey: null });
   return r.id;
 }
-const MATRIX_MAPPING = { delimiter: ',', decimalComma: false, hasHeader: true, timestamp: { column: 'time', format: 'iso8601' }, value: { column: 'level_mm', kind: 'level', unit: 'mm' }, temperature: null } as const;
+const MATRIX_MAPPING = { delimiter: ',', decimalComma: false, hasHeader: true, timestamp: { column: 'time', format: 'iso8601', time: null }, value: { column: 'level_mm', kind: 'level', unit: 'mm' }, temperature: null } as const;
 
 /** An import on the scope's tank with its file in the upload folder (a failed one can be retried). */
 async function freshImport(w: World, s: Scope, status: 'imported' | 'failed'): Promise<number> {

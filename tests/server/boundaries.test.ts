@@ -8,6 +8,7 @@
 // list routes and the :id of every route get the same treatment.
 import { gzipSync } from 'node:zlib';
 import { QueryTypes } from 'sequelize';
+import { settleDeferred } from '../../server/deferred';
 import { z } from 'zod';
 import { beforeAll, describe, expect, it } from 'vitest';
 import {
@@ -217,6 +218,8 @@ const ids = { draftOrder: 0, sentOrder: 0, sentLine: 0, brew: 0, buyer: 0, readi
 /** A checksum of every table a request could change (sessions aside: each request touches its own). */
 let checksumSql: string | undefined;
 async function snapshot(): Promise<string> {
+  // Mail (and the link rows it makes) goes out after an answer: let it finish so it is not taken for the next request's change.
+  await settleDeferred(env.ctx);
   if (!checksumSql) {
     const tables = (await env.ctx.db.sequelize.query<{ t: string }>("SELECT table_name AS t FROM information_schema.tables WHERE table_schema = DATABASE() AND table_name NOT IN ('sessions', 'umzug_meta', 'SequelizeMeta')", { type: QueryTypes.SELECT })).map((r) => r.t);
     checksumSql = `CHECKSUM TABLE ${tables.map((t) => `\`${t}\``).join(', ')}`;
@@ -356,8 +359,10 @@ describe('boundary values through every JSON body route', () => {
     const routes: string[] = env.app.locals.apiRoutes;
     const bodyRoutes = routes.filter((r) => /^(POST|PATCH|PUT) /.test(r));
     // Routes without a JSON body of their own: sign-out, re-sending an invitation, sending or cancelling
-    // an order, retrying an import; the multipart upload has its own fuzz test.
-    const noBody = ['POST /api/auth/sign-out', 'POST /api/people/:id/invitation', 'POST /api/orders/:id/send', 'POST /api/orders/:id/cancel', 'POST /api/imports/:id/retry', 'POST /api/imports'];
+    // an order, retrying an import; the multipart upload has its own fuzz test. The first-owner set-up
+    // answers 409 before reading its body once any organisation exists, as here; tests/server/first-owner.test.ts
+    // checks its body on an empty database.
+    const noBody = ['POST /api/setup/first-owner', 'POST /api/auth/sign-out', 'POST /api/people/:id/invitation', 'POST /api/orders/:id/send', 'POST /api/orders/:id/cancel', 'POST /api/imports/:id/retry', 'POST /api/imports'];
     expect(bodyRoutes.filter((r) => !noBody.includes(r) && !ROUTES.some((c) => c.route === r))).toEqual([]);
   });
 

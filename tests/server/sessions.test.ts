@@ -59,7 +59,7 @@ describe('sessions', () => {
   it('runs the purge on a timer in a running server', async () => {
     const server = await startServer(testConfig({ DB_NAME: env.config.db.name, DATA_DIR: env.config.dataDir, PORT: String(await freePort()), SESSION_PURGE_MINUTES: '0.01' }));
     try {
-      await env.ctx.db.models.Session.create({ sid: 'timer-expired', expires: new Date(Date.now() - 1000), data: '{}', userId: null });
+      await env.ctx.db.models.Session.create({ sid: 'timer-expired', expires: new Date(Date.now() - 1000), data: '{}', userId: null } as never);
       const until = Date.now() + 5_000;
       while ((await env.ctx.db.models.Session.count({ where: { sid: 'timer-expired' } })) && Date.now() < until) await new Promise((r) => setTimeout(r, 100));
       expect(await env.ctx.db.models.Session.count({ where: { sid: 'timer-expired' } })).toBe(0);
