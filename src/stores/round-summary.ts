@@ -1,0 +1,42 @@
+// The round's result summary: how many entries were stored, already stored, refused or clashed, and what is still waiting (a piece of src/stores/round.ts).
+import type { RoundRow } from './round-entry';
+
+export interface RoundSummary {
+  stored: number;
+  duplicate: number;
+  refused: number;
+  /** Not stored: another reading of the tank holds the same moment (sent again, it is stored at a new time). */
+  conflict: number;
+  /** The names of those tanks. */
+  conflictNames: string[];
+  /** Typed entries not yet stored (to send, or to fix). */
+  waiting: number;
+  /** Some entries were sent and every typed entry is now stored. */
+  complete: boolean;
+  /** "7 stored, 1 refused". */
+  text: string;
+}
+
+/** Counts the rows' answers from the server into the summary line. */
+export function summarizeRound(rows: RoundRow[]): RoundSummary {
+  let stored = 0;
+  let duplicate = 0;
+  let refused = 0;
+  const conflictNames: string[] = [];
+  let waiting = 0;
+  for (const row of rows) {
+    const outcome = row.entry.result?.status;
+    if (outcome === 'stored') stored++;
+    else if (outcome === 'duplicate') duplicate++;
+    else if (outcome === 'refused') refused++;
+    else if (outcome === 'conflict') conflictNames.push(row.tank.name);
+    if (!row.locked && row.reading.state !== 'empty') waiting++;
+  }
+  const parts: string[] = [];
+  const conflict = conflictNames.length;
+  if (stored || (!duplicate && !refused && !conflict)) parts.push(`${stored} stored`);
+  if (duplicate) parts.push(`${duplicate} already stored`);
+  if (refused) parts.push(`${refused} refused`);
+  if (conflict) parts.push(`${conflict} not stored`);
+  return { stored, duplicate, refused, conflict, conflictNames, waiting, complete: stored + duplicate > 0 && waiting === 0, text: parts.join(', ') };
+}
