@@ -3,6 +3,7 @@ import { passwordResetSchema, profileSchema, setPasswordSchema, signInSchema, ty
 import type { AppContext } from '../context';
 import { actorOf, requireSignIn } from '../middleware/access';
 import { describeToken, endSession, requestPasswordReset, sessionUserFor, setPasswordWithToken, verifySignIn } from '../services/auth';
+import { updateProfile } from '../services/profile';
 import { parse } from '../validate';
 import { authLimits } from '../middleware/rate-limits';
 import type { CsrfTools } from '../middleware/security';
@@ -50,9 +51,7 @@ export function authRouter(ctx: AppContext, csrf: CsrfTools) {
 
   router.patch('/me', requireSignIn, async (req, res) => {
     const actor = actorOf(req);
-    const input = parse(profileSchema, req.body);
-    await ctx.db.models.User.update(input, { where: { id: actor.id } });
-    res.json(await sessionUserFor(ctx, actor.id));
+    res.json(await updateProfile(ctx, actor, parse(profileSchema, req.body)));
   });
 
   router.post('/password-reset', perIp, async (req, res) => {

@@ -2,7 +2,7 @@
 import type { Farm as FarmDto, FarmCreateInput, FarmUpdateInput, SessionUser } from '@shared/schemas';
 import type { AppContext } from '../context';
 import type { Farm } from '../models';
-import { assertFarmAccess } from '../middleware/access';
+import { assertFarmAccess } from './access';
 
 export const toFarmDto = (f: Farm): FarmDto => ({
   id: f.id,

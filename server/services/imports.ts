@@ -19,7 +19,7 @@ import type {
 } from '@shared/schemas';
 import type { AppContext } from '../context';
 import { AppError, forbidden, notFound } from '../errors';
-import { assertFarmAccess } from '../middleware/access';
+import { assertFarmAccess } from './access';
 import type { Farm, LoggerImport, Tank } from '../models';
 import { dryRunFile, liveImportOf, runImport } from './import-run';
 import { REJECTED_PREVIEW, rejectedRowsChunks, toDetail, toDtos } from './import-views';

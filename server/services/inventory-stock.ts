@@ -5,7 +5,7 @@ import type { InputCreateInput, InputStatus, InputUpdateInput, Movement, Movemen
 import type { AppContext } from '../context';
 import { toCsv } from '../csv';
 import { AppError, forbidden, notFound } from '../errors';
-import { assertFarmAccess } from '../middleware/access';
+import { assertFarmAccess } from './access';
 import type { Input, StockMovement, Supplier } from '../models';
 import { supplierFor } from './inventory-suppliers';
 

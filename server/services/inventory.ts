@@ -5,7 +5,7 @@ import type { OrderCreateInput, OrderReceiptInput, OrderUpdateInput, PurchaseOrd
 import type { AppContext } from '../context';
 import { toCsv } from '../csv';
 import { AppError, forbidden, notFound } from '../errors';
-import { assertFarmAccess } from '../middleware/access';
+import { assertFarmAccess } from './access';
 import type { PurchaseOrder } from '../models';
 import { escapeHtml } from '../mail/mailer';
 import { listInputs, round } from './inventory-stock';

@@ -7,7 +7,7 @@ import { readingToVolumes, type ReadingInput } from '@shared/readings';
 import type { CorrectionInput, Reading as ReadingDto, RoundEntryResult, RoundSubmitInput, SeriesPoint, SessionUser } from '@shared/schemas';
 import type { AppContext } from '../context';
 import { AppError, notFound } from '../errors';
-import { assertFarmAccess } from '../middleware/access';
+import { assertFarmAccess } from './access';
 import type { Reading, Tank } from '../models';
 import { insertReadings, localDay, type NewReading } from './readings-insert';
 import { tankFor } from './tanks';

@@ -5,7 +5,7 @@ import type { SessionUser, Tank as TankDto, TankContentsPeriod as PeriodDto, Tan
 import { convert } from '@shared/units';
 import type { AppContext } from '../context';
 import { AppError, forbidden, notFound } from '../errors';
-import { assertFarmAccess } from '../middleware/access';
+import { assertFarmAccess } from './access';
 import type { Tank } from '../models';
 
 export function toTankDto(t: Tank): TankDto {

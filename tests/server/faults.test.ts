@@ -15,7 +15,7 @@ import type { ImportProgress, LoggerImportDetail, StockBoard } from '@shared/sch
 import { createApp } from '../../server/app';
 import { loadConfig } from '../../server/config';
 import type { Database } from '../../server/db';
-import { HEALTH_DB_TIMEOUT_MS } from '../../server/routes/health';
+import { HEALTH_DB_TIMEOUT_MS } from '../../server/services/health';
 import { createContext } from '../../server/start';
 import { ensureDatabase, startMariaDb, type MariaDbServer } from '../../scripts/lib/mariadb';
 import { freePort } from '../../scripts/lib/ports';
