@@ -26,6 +26,8 @@ export { heightMm, capacityL, volumeAtLevel, levelAtVolume, tankModel } from './
 export type { TankModel } from './model';
 export { buildCalibrationTable, lookupVolume, MAX_TABLE_ROWS } from './table';
 export type { CalibrationRow } from './table';
+export { buildTubeReadingTable } from './tube-table';
+export type { TubeReadingRow } from './tube-table';
 export { validateGeometry, tankGeometrySchema } from './schema';
 export type { GeometryValidation, GeometryIssue } from './schema';
 export { calibrationVersion } from './version';
