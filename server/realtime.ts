@@ -13,7 +13,7 @@ import type { AppContext } from './context';
 import { onEvent } from './events';
 import { boardOf, stockBoard } from './services/board';
 import { activeFlagsOf } from './services/flags';
-import { keptSessionUser } from './services/kept-identity';
+import { keptSessionUser } from './services/signed-in-cache';
 
 export const THROTTLE_MS = 100;
 const farmRoom = (id: number) => `farm:${id}`;

@@ -5,7 +5,7 @@ import type { NextFunction, Request, Response } from 'express';
 import type { Role, SessionUser } from '@shared/schemas';
 import type { AppContext } from '../context';
 import { AppError, forbidden } from '../errors';
-import { keptSessionUser } from '../services/kept-identity';
+import { keptSessionUser } from '../services/signed-in-cache';
 
 declare module 'express-session' {
   interface SessionData {

@@ -7,7 +7,7 @@ import { csrfSync } from 'csrf-sync';
 import { doubleCsrf } from 'csrf-csrf';
 import type { AppContext } from '../context';
 import { AppError } from '../errors';
-import { keepSessionReads } from '../services/kept-identity';
+import { keepSessionReads } from '../services/signed-in-cache';
 
 /** CSRF tokens: a token kept in the session once someone is signed in, a signed cookie before that. */
 export interface CsrfTools {

@@ -5,7 +5,7 @@ import { describe, expect, it } from 'vitest';
 import { useTestApp } from '../support/db';
 import { call, makeOrganisation, signedIn } from '../support/fixtures';
 import { makeTank } from '../support/tanks';
-import { KEEP_MS } from '../../server/services/kept-identity';
+import { KEEP_MS } from '../../server/services/signed-in-cache';
 
 const env = useTestApp();
 type Board = { farms: { farmId: number }[] };

@@ -34,22 +34,22 @@ class Kept<K extends string | number, V extends object> {
   }
 }
 
-interface KeptIdentity {
+interface SignedInCache {
   users: Kept<number, SessionUser>;
   sessions: Kept<string, { text: string }>;
 }
 
-const byDatabase = new WeakMap<Sequelize, KeptIdentity>();
+const byDatabase = new WeakMap<Sequelize, SignedInCache>();
 
 type WriteOptions = { model?: ModelStatic<never>; transaction?: Transaction | null };
 const INSTANCE_HOOKS = ['afterCreate', 'afterUpdate', 'afterDestroy', 'afterSave', 'afterUpsert'] as const;
 const BULK_HOOKS = ['afterBulkCreate', 'afterBulkUpdate', 'afterBulkDestroy'] as const;
 
-function keptFor(ctx: AppContext): KeptIdentity {
+function keptFor(ctx: AppContext): SignedInCache {
   const sequelize = ctx.db.sequelize;
   const kept = byDatabase.get(sequelize);
   if (kept) return kept;
-  const made: KeptIdentity = { users: new Kept(), sessions: new Kept() };
+  const made: SignedInCache = { users: new Kept(), sessions: new Kept() };
   const { User, Organisation, Farm, FarmAccess, Session } = ctx.db.models;
   const identity = new Set<unknown>([User, Organisation, Farm, FarmAccess]);
   const dropFor = (model: unknown, options: WriteOptions | undefined) => {
