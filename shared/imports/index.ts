@@ -16,7 +16,7 @@ export {
 export type { TimestampFormat, DateFormat, TimeFormat, ValueKind, Delimiter, ImportPolicy, ColumnRef, ImportMapping, ImportMappingInput } from './mapping';
 export { MIN_TIMESTAMP_YEAR, daysInMonth, formatInstant, formatOffset, zoneConverter, timestampParser, dateCellParser, timeCellParser, dateTimeParser } from './timestamps';
 export type { TimestampResult, DateTimeResult, DateTimePart, RepeatedTime, WallClockInstant } from './timestamps';
-export { parseDecimal } from './numbers';
+export { parseLoggerNumber } from './numbers';
 export type { NumberResult } from './numbers';
 export { delimiterCandidates, csvParseOptions, stripBom, isBlankRow, lineBreaksInside } from './csv';
 export type { FieldDelimiter, LineBreak } from './csv';

@@ -8,7 +8,7 @@ import { readingToVolumes, type ReadingInput, type TankSetup } from '../readings
 import { toSI, type LengthUnit, type PressureUnit } from '../units/index';
 import { isBlankRow, lineBreaksInside, stripBom, type LineBreak } from './csv';
 import type { ColumnRef, DateFormat, ImportMapping, TimestampFormat } from './mapping';
-import { parseDecimal } from './numbers';
+import { parseLoggerNumber } from './numbers';
 import { createInstantTally } from './repeats';
 import { dateTimeParser, formatInstant, formatOffset, timestampParser, type RepeatedTime, type TimestampResult } from './timestamps';
 import { IMPORT_POLICY_TITLES, isDateFormat } from './mapping';
@@ -230,7 +230,7 @@ export function createImportReader({ mapping, tank, nowMs, newline = '\n', displ
     const valueText = cell(cols.value, 'value');
     let volumes: { levelMm: number; grossL: number; usableL: number } | null = null;
     if (valueText !== null) {
-      const n = parseDecimal(valueText, mapping.decimalComma);
+      const n = parseLoggerNumber(valueText, mapping.decimalComma);
       if (!n.ok) problems.push({ line, field: 'value', column: cols.value.label, value: valueText, reason: n.reason });
       else {
         const r = readingToVolumes(tank, toInput(n.value));
@@ -243,7 +243,7 @@ export function createImportReader({ mapping, tank, nowMs, newline = '\n', displ
       const text = cells[cols.temperature.index];
       // A logger without a probe reading leaves the cell empty (or the record short): no temperature, not a bad row.
       if (text !== undefined && text.trim() !== '') {
-        const n = parseDecimal(text, mapping.decimalComma, 'Temperature');
+        const n = parseLoggerNumber(text, mapping.decimalComma, 'Temperature');
         if (!n.ok) problems.push({ line, field: 'temperature', column: cols.temperature.label, value: text, reason: n.reason });
         else {
           const c = toSI(n.value, mapping.temperature.unit);

@@ -9,7 +9,7 @@ import {
   importMappingSchema,
   lineBreaksInside,
   mappingProblem,
-  parseDecimal,
+  parseLoggerNumber,
   sniffCsv,
   timestampParser,
   type FeedResult,
@@ -108,7 +108,7 @@ describe('timestampParser with local patterns', () => {
   });
 });
 
-describe('parseDecimal', () => {
+describe('parseLoggerNumber (the shared parseDecimal without grouping)', () => {
   it.each([
     ['12.5', false, 12.5],
     [' -0.25 ', false, -0.25],
@@ -119,7 +119,7 @@ describe('parseDecimal', () => {
     ['-0,25', true, -0.25],
     ['7', true, 7],
   ])('reads %j (decimal comma %s) as %d', (text, comma, want) => {
-    expect(parseDecimal(text, comma)).toEqual({ ok: true, value: want });
+    expect(parseLoggerNumber(text, comma)).toEqual({ ok: true, value: want });
   });
 
   it.each([
@@ -133,7 +133,7 @@ describe('parseDecimal', () => {
     ['1e999', false, /too large/],
     ['', false, /is empty/],
   ])('refuses %j (decimal comma %s)', (text, comma, reason) => {
-    const r = parseDecimal(text, comma);
+    const r = parseLoggerNumber(text, comma);
     expect(r.ok).toBe(false);
     if (!r.ok) expect(r.reason).toMatch(reason);
   });

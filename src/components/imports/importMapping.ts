@@ -7,7 +7,7 @@ import {
   isDateFormat,
   mappingProblem,
   needsTimeZone,
-  parseDecimal,
+  parseLoggerNumber,
   timeCellParser,
   timestampParser,
   TIME_FORMATS,
@@ -240,7 +240,7 @@ export function guessDraft(records: readonly (readonly string[])[], base: Mappin
   const parsers = TIMESTAMP_FORMATS.map((format) => ({ format, parse: timestampParser(format, zone) }));
   const isTime = (cell: string) => parsers.some((p) => p.parse(cell).ok);
   const first = rows[0];
-  const hasHeader = !first.some((c) => isTime(c) || parseDecimal(c, false).ok || parseDecimal(c, true).ok);
+  const hasHeader = !first.some((c) => isTime(c) || parseLoggerNumber(c, false).ok || parseLoggerNumber(c, true).ok);
   const header = hasHeader ? first.map((c) => c.trim()) : null;
   const data = hasHeader ? rows.slice(1) : rows;
   const width = Math.max(0, ...rows.map((r) => r.length));
@@ -282,7 +282,7 @@ export function guessDraft(records: readonly (readonly string[])[], base: Mappin
     if (stampColumns.has(i)) continue;
     const cells = cellsOf(i);
     // Most, not all: a logger writes ERR or similar now and then, and that column is still the reading.
-    const ok = cells.filter((c) => parseDecimal(c, decimalComma).ok).length;
+    const ok = cells.filter((c) => parseLoggerNumber(c, decimalComma).ok).length;
     if (cells.length && ok / cells.length >= 0.6) numeric.push(i);
   }
   const nameOf = (i: number) => header?.[i] ?? '';
