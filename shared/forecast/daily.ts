@@ -1,4 +1,4 @@
-import { localDayIndex, localDayStart, offsetMs } from './calendar';
+import { calendarOf } from './calendar';
 import { finiteNumber, nonNegative } from './checks';
 import { deadBandMovements, MS_PER_DAY, prepareSeries, type LevelReading } from './series';
 
@@ -10,10 +10,9 @@ export interface DailyUseOptions {
   now: number;
   /** Half-width of the reading noise band (L). */
   noiseL: number;
-  /**
-   * Farm's fixed offset from UTC (minutes, east positive; default 0) that sets where local days
-   * start; no daylight-saving shift is applied.
-   */
+  /** The farm's IANA time zone: each local day starts at its own midnight, daylight saving included. */
+  timeZone?: string;
+  /** Without `timeZone`: one fixed offset from UTC for every day (minutes, east positive; default 0). */
   utcOffsetMinutes?: number;
 }
 
@@ -47,10 +46,10 @@ export function dailyUse(series: readonly LevelReading[], options: DailyUseOptio
   }
   const now = finiteNumber('now', options.now);
   const noiseL = nonNegative('noiseL', options.noiseL);
-  const offset = offsetMs(options.utcOffsetMinutes);
+  const calendar = calendarOf(options);
 
   const prepared = prepareSeries(series);
-  const firstDay = localDayIndex(now, offset) - windowDays;
+  const firstDay = calendar.dayNumberOf(now) - windowDays;
   const useL = new Array<number>(windowDays).fill(0);
   const refillL = new Array<number>(windowDays).fill(0);
 
@@ -58,11 +57,11 @@ export function dailyUse(series: readonly LevelReading[], options: DailyUseOptio
     if (m.kind === 'steady') continue;
     const bins = m.kind === 'use' ? useL : refillL;
     const amountL = Math.abs(m.changeL);
-    const from = Math.max(localDayIndex(m.from, offset), firstDay);
-    const to = Math.min(localDayIndex(m.to, offset), firstDay + windowDays - 1);
+    const from = Math.max(calendar.dayNumberOf(m.from), firstDay);
+    const to = Math.min(calendar.dayNumberOf(m.to), firstDay + windowDays - 1);
     for (let day = from; day <= to; day++) {
       const overlap =
-        Math.min(m.to, localDayStart(day + 1, offset)) - Math.max(m.from, localDayStart(day, offset));
+        Math.min(m.to, calendar.dayStart(day + 1)) - Math.max(m.from, calendar.dayStart(day));
       if (overlap > 0) bins[day - firstDay] += (amountL * overlap) / (m.to - m.from);
     }
   }
@@ -72,8 +71,7 @@ export function dailyUse(series: readonly LevelReading[], options: DailyUseOptio
   const counted: number[] = [];
   let totalRefillL = 0;
   for (let i = 0; i < windowDays; i++) {
-    const start = localDayStart(firstDay + i, offset);
-    if (prepared.t.length < 2 || firstAt > start || lastAt < start + MS_PER_DAY) continue;
+    if (prepared.t.length < 2 || firstAt > calendar.dayStart(firstDay + i) || lastAt < calendar.dayStart(firstDay + i + 1)) continue;
     counted.push(useL[i]);
     totalRefillL += refillL[i];
   }

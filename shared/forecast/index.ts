@@ -2,4 +2,4 @@ export { type LevelReading, type LevelMovement, type MovementKind, MS_PER_DAY, M
 export { splitMovements, type SplitOptions } from './movements';
 export { dailyUse, daysOfCover, daysOfCoverSince, projectedEmptyDate, type DailyUseOptions, type DailyUse } from './daily';
 export { detectLeak, type QuietHours, type LeakOptions, type LeakWindow } from './leak';
-export { tankForecast, noiseBandL, timeZoneOffsetMinutes, SIGHT_TUBE_TOLERANCE_MM, type TankForecast, type TankForecastInput } from './tank';
+export { tankForecast, noiseBandL, SIGHT_TUBE_TOLERANCE_MM, type TankForecast, type TankForecastInput } from './tank';

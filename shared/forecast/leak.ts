@@ -1,4 +1,4 @@
-import { localDayIndex, localDayStart, offsetMs } from './calendar';
+import { calendarOf } from './calendar';
 import { finiteNumber, nonNegative } from './checks';
 import { deadBandMovements, MS_PER_HOUR, prepareSeries, type LevelReading } from './series';
 
@@ -13,7 +13,9 @@ export interface QuietHours {
 /** Options of detectLeak. */
 export interface LeakOptions {
   quietHours: QuietHours;
-  /** Farm's fixed offset from UTC (minutes, east positive; default 0); no daylight-saving shift is applied. */
+  /** The farm's IANA time zone: quiet hours are read on the local clock of each night, daylight saving included. */
+  timeZone?: string;
+  /** Without `timeZone`: one fixed offset from UTC for every night (minutes, east positive; default 0). */
   utcOffsetMinutes?: number;
   /** Loss rate above which a quiet period is flagged (L/h). */
   thresholdLPerHour: number;
@@ -56,18 +58,18 @@ export function detectLeak(series: readonly LevelReading[], options: LeakOptions
   if (startHour === endHour) {
     throw new RangeError('quietHours.endHour must differ from quietHours.startHour');
   }
-  const offset = offsetMs(options.utcOffsetMinutes);
+  const calendar = calendarOf(options);
   const threshold = nonNegative('thresholdLPerHour', options.thresholdLPerHour);
   const noiseL = nonNegative('noiseL', options.noiseL);
 
   const { t, v } = prepareSeries(series);
   const windows: LeakWindow[] = [];
   if (t.length < 2) return windows;
-  const lengthMs = ((endHour > startHour ? endHour : endHour + 24) - startHour) * MS_PER_HOUR;
   let next = 0;
-  for (let day = localDayIndex(t[0], offset) - 1; day <= localDayIndex(t[t.length - 1], offset); day++) {
-    const opens = localDayStart(day, offset) + startHour * MS_PER_HOUR;
-    const closes = opens + lengthMs;
+  for (let day = calendar.dayNumberOf(t[0]) - 1; day <= calendar.dayNumberOf(t[t.length - 1]); day++) {
+    const opens = calendar.atHour(day, startHour);
+    // A period past midnight closes on the next day's clock, which may have another offset.
+    const closes = endHour > startHour ? calendar.atHour(day, endHour) : calendar.atHour(day + 1, endHour);
     while (next < t.length && t[next] < opens) next++;
     let end = next;
     while (end < t.length && t[end] <= closes) end++;

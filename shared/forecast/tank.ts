@@ -16,14 +16,6 @@ export function noiseBandL(geometry: TankGeometry, levelMm: number, toleranceMm 
   return (volumeAtLevel(geometry, hi) - volumeAtLevel(geometry, lo)) / 2;
 }
 
-/** The UTC offset of a time zone at an instant (minutes, east positive). */
-export function timeZoneOffsetMinutes(timeZone: string, at: number): number {
-  const parts = new Intl.DateTimeFormat('en-US', { timeZone, hourCycle: 'h23', year: 'numeric', month: 'numeric', day: 'numeric', hour: 'numeric', minute: 'numeric', second: 'numeric' }).formatToParts(new Date(at));
-  const get = (type: string) => Number(parts.find((p) => p.type === type)?.value ?? 0);
-  const asUtc = Date.UTC(get('year'), get('month') - 1, get('day'), get('hour'), get('minute'), get('second'));
-  return Math.round((asUtc - Math.floor(at / 1000) * 1000) / 60_000);
-}
-
 /** Inputs of tankForecast. */
 export interface TankForecastInput {
   geometry: TankGeometry;
@@ -32,6 +24,7 @@ export interface TankForecastInput {
   /** Level now (mm above the floor), where the noise band is measured. */
   levelMm: number;
   now: number;
+  /** The farm's IANA time zone: its local days, each with its own offset, bound the window and the quiet hours. */
   timeZone: string;
   windowDays?: number;
   quietHours?: QuietHours;
@@ -54,12 +47,11 @@ export interface TankForecast {
 
 /** Use, cover and leaks from a level series of volumes (L) over the last `windowDays` (default 14) local days. */
 export function tankForecast(series: readonly LevelReading[], input: TankForecastInput): TankForecast {
-  const utcOffsetMinutes = timeZoneOffsetMinutes(input.timeZone, input.now);
   const noiseL = noiseBandL(input.geometry, input.levelMm);
-  const use = dailyUse(series, { windowDays: input.windowDays ?? 14, now: input.now, noiseL, utcOffsetMinutes });
+  const use = dailyUse(series, { windowDays: input.windowDays ?? 14, now: input.now, noiseL, timeZone: input.timeZone });
   const cover = daysOfCover(input.usableL, use.meanLPerDay);
   const leaks = input.quietHours
-    ? detectLeak(series, { quietHours: input.quietHours, utcOffsetMinutes, thresholdLPerHour: input.leakThresholdLPerHour ?? Number.POSITIVE_INFINITY, noiseL })
+    ? detectLeak(series, { quietHours: input.quietHours, timeZone: input.timeZone, thresholdLPerHour: input.leakThresholdLPerHour ?? Number.POSITIVE_INFINITY, noiseL })
     : [];
   return {
     meanLPerDay: use.meanLPerDay,

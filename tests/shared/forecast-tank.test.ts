@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { noiseBandL, tankForecast, timeZoneOffsetMinutes } from '@shared/forecast';
+import { noiseBandL, tankForecast } from '@shared/forecast';
+import { utcOffsetMinutes } from '@shared/time';
 import type { TankGeometry } from '@shared/calibration';
 
 const CYL: TankGeometry = { shape: 'vertical-cylinder', diameterMm: 1000, heightMm: 2000 };
@@ -11,7 +12,7 @@ describe('noiseBandL', () => {
   });
 });
 
-describe('timeZoneOffsetMinutes', () => {
+describe('utcOffsetMinutes', () => {
   it.each([
     // IANA tz database rules (recalled from memory, not re-checked): Dublin is UTC+1 in summer, UTC+0 in winter.
     ['Europe/Dublin', Date.UTC(2026, 6, 1), 60],
@@ -19,7 +20,7 @@ describe('timeZoneOffsetMinutes', () => {
     ['Asia/Kolkata', Date.UTC(2026, 0, 15), 330],
     ['America/Chicago', Date.UTC(2026, 0, 15), -360],
   ])('gives %s at %d as %d minutes', (tz, at, want) => {
-    expect(timeZoneOffsetMinutes(tz, at)).toBe(want);
+    expect(utcOffsetMinutes(tz, at)).toBe(want);
   });
 });
 
