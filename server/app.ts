@@ -16,15 +16,16 @@ import { authRouter } from './routes/auth';
 import { devRouter } from './routes/dev';
 import { farmsRouter } from './routes/farms';
 import { healthRouter } from './routes/health';
-import { peopleRouter } from './routes/people';
+import { invitationsRouter, peopleRouter } from './routes/people';
 import { tanksRouter } from './routes/tanks';
-import { readingsRouter } from './routes/readings';
+import { readingsRouter, roundsRouter, tankReadingsRouter } from './routes/readings';
 import { boardRouter } from './routes/board';
-import { inventoryRouter } from './routes/inventory';
+import { inputsRouter, ordersRouter, suppliersRouter } from './routes/inventory';
 import { flagsRouter } from './routes/flags';
 import { brewsRouter } from './routes/brews';
-import { importsRouter } from './routes/imports';
+import { importsRouter, tankImportMappingRouter } from './routes/imports';
 import { setupRouter } from './routes/setup';
+import { organisationRouter } from './routes/organisation';
 import { invalidateBoards } from './services/board';
 
 export function createApp(ctx: AppContext, opts: { staticDir?: string } = {}) {
@@ -53,21 +54,29 @@ export function createApp(ctx: AppContext, opts: { staticDir?: string } = {}) {
     if (req.method !== 'GET' && req.method !== 'HEAD') res.once('finish', () => invalidateBoards(ctx));
     next();
   });
+  // Each resource under its own prefix; a tank's readings and import mapping are further routers under /tanks.
   const mounts: [string, Router][] = [
     ['/auth', authRouter(ctx, csrf)],
     ['/setup', setupRouter(ctx, csrf)],
     ['/farms', farmsRouter(ctx)],
     ['/tanks', tanksRouter(ctx)],
-    ['', readingsRouter(ctx)],
+    ['/tanks', tankReadingsRouter(ctx)],
+    ['/tanks', tankImportMappingRouter(ctx)],
+    ['/rounds', roundsRouter(ctx)],
+    ['/readings', readingsRouter(ctx)],
     ['/board', boardRouter(ctx)],
-    ['', inventoryRouter(ctx)],
+    ['/suppliers', suppliersRouter(ctx)],
+    ['/inputs', inputsRouter(ctx)],
+    ['/orders', ordersRouter(ctx)],
+    ['/organisation', organisationRouter(ctx)],
     ['/flags', flagsRouter(ctx)],
     ['/brews', brewsRouter(ctx)],
-    ['', importsRouter(ctx)],
-    ['', peopleRouter(ctx)],
+    ['/imports', importsRouter(ctx)],
+    ['/people', peopleRouter(ctx)],
+    ['/invitations', invitationsRouter(ctx)],
   ];
   if (ctx.config.devOutbox) mounts.push(['/dev', devRouter(ctx)]);
-  for (const [prefix, router] of mounts) api.use(prefix || '/', router);
+  for (const [prefix, router] of mounts) api.use(prefix, router);
   app.locals.apiRoutes = listRoutes(mounts);
   api.use((_req, _res, next) => next(new AppError(404, 'not_found', 'No such API route')));
   app.use('/api', api);

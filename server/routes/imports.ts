@@ -69,12 +69,13 @@ function uploadedFiles(req: Request): UploadedFile[] {
   return FILE_FIELDS.flatMap((name) => byField[name] ?? []).map((f) => ({ path: f.path, storedName: f.filename, originalName: f.originalname, sizeBytes: f.size }));
 }
 
+// Buyers watch stock; workers, managers and owners bring readings in.
+const importers = requireRole('owner', 'manager', 'worker');
+
+/** Mounted at /imports: logger-file uploads, dry runs, their results and retries. */
 export function importsRouter(ctx: AppContext) {
   const router = Router();
-  // Buyers watch stock; workers, managers and owners bring readings in.
-  const importers = requireRole('owner', 'manager', 'worker');
-
-  router.post('/imports', importers, receiveFiles(ctx), async (req, res) => {
+  router.post('/', importers, receiveFiles(ctx), async (req, res) => {
     const files = uploadedFiles(req);
     // Neither a form upload nor a JSON object (plain text, an array, no body): nothing names a field.
     if (!req.is('multipart/form-data') && (typeof req.body !== 'object' || req.body === null || Array.isArray(req.body))) {
@@ -93,22 +94,28 @@ export function importsRouter(ctx: AppContext) {
     if (dryRun) return void res.json({ dryRun: true, imports: await dryRunUploads(ctx, actorOf(req), input, files) });
     res.status(201).json({ imports: await importUploads(ctx, actorOf(req), input, files) });
   });
-  router.get('/imports', requireSignIn, async (req, res) => {
+  router.get('/', requireSignIn, async (req, res) => {
     res.json(await listImports(ctx, actorOf(req), parse(importListQuerySchema, req.query)));
   });
-  router.get('/imports/:id', requireSignIn, async (req, res) => {
+  router.get('/:id', requireSignIn, async (req, res) => {
     res.json(await getImport(ctx, actorOf(req), idParam(req.params.id, 'Import')));
   });
-  router.get('/imports/:id/rejected.csv', requireSignIn, async (req, res) => {
+  router.get('/:id/rejected.csv', requireSignIn, async (req, res) => {
     const { filename, chunks } = await rejectedRowsCsv(ctx, actorOf(req), idParam(req.params.id, 'Import'));
     res.type('text/csv; charset=utf-8').attachment(filename);
     for await (const chunk of chunks) res.write(chunk);
     res.end();
   });
-  router.post('/imports/:id/retry', importers, async (req, res) => {
+  router.post('/:id/retry', importers, async (req, res) => {
     res.json(await retryImport(ctx, actorOf(req), idParam(req.params.id, 'Import')));
   });
-  router.get('/tanks/:id/import-mapping', requireSignIn, async (req, res) => {
+  return router;
+}
+
+/** Mounted at /tanks: the import mapping saved on one tank. */
+export function tankImportMappingRouter(ctx: AppContext) {
+  const router = Router();
+  router.get('/:id/import-mapping', requireSignIn, async (req, res) => {
     res.json(await tankImportSetup(ctx, actorOf(req), idParam(req.params.id, 'Tank')));
   });
   return router;

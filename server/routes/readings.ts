@@ -5,22 +5,35 @@ import { actorOf, requireRole, requireSignIn } from '../middleware/access';
 import { correctReading, listReadings, submitRound, tankSeries } from '../services/readings';
 import { idParam, parse } from '../validate';
 
-export function readingsRouter(ctx: AppContext) {
-  const router = Router();
-  // Buyers watch stock; they do not enter or correct readings.
-  const readers = requireRole('owner', 'manager', 'worker');
+// Buyers watch stock; they do not enter or correct readings.
+const readers = requireRole('owner', 'manager', 'worker');
 
-  router.post('/rounds', readers, async (req, res) => {
+/** Mounted at /rounds: a walk's readings sent together. */
+export function roundsRouter(ctx: AppContext) {
+  const router = Router();
+  router.post('/', readers, async (req, res) => {
     const results = await submitRound(ctx, actorOf(req), parse(roundSubmitSchema, req.body));
     res.status(results.some((r) => r.status === 'stored') ? 201 : 200).json({ results });
   });
-  router.get('/tanks/:id/readings', requireSignIn, async (req, res) => {
+  return router;
+}
+
+/** Mounted at /tanks: one tank's readings and its series. */
+export function tankReadingsRouter(ctx: AppContext) {
+  const router = Router();
+  router.get('/:id/readings', requireSignIn, async (req, res) => {
     res.json(await listReadings(ctx, actorOf(req), idParam(req.params.id, 'Tank'), parse(readingsQuerySchema, req.query)));
   });
-  router.get('/tanks/:id/series', requireSignIn, async (req, res) => {
+  router.get('/:id/series', requireSignIn, async (req, res) => {
     res.json(await tankSeries(ctx, actorOf(req), idParam(req.params.id, 'Tank'), parse(seriesQuerySchema, req.query)));
   });
-  router.post('/readings/:id/correction', readers, async (req, res) => {
+  return router;
+}
+
+/** Mounted at /readings: corrections of one stored reading. */
+export function readingsRouter(ctx: AppContext) {
+  const router = Router();
+  router.post('/:id/correction', readers, async (req, res) => {
     res.status(201).json(await correctReading(ctx, actorOf(req), idParam(req.params.id, 'Reading'), parse(correctionSchema, req.body)));
   });
   return router;
