@@ -5,6 +5,8 @@ import { formatNumberTrimmed } from '../units/index';
 
 /** Cultures go inactive below about this temperature (°C): common practice, no published source. */
 export const COLD_CULTURE_C = 18;
+/** Above about this temperature (°C) most farm cultures are harmed or die: common practice, no published source (value recalled from memory). */
+export const WARM_CULTURE_C = 40;
 /** At or under this temperature (°C) water and brews are at risk of freezing in lines and pumps: common practice, no published source. */
 export const FROST_RISK_C = 2;
 /** Days without a reading after which a tank is stale (default of the farm setting). */
