@@ -1,6 +1,6 @@
-// Access control in one place: who is signed in (kept in memory only until a user, farm or access
-// row is written, so role changes and deactivation apply at once), role gates, and the farm scope
-// every query goes through.
+// Access control at the door: who is signed in (kept in memory only until a user, farm or access
+// row is written, so role changes and deactivation apply at once) and the role gates. The farm scope
+// every query goes through is assertFarmAccess in services/access.ts.
 import type { NextFunction, Request, Response } from 'express';
 import type { Role, SessionUser } from '@shared/schemas';
 import type { AppContext } from '../context';
@@ -52,15 +52,3 @@ export function requireRole(...roles: Role[]) {
 
 /** Middleware: any signed-in user. */
 export const requireSignIn = requireRole();
-
-/**
- * Checks that the actor may see a farm: 404 when it does not exist in the actor's organisation
- * (other organisations' rows are never confirmed to exist), 403 when it exists but is not granted.
- */
-export async function assertFarmAccess(ctx: AppContext, actor: SessionUser, farmId: number) {
-  const farm = await ctx.db.models.Farm.findOne({ where: { id: farmId, organisationId: actor.organisationId } });
-  if (!farm) throw new AppError(404, 'not_found', 'Farm not found');
-  if (!actor.farmIds.includes(farm.id)) throw forbidden('You do not have access to this farm');
-  return farm;
-}
-
