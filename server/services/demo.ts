@@ -6,7 +6,8 @@ import type { InputCategory, Role, TankContents } from '@shared/schemas';
 import type { Database } from '../db';
 import { hashPassword } from './passwords';
 import { insertReadings, type NewReading } from './readings';
-import { readingToVolumes } from '@shared/readings';
+import { readingToVolumes, tankSetupOf } from '@shared/readings';
+import { wallClockOf } from '@shared/time';
 import { heightMm } from '@shared/calibration';
 import { QUIET_HOURS } from './forecasts';
 
@@ -70,7 +71,7 @@ const DEMO_DAYS = 21;
 function demoReadings(tank: import('../models').Tank, index: number, workerId: number | null, timeZone: string): NewReading[] {
   let seed = 9_301 + index * 49_297;
   const random = () => ((seed = (seed * 16_807) % 2_147_483_647) / 2_147_483_647);
-  const setup = { geometry: tank.geometry, datumOffsetMm: tank.datumOffsetMm, outletHeightMm: tank.outletHeightMm, safeFillLevelMm: tank.safeFillLevelMm, specificGravity: tank.specificGravity };
+  const setup = tankSetupOf(tank);
   const top = Math.min(tank.safeFillLevelMm, heightMm(tank.geometry));
   const span = top - tank.outletHeightMm;
   let fraction = 0.55 + random() * 0.35;
@@ -110,7 +111,7 @@ function demoReadings(tank: import('../models').Tank, index: number, workerId: n
 function withLeakNight(rounds: NewReading[], setup: Parameters<typeof readingToVolumes>[0], zone: string): NewReading[] {
   const last = rounds[rounds.length - 1];
   if (!last) return rounds;
-  const hourOf = (at: number) => Number(new Intl.DateTimeFormat('en-GB', { timeZone: zone, hour: '2-digit', hourCycle: 'h23' }).format(new Date(at)));
+  const hourOf = (at: number) => Math.floor(wallClockOf(at, zone) / 3_600_000) % 24;
   const quiet = (at: number) => hourOf(at) >= QUIET_HOURS.startHour || hourOf(at) < QUIET_HOURS.endHour;
   const nearRound = (at: number) => rounds.some((r) => Math.abs(r.takenAt.getTime() - at) < 45 * 60_000);
   const steps: number[] = [];

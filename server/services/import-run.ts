@@ -5,12 +5,13 @@
 import { join } from 'node:path';
 import { UniqueConstraintError, type Transaction } from 'sequelize';
 import { createImportReader, csvParseOptions, refusedFileReason, type ImportMapping, type ImportNotice, type ImportPolicy, type ImportProblem } from '@shared/imports';
+import { tankSetupOf } from '@shared/readings';
 import type { ImportProgress, ImportStatus } from '@shared/schemas';
 import type { AppContext } from '../context';
 import { AppError } from '../errors';
 import type { Farm, LoggerImport, Tank } from '../models';
 import { chooseLayout, csvRecords, READING_BATCH_ROWS } from './import-csv';
-import { readingLoader, tankSetup, type LoadSummary } from './readings';
+import { readingLoader, type LoadSummary } from './readings';
 import { readHead } from './upload-checks';
 
 const REJECTION_BATCH_ROWS = 2_000;
@@ -65,7 +66,7 @@ export interface ReadHooks {
 export async function readFileInto(ctx: AppContext, file: FileToRead, hooks: ReadHooks, transaction: Transaction, partial: Partial<FileOutcome> = {}): Promise<FileOutcome> {
   const { tank, farm, mapping, policy } = file;
   const layout = chooseLayout(await readHead(file.filePath).catch(() => new Uint8Array()), mapping);
-  const reader = createImportReader({ mapping, tank: tankSetup(tank), nowMs: Date.now(), newline: layout.newline, displayTimeZone: farm.timeZone });
+  const reader = createImportReader({ mapping, tank: tankSetupOf(tank), nowMs: Date.now(), newline: layout.newline, displayTimeZone: farm.timeZone });
   const { delimiter, newline } = layout;
   const notices: ImportNotice[] = [];
   let rowsGood = 0;

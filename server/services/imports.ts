@@ -17,13 +17,13 @@ import type {
   TankEditor,
   TankImportSetup,
 } from '@shared/schemas';
+import { tankSetupOf } from '@shared/readings';
 import type { AppContext } from '../context';
 import { AppError, forbidden, notFound } from '../errors';
 import { assertFarmAccess } from './access';
 import type { Farm, LoggerImport, Tank } from '../models';
 import { dryRunFile, liveImportOf, runImport } from './import-run';
 import { REJECTED_PREVIEW, rejectedRowsChunks, toDetail, toDtos } from './import-views';
-import { tankSetup } from './readings';
 import { tankFor } from './tanks';
 import { assertUploadsReadable } from './upload-checks';
 import { discardUploads, labelOf, sha256Of, type UploadedFile } from './upload-files';
@@ -47,7 +47,7 @@ async function writableTank(ctx: AppContext, actor: SessionUser, tankId: number)
 }
 
 function assertMappingFits(mapping: ImportMapping, tank: Tank) {
-  const problem = mappingProblem(mapping, tankSetup(tank));
+  const problem = mappingProblem(mapping, tankSetupOf(tank));
   if (problem) throw new AppError(422, 'mapping_unfit', problem.message, problem.field);
 }
 

@@ -1,5 +1,6 @@
 // insertReadings for rounds, corrections and the demo, and the tank_latest/tank_days upserts the loader shares.
 import { QueryTypes, type Transaction } from 'sequelize';
+import { farmDayOf } from '@shared/time';
 import type { AppContext } from '../context';
 
 export interface NewReading {
@@ -21,17 +22,6 @@ export interface NewReading {
 }
 
 const COLUMNS = ['organisationId', 'farmId', 'tankId', 'takenAt', 'source', 'revision', 'levelMm', 'grossL', 'usableL', 'temperatureC', 'calibrationVersion', 'enteredById', 'importId', 'note', 'idempotencyKey', 'createdAt'] as const;
-
-/** The local calendar day (YYYY-MM-DD) of an instant in a time zone. */
-const dayFormatters = new Map<string, Intl.DateTimeFormat>();
-export function localDay(at: Date, timeZone: string): string {
-  let f = dayFormatters.get(timeZone);
-  if (!f) {
-    f = new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' });
-    dayFormatters.set(timeZone, f);
-  }
-  return f.format(at);
-}
 
 /**
  * Inserts readings in one multi-row INSERT IGNORE (rows whose natural key or idempotency key
@@ -60,7 +50,7 @@ async function refreshSnapshots(ctx: Pick<AppContext, 'db'>, rows: NewReading[],
   for (const r of rows) {
     const cur = newestByTank.get(r.tankId);
     if (!cur || r.takenAt > cur.takenAt) newestByTank.set(r.tankId, r);
-    const day = localDay(r.takenAt, timeZones.get(r.farmId) ?? 'UTC');
+    const day = farmDayOf(r.takenAt, timeZones.get(r.farmId) ?? 'UTC');
     const key = `${r.tankId}|${day}`;
     const prev = lastByDay.get(key);
     if (!prev || r.takenAt > prev.takenAt) lastByDay.set(key, { ...r, day });

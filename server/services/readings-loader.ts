@@ -1,29 +1,9 @@
 // readingLoader: a logger file's readings into MariaDB by LOAD DATA in chunks, then the snapshot tables.
 import { QueryTypes, type Transaction } from 'sequelize';
+import { farmDayReader } from '@shared/time';
 import type { AppContext } from '../context';
 import { offerLocalInfile, withdrawLocalInfile } from '../local-infile';
-import { localDay, upsertDays, upsertLatest, type SnapshotRow } from './readings-insert';
-
-/**
- * The local day of an instant in one time zone, remembered per clock hour: an hour whose first and
- * last millisecond fall on the same local day lies wholly in it (an offset changes at most once in an
- * hour, and a change at midnight still leaves the hour's ends on different days); other hours are
- * worked out per instant. Same answers as localDay, without an Intl call per row.
- */
-export function localDayOf(timeZone: string): (ms: number) => string {
-  const byHour = new Map<number, string>();
-  return (ms) => {
-    const hour = Math.floor(ms / 3_600_000);
-    let day = byHour.get(hour);
-    if (day === undefined) {
-      const first = localDay(new Date(hour * 3_600_000), timeZone);
-      day = first === localDay(new Date(hour * 3_600_000 + 3_599_999), timeZone) ? first : '';
-      if (byHour.size >= 200_000) byHour.clear();
-      byHour.set(hour, day);
-    }
-    return day || localDay(new Date(ms), timeZone);
-  };
-}
+import { upsertDays, upsertLatest, type SnapshotRow } from './readings-insert';
 
 /** What every reading of one logger file shares. */
 export interface LoadBase {
@@ -94,7 +74,7 @@ function sqlInstants(): (ms: number) => string {
  * to wait for the database; `finish` must be called once, after the last row.
  */
 export function readingLoader(ctx: Pick<AppContext, 'db'>, base: LoadBase, timeZone: string, transaction: Transaction, chunkRows = LOAD_CHUNK_ROWS) {
-  const dayOf = localDayOf(timeZone);
+  const dayOf = farmDayReader(timeZone);
   const sqlInstant = sqlInstants();
   const createdAt = new Date();
   // Rows are written straight into the chunk's bytes (ASCII only), so no row outlives its own add().

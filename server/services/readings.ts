@@ -3,17 +3,18 @@
 // logger files, LOAD DATA in chunks). Either way the tank's latest reading and daily snapshot are kept
 // current in the same transaction, so the board never scans history.
 import { Op, QueryTypes, type Transaction } from 'sequelize';
-import { readingToVolumes, type ReadingInput } from '@shared/readings';
+import { readingToVolumes, tankSetupOf, type ReadingInput } from '@shared/readings';
+import { farmDayOf } from '@shared/time';
 import type { CorrectionInput, Reading as ReadingDto, RoundEntryResult, RoundSubmitInput, SeriesPoint, SessionUser } from '@shared/schemas';
 import type { AppContext } from '../context';
 import { AppError, notFound } from '../errors';
 import { assertFarmAccess } from './access';
 import type { Reading, Tank } from '../models';
-import { insertReadings, localDay, type NewReading } from './readings-insert';
+import { insertReadings, type NewReading } from './readings-insert';
 import { tankFor } from './tanks';
 
-export { insertReadings, localDay, type NewReading } from './readings-insert';
-export { LOAD_CHUNK_ROWS, localDayOf, readingLoader, type LoadBase, type LoadRow, type LoadSummary } from './readings-loader';
+export { insertReadings, type NewReading } from './readings-insert';
+export { LOAD_CHUNK_ROWS, readingLoader, type LoadBase, type LoadRow, type LoadSummary } from './readings-loader';
 
 /** Recomputes a tank's latest reading and one day's snapshot from the effective readings (after a correction). */
 async function rebuildSnapshots(ctx: AppContext, tank: Tank, day: string, timeZone: string, transaction: Transaction) {
@@ -26,18 +27,9 @@ async function rebuildSnapshots(ctx: AppContext, tank: Tank, day: string, timeZo
     );
   }
   const ofDay = await Reading.findAll({ where: { tankId: tank.id, correctedById: null }, order: [['takenAt', 'DESC']], limit: 200, transaction });
-  const last = ofDay.find((r) => localDay(r.takenAt, timeZone) === day);
+  const last = ofDay.find((r) => farmDayOf(r.takenAt, timeZone) === day);
   if (last) await TankDay.upsert({ tankId: tank.id, day, organisationId: tank.organisationId, farmId: tank.farmId, takenAt: last.takenAt, grossL: last.grossL, usableL: last.usableL }, { transaction });
 }
-
-export const tankSetup = (t: Tank) => ({
-  geometry: t.geometry,
-  datumOffsetMm: t.datumOffsetMm,
-  outletHeightMm: t.outletHeightMm,
-  safeFillLevelMm: t.safeFillLevelMm,
-  specificGravity: t.specificGravity,
-  sensorHeightMm: t.sensorHeightMm ?? undefined,
-});
 
 export async function toReadingDto(ctx: AppContext, rows: Reading[]): Promise<ReadingDto[]> {
   const ids = [...new Set(rows.map((r) => r.enteredById).filter((v): v is number => v !== null))];
@@ -109,7 +101,7 @@ export async function submitRound(ctx: AppContext, actor: SessionUser, input: Ro
       results.push({ tankId: e.tankId, status: 'refused', reason: `${tankLabel(tank)}: this entry's key is used by another entry of the round` });
       continue;
     }
-    const v = readingToVolumes(tankSetup(tank), { kind: 'sight-tube', readingMm: e.readingMm } satisfies ReadingInput);
+    const v = readingToVolumes(tankSetupOf(tank), { kind: 'sight-tube', readingMm: e.readingMm } satisfies ReadingInput);
     if (!v.ok) {
       results.push({ tankId: e.tankId, status: 'refused', reason: v.reason });
       continue;
@@ -196,7 +188,7 @@ export async function correctReading(ctx: AppContext, actor: SessionUser, readin
   const farm = (await Farm.findByPk(tank.farmId))!;
   // The correction is computed with the calibration the original reading was taken under.
   const cal = await ctx.db.models.TankCalibration.findOne({ where: { tankId: tank.id, version: original.calibrationVersion } });
-  const setup = cal ? { ...tankSetup(tank), geometry: cal.geometry, datumOffsetMm: cal.datumOffsetMm } : tankSetup(tank);
+  const setup = cal ? { ...tankSetupOf(tank), geometry: cal.geometry, datumOffsetMm: cal.datumOffsetMm } : tankSetupOf(tank);
   const version = cal ? cal.version : tank.calibrationVersion;
   const v = readingToVolumes(setup, input.levelMm !== undefined ? { kind: 'level', levelMm: input.levelMm } : { kind: 'sight-tube', readingMm: input.readingMm! });
   if (!v.ok) throw new AppError(422, 'reading_out_of_range', `${input.levelMm !== undefined ? 'levelMm' : 'readingMm'}: ${v.reason}`, input.levelMm !== undefined ? 'levelMm' : 'readingMm');
@@ -212,7 +204,7 @@ export async function correctReading(ctx: AppContext, actor: SessionUser, readin
     );
     const [claimed] = await Reading.update({ correctedById: row.id }, { where: { id: original.id, correctedById: null }, transaction });
     if (claimed !== 1) throw new AppError(409, 'already_corrected', 'This reading has just been corrected by someone else');
-    await rebuildSnapshots(ctx, tank, localDay(original.takenAt, farm.timeZone), farm.timeZone, transaction);
+    await rebuildSnapshots(ctx, tank, farmDayOf(original.takenAt, farm.timeZone), farm.timeZone, transaction);
     return row;
   });
   ctx.events.emit('readings', { organisationId: tank.organisationId, farmIds: [tank.farmId] });

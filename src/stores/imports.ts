@@ -1,7 +1,7 @@
 import { computed, ref, shallowRef } from 'vue';
 import { defineStore } from 'pinia';
 import type { ImportMapping, ImportPolicy } from '@shared/imports';
-import type { TankSetup } from '@shared/readings';
+import { tankSetupOf } from '@shared/readings';
 import type { SavedImportMapping, Tank, TankEditor } from '@shared/schemas';
 import * as importsApi from '@/api/imports';
 import * as tanksApi from '@/api/tanks';
@@ -16,18 +16,6 @@ import { useSessionStore } from './session';
 
 export type { ChosenFile } from './imports-files';
 export type { FileProgress, UploadPhase } from './imports-upload';
-
-/** The tank's setup as the shared reading functions take it. */
-export function tankSetupOf(tank: Tank): TankSetup {
-  return {
-    geometry: tank.geometry,
-    datumOffsetMm: tank.datumOffsetMm,
-    outletHeightMm: tank.outletHeightMm,
-    safeFillLevelMm: tank.safeFillLevelMm,
-    specificGravity: tank.specificGravity,
-    sensorHeightMm: tank.sensorHeightMm ?? undefined,
-  };
-}
 
 const storageKey = (userId: number) => `brimstock.imports.target.${userId}`;
 

@@ -1,5 +1,5 @@
 // A round entry as typed and what it gives: the typed numbers parsed, the live reading and temperature, and the tank card's row (pure; a piece of src/stores/round.ts).
-import { readingToVolumes, type TankSetup } from '@shared/readings';
+import { readingToVolumes, tankSetupOf, type TankSetup } from '@shared/readings';
 import { firstIssue, roundEntrySchema, type RoundEntry, type RoundEntryResult, type Tank, type TankTile } from '@shared/schemas';
 import { convert, displayUnits, type UnitSystem } from '@shared/units';
 
@@ -91,16 +91,8 @@ export function parseDecimal(text: string, field: string, example: string): { ok
   return { ok: true, value: Number(t.replace(',', '.')) };
 }
 
-/** The parts of a tank the shared reading function needs. */
-export function setupOf(tank: Tank): TankSetup {
-  return {
-    geometry: tank.geometry,
-    datumOffsetMm: tank.datumOffsetMm,
-    outletHeightMm: tank.outletHeightMm,
-    safeFillLevelMm: tank.safeFillLevelMm,
-    specificGravity: tank.specificGravity,
-  };
-}
+/** The parts of a tank the shared reading function needs (the one mapping in shared/readings). */
+export const setupOf: (tank: Tank) => TankSetup = tankSetupOf;
 
 export function readingPreview(tank: Tank, entry: RoundEntryDraft): ReadingPreview {
   const parsed = parseDecimal(entry.reading, 'Sight-tube reading', entry.readingUnit === 'in' ? '48.5' : '1250');

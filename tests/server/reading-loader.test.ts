@@ -4,7 +4,7 @@
 import { QueryTypes } from 'sequelize';
 import { describe, expect, it } from 'vitest';
 import { localInfileStream } from '../../server/local-infile';
-import { LOAD_CHUNK_ROWS, insertReadings, localDay, localDayOf, readingLoader, type LoadRow, type NewReading } from '../../server/services/readings';
+import { LOAD_CHUNK_ROWS, insertReadings, readingLoader, type LoadRow, type NewReading } from '../../server/services/readings';
 import { useTestApp } from '../support/db';
 import { makeOrganisation, signedIn } from '../support/fixtures';
 import { makeTank } from '../support/tanks';
@@ -136,21 +136,6 @@ describe('readingLoader', () => {
     expect(loaderDays).toEqual((await daysOf(viaInsert.id)).map(strip));
     const [a, b] = await Promise.all([env.ctx.db.models.TankLatest.findByPk(viaLoader.id), env.ctx.db.models.TankLatest.findByPk(viaInsert.id)]);
     expect({ ...a!.get(), tankId: 0, readingId: 0 }).toEqual({ ...b!.get(), tankId: 0, readingId: 0 });
-  });
-});
-
-describe('localDayOf', () => {
-  it('gives the same day as localDay every 13 minutes of a year in zones with odd offsets and midnight changes', () => {
-    // Kathmandu is UTC+5:45; Lord Howe moves by half an hour; Santiago and Havana change their clocks at midnight.
-    for (const zone of ['Europe/Dublin', 'Asia/Kathmandu', 'Australia/Lord_Howe', 'America/Santiago', 'America/Havana', 'UTC']) {
-      const dayOf = localDayOf(zone);
-      const wrong: string[] = [];
-      for (let ms = Date.parse('2025-01-01T00:00:00Z'); ms < Date.parse('2026-01-01T00:00:00Z'); ms += 13 * 60_000 + 17) {
-        const want = localDay(new Date(ms), zone);
-        if (dayOf(ms) !== want) wrong.push(`${new Date(ms).toISOString()} ${want}`);
-      }
-      expect({ zone, wrong: wrong.slice(0, 3) }).toEqual({ zone, wrong: [] });
-    }
   });
 });
 
