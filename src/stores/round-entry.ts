@@ -1,7 +1,9 @@
 // A round entry as typed and what it gives: the typed numbers parsed, the live reading and temperature, and the tank card's row (pure; a piece of src/stores/round.ts).
 import { readingToVolumes, tankSetupOf, type TankSetup } from '@shared/readings';
 import { firstIssue, roundEntrySchema, type RoundEntry, type RoundEntryResult, type Tank, type TankTile } from '@shared/schemas';
-import { convert, displayUnits, type UnitSystem } from '@shared/units';
+import { convert, displayUnits, parseDecimal, type DecimalMark, type UnitSystem } from '@shared/units';
+import { COLD_CULTURE_C } from '@shared/flags';
+import { entryChecks } from './round-checks';
 
 /** What the server did with one entry of a submitted round. */
 export type EntryOutcome = RoundEntryResult['status'];
@@ -27,6 +29,8 @@ export interface RoundEntryDraft {
   note: string;
   /** Made when a reading is first typed and kept for every retry, so the server stores it once. */
   idempotencyKey: string | null;
+  /** The person answered "Yes, this is right" to the questions the reading and temperature as typed raise (absent in rounds saved before). */
+  confirmed?: boolean;
   editedAt: string | null;
   result: EntryResult | null;
 }
@@ -43,7 +47,16 @@ export interface RoundDraft {
 export type ReadingPreview =
   | { state: 'empty' }
   | { state: 'invalid'; reason: string }
-  | { state: 'ok'; readingMm: number; levelMm: number; grossL: number; usableL: number; percentFull: number };
+  | {
+      state: 'ok';
+      readingMm: number;
+      levelMm: number;
+      grossL: number;
+      usableL: number;
+      percentFull: number;
+      /** How text the other decimal mark reads differently was taken ("Read as 1250 mm"), or null. */
+      readAs: string | null;
+    };
 
 /** The optional temperature: nothing typed, refused with a reason, or in °C. */
 export type TemperaturePreview = { state: 'empty' } | { state: 'invalid'; reason: string } | { state: 'ok'; temperatureC: number };
@@ -63,12 +76,23 @@ export interface RoundRow {
   payload: RoundEntry | null;
   /** Why the entry cannot be sent as it stands (reading or temperature), or null. */
   problem: string | null;
-  /** Worth telling the person on the spot, though the entry can be sent (a cold culture). */
+  /** Worth telling the person on the spot, though the entry can be sent (a culture too cold or too warm). */
   warning: string | null;
+  /** What the reading or temperature makes the round ask (a big change of stock, a culture outside its safe range). */
+  questions: string[];
+  /** Questions not yet answered "Yes, this is right": the round does not send until they are, or the entry is corrected. */
+  awaitingAnswer: boolean;
 }
 
-/** Below this a culture goes inactive (common practice, no published source; see PRODUCT.md). */
-export const CULTURE_INACTIVE_BELOW_C = 18;
+/** What a row needs besides the tank and its entry: the person's decimal mark, the farm's cold-culture limit, the units shown. */
+export interface RowContext {
+  decimalMark: DecimalMark;
+  coldCultureC: number;
+  unitSystem: UnitSystem;
+}
+
+/** Below this a culture goes inactive (common practice, no published source; see PRODUCT.md): the shared flag limit. */
+export const CULTURE_INACTIVE_BELOW_C = COLD_CULTURE_C;
 /** The schema's own rule for temperature, so the phone refuses what the server would. */
 const temperatureSchema = roundEntrySchema.shape.temperatureC;
 
@@ -81,31 +105,38 @@ export function newEntryKey(): string {
   return Array.from(bytes, (b) => b.toString(16).padStart(2, '0')).join('');
 }
 
-/** Parsed decimal text; null when empty. Accepts a comma as the decimal mark (phone keyboards in many locales). */
-export function parseDecimal(text: string, field: string, example: string): { ok: true; value: number } | { ok: false; reason: string } | null {
-  const t = text.trim();
-  if (!t) return null;
-  if (!/^[+-]?(\d+([.,]\d*)?|[.,]\d+)$/.test(t)) return { ok: false, reason: `${field}: type a number, e.g. ${example}` };
-  // "1,250" may mean 1250 or 1.25: refuse rather than guess a reading a thousand times off.
-  if (/^[+-]?\d+,\d{3}$/.test(t)) return { ok: false, reason: `${field}: "${t}" is unclear; type ${t.replace(',', '')} or ${t.replace(',', '.')} without a thousands separator` };
-  return { ok: true, value: Number(t.replace(',', '.')) };
+/** An example of a number as the field expects it, with the person's decimal mark ("48,5"). */
+export function exampleNumber(example: string, decimalMark: DecimalMark): string {
+  return decimalMark === ',' ? example.replace('.', ',') : example;
+}
+
+const EXAMPLES = { mm: '1250', in: '48.5', C: '21.5', F: '68' } as const;
+
+/** The typed text read with the person's decimal mark; null when nothing is typed. */
+function parseTyped(text: string, field: string, example: string, decimalMark: DecimalMark) {
+  if (!text.trim()) return null;
+  return parseDecimal(text, { decimalMark, field, example: exampleNumber(example, decimalMark) });
 }
 
 /** The parts of a tank the shared reading function needs (the one mapping in shared/readings). */
 export const setupOf: (tank: Tank) => TankSetup = tankSetupOf;
 
-export function readingPreview(tank: Tank, entry: RoundEntryDraft): ReadingPreview {
-  const parsed = parseDecimal(entry.reading, 'Sight-tube reading', entry.readingUnit === 'in' ? '48.5' : '1250');
+/** The live reading of an entry read with the person's decimal mark: its volumes, or why it is refused. */
+export function readingPreview(tank: Tank, entry: RoundEntryDraft, decimalMark: DecimalMark): ReadingPreview {
+  const parsed = parseTyped(entry.reading, 'Sight-tube reading', EXAMPLES[entry.readingUnit], decimalMark);
   if (parsed === null) return { state: 'empty' };
   if (!parsed.ok) return { state: 'invalid', reason: parsed.reason };
   const readingMm = convert(parsed.value, entry.readingUnit, 'mm');
   const v = readingToVolumes(setupOf(tank), { kind: 'sight-tube', readingMm });
   if (!v.ok) return { state: 'invalid', reason: v.reason };
-  return { state: 'ok', readingMm, levelMm: v.levelMm, grossL: v.grossL, usableL: v.usableL, percentFull: v.percentFull };
+  // Only the reading meant in the person's own convention is offered, without grouping, so it cannot be misread again.
+  const readAs = parsed.ambiguous ? `Read as ${exampleNumber(String(parsed.value), decimalMark)} ${entry.readingUnit}` : null;
+  return { state: 'ok', readingMm, levelMm: v.levelMm, grossL: v.grossL, usableL: v.usableL, percentFull: v.percentFull, readAs };
 }
 
-export function temperaturePreview(entry: RoundEntryDraft): TemperaturePreview {
-  const parsed = parseDecimal(entry.temperature, 'Temperature', entry.temperatureUnit === 'F' ? '68' : '21.5');
+/** The entry's temperature read with the person's decimal mark, in °C, or why it is refused. */
+export function temperaturePreview(entry: RoundEntryDraft, decimalMark: DecimalMark): TemperaturePreview {
+  const parsed = parseTyped(entry.temperature, 'Temperature', EXAMPLES[entry.temperatureUnit], decimalMark);
   if (parsed === null) return { state: 'empty' };
   if (!parsed.ok) return { state: 'invalid', reason: parsed.reason };
   const temperatureC = convert(parsed.value, entry.temperatureUnit, 'C');
@@ -125,6 +156,7 @@ export function blankEntry(tankId: number, system: UnitSystem): RoundEntryDraft 
     temperatureOpen: false,
     note: '',
     idempotencyKey: null,
+    confirmed: false,
     editedAt: null,
     result: null,
   };
@@ -133,9 +165,9 @@ export function blankEntry(tankId: number, system: UnitSystem): RoundEntryDraft 
 export const LOCKED: ReadonlySet<EntryOutcome> = new Set(['stored', 'duplicate']);
 
 /** Everything a tank's card shows: its entry (as typed), the litres it gives, and what the board last had. */
-export function roundRow(tank: Tank, entry: RoundEntryDraft, tile: TankTile | undefined): RoundRow {
-  const reading = readingPreview(tank, entry);
-  const temperature = temperaturePreview(entry);
+export function roundRow(tank: Tank, entry: RoundEntryDraft, tile: TankTile | undefined, context: RowContext): RoundRow {
+  const reading = readingPreview(tank, entry, context.decimalMark);
+  const temperature = temperaturePreview(entry, context.decimalMark);
   const locked = entry.result !== null && LOCKED.has(entry.result.status);
   const fromRound = entry.result?.takenAt ? { takenAt: entry.result.takenAt, grossL: entry.result.grossL ?? null, usableL: entry.result.usableL ?? null } : null;
   const fromBoard = tile?.takenAt ? { takenAt: tile.takenAt, grossL: tile.grossL, usableL: tile.usableL } : null;
@@ -156,13 +188,16 @@ export function roundRow(tank: Tank, entry: RoundEntryDraft, tile: TankTile | un
     if (checked.success) payload = checked.data;
     else problem = firstIssue(checked.error).message;
   }
-  const cold = tank.contents === 'culture' && temperature.state === 'ok' && temperature.temperatureC < CULTURE_INACTIVE_BELOW_C;
+  const checks = entryChecks(tank, reading, temperature, last?.grossL ?? null, context.coldCultureC, context.unitSystem);
   return {
     tank,
     entry,
     reading,
     temperature,
-    warning: cold ? `Below about ${CULTURE_INACTIVE_BELOW_C} °C a culture goes inactive: check its heater.` : null,
+    warning: checks.warning,
+    // A stored entry has nothing left to answer.
+    questions: locked ? [] : checks.questions,
+    awaitingAnswer: !locked && problem === null && checks.questions.length > 0 && entry.confirmed !== true,
     // A stored entry keeps the field only when it holds a value; an empty locked field says nothing.
     showTemperature: entry.temperature.trim() !== '' || (!locked && (tank.contents === 'culture' || entry.temperatureOpen)),
     last,

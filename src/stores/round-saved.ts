@@ -6,6 +6,8 @@ import type { RoundDraft } from './round-entry';
 export interface TanksCopy {
   savedAt: string;
   farmName: string;
+  /** The farm's cold-culture limit (°C) when the copy was saved (absent in copies saved before). */
+  coldCultureC?: number;
   tanks: Tank[];
 }
 

@@ -40,3 +40,28 @@ export function summarizeRound(rows: RoundRow[]): RoundSummary {
   if (conflict) parts.push(`${conflict} not stored`);
   return { stored, duplicate, refused, conflict, conflictNames, waiting, complete: stored + duplicate > 0 && waiting === 0, text: parts.join(', ') };
 }
+
+/** Where the round stands before it is sent: tanks ready (stored, or typed and valid with every question answered), and those still to fix or answer. */
+export interface RoundProgress {
+  total: number;
+  /** Stored, or typed with nothing refused and nothing left to answer. */
+  ready: number;
+  /** Codes of the tanks whose entry is refused here or by the server. */
+  toFix: string[];
+  /** Codes of the tanks whose entry waits on "Yes, this is right". */
+  toAnswer: string[];
+}
+
+/** Counts only valid entries as ready and names the tanks still to fix or to answer. */
+export function roundProgress(rows: RoundRow[]): RoundProgress {
+  let ready = 0;
+  const toFix: string[] = [];
+  const toAnswer: string[] = [];
+  for (const row of rows) {
+    if (row.locked) ready++;
+    else if (row.problem !== null || row.entry.result?.status === 'refused') toFix.push(row.tank.code);
+    else if (row.awaitingAnswer) toAnswer.push(row.tank.code);
+    else if (row.reading.state === 'ok') ready++;
+  }
+  return { total: rows.length, ready, toFix, toAnswer };
+}

@@ -1,7 +1,8 @@
 import { computed, ref, shallowRef, watch } from 'vue';
 import { defineStore } from 'pinia';
 import type { Tank, TankTile } from '@shared/schemas';
-import type { UnitSystem } from '@shared/units';
+import { COLD_CULTURE_C } from '@shared/flags';
+import { decimalMarkOf, type DecimalMark, type UnitSystem } from '@shared/units';
 import { fetchBoard } from '@/api/board';
 import { errorMessage, isApiError } from '@/api/http';
 import { submitRound } from '@/api/readings';
@@ -9,12 +10,12 @@ import { fetchTanks } from '@/api/tanks';
 import { useFarmsStore, type LoadStatus } from './farms';
 import { blankEntry, LOCKED, newEntryKey, roundRow, type RoundDraft, type RoundEntryDraft, type RoundRow } from './round-entry';
 import { emptySaved, readSaved, STORAGE_PREFIX, type Saved } from './round-saved';
-import { summarizeRound, type RoundSummary } from './round-summary';
+import { roundProgress, summarizeRound, type RoundProgress, type RoundSummary } from './round-summary';
 import { useSessionStore } from './session';
 
-export { CULTURE_INACTIVE_BELOW_C, newEntryKey, parseDecimal, setupOf } from './round-entry';
-export type { EntryOutcome, EntryResult, ReadingPreview, RoundDraft, RoundEntryDraft, RoundRow, TemperaturePreview } from './round-entry';
-export type { RoundSummary } from './round-summary';
+export { CULTURE_INACTIVE_BELOW_C, exampleNumber, newEntryKey, setupOf } from './round-entry';
+export type { EntryOutcome, EntryResult, ReadingPreview, RoundDraft, RoundEntryDraft, RoundRow, RowContext, TemperaturePreview } from './round-entry';
+export type { RoundProgress, RoundSummary } from './round-summary';
 
 export interface SubmitProblem {
   kind: 'network' | 'server' | 'invalid';
@@ -51,6 +52,15 @@ export const useRoundStore = defineStore('round', () => {
   let loadToken = 0;
 
   const unitSystem = computed<UnitSystem>(() => session.user?.unitSystem ?? 'metric');
+  /** The person's decimal mark: their browser's language for now; a language setting can set it instead. */
+  const decimalMark = ref<DecimalMark>(decimalMarkOf(typeof navigator === 'undefined' ? undefined : navigator.languages));
+  /** The farm's own cold-culture limit (°C), from the farm list or the device's copy, else the shared default. */
+  const coldCultureC = computed<number>(() => {
+    const id = farmId.value;
+    if (id === null) return COLD_CULTURE_C;
+    void savedVersion.value;
+    return farmsStore.activeFarms.find((f) => f.id === id)?.coldCultureC ?? saved.copies[String(id)]?.coldCultureC ?? COLD_CULTURE_C;
+  });
   const storageKey = computed(() => (session.user ? `${STORAGE_PREFIX}${session.user.id}` : null));
 
   /** Reads this user's saved rounds once per user (another person on the device never sees them). */
@@ -91,14 +101,17 @@ export const useRoundStore = defineStore('round', () => {
 
   const rows = computed<RoundRow[]>(() => {
     const d = draft.value;
-    return tanks.value.map((tank) => roundRow(tank, d?.entries[String(tank.id)] ?? blankEntry(tank.id, unitSystem.value), tiles.value.get(tank.id)));
+    const context = { decimalMark: decimalMark.value, coldCultureC: coldCultureC.value, unitSystem: unitSystem.value };
+    return tanks.value.map((tank) => roundRow(tank, d?.entries[String(tank.id)] ?? blankEntry(tank.id, unitSystem.value), tiles.value.get(tank.id), context));
   });
 
   const summary = computed<RoundSummary>(() => summarizeRound(rows.value));
+  const progress = computed<RoundProgress>(() => roundProgress(rows.value));
 
   const hasResults = computed(() => rows.value.some((r) => r.entry.result !== null));
   const toSend = computed(() => rows.value.filter((r) => r.payload !== null));
   const withProblems = computed(() => rows.value.filter((r) => !r.locked && r.problem !== null));
+  const awaitingAnswers = computed(() => rows.value.filter((r) => r.awaitingAnswer));
 
   function draftFor(id: number): RoundDraft {
     const found = saved.drafts[String(id)];
@@ -158,7 +171,7 @@ export const useRoundStore = defineStore('round', () => {
       tanks.value = tankResult.value.filter((t) => t.archivedAt === null);
       copySavedAt.value = null;
       const name = farmOptions.value.find((f) => f.id === id)?.name ?? saved.copies[String(id)]?.farmName ?? '';
-      saved.copies[String(id)] = { savedAt: new Date().toISOString(), farmName: name, tanks: tanks.value };
+      saved.copies[String(id)] = { savedAt: new Date().toISOString(), farmName: name, coldCultureC: coldCultureC.value, tanks: tanks.value };
       persist();
       status.value = 'ready';
       return;
@@ -195,6 +208,8 @@ export const useRoundStore = defineStore('round', () => {
   function setReading(tankId: number, text: string): void {
     const entry = entryFor(tankId);
     if (!entry) return;
+    // An answer was about the reading as it stood; a changed one is asked about afresh.
+    if (text !== entry.reading) entry.confirmed = false;
     entry.reading = text;
     if (text.trim() && !entry.idempotencyKey) entry.idempotencyKey = newEntryKey();
     edited(entry);
@@ -203,7 +218,16 @@ export const useRoundStore = defineStore('round', () => {
   function setTemperature(tankId: number, text: string): void {
     const entry = entryFor(tankId);
     if (!entry) return;
+    if (text !== entry.temperature) entry.confirmed = false;
     entry.temperature = text;
+    edited(entry);
+  }
+
+  /** The person's answer to the questions a tank's entry raises: true for "Yes, this is right". */
+  function confirmEntry(tankId: number, yes: boolean): void {
+    const entry = entryFor(tankId);
+    if (!entry) return;
+    entry.confirmed = yes;
     edited(entry);
   }
 
@@ -211,7 +235,10 @@ export const useRoundStore = defineStore('round', () => {
     const entry = entryFor(tankId);
     if (!entry) return;
     entry.temperatureOpen = open;
-    if (!open) entry.temperature = '';
+    if (!open && entry.temperature !== '') {
+      entry.temperature = '';
+      entry.confirmed = false;
+    }
     edited(entry);
   }
 
@@ -237,6 +264,11 @@ export const useRoundStore = defineStore('round', () => {
     if (withProblems.value.length) {
       const codes = withProblems.value.map((r) => r.tank.code).join(', ');
       submitProblem.value = { kind: 'invalid', message: `Fix or clear ${codes} before sending.` };
+      return;
+    }
+    if (awaitingAnswers.value.length) {
+      const codes = awaitingAnswers.value.map((r) => r.tank.code).join(', ');
+      submitProblem.value = { kind: 'invalid', message: `Answer the question on ${codes} (or correct the reading) before sending.` };
       return;
     }
     const sending = toSend.value;
@@ -303,12 +335,16 @@ export const useRoundStore = defineStore('round', () => {
     submitProblem,
     storageProblem,
     unitSystem,
+    decimalMark,
+    coldCultureC,
     farmOptions,
     rows,
     summary,
+    progress,
     hasResults,
     toSend,
     withProblems,
+    awaitingAnswers,
     start,
     selectFarm,
     loadTanks,
@@ -316,6 +352,7 @@ export const useRoundStore = defineStore('round', () => {
     setTemperature,
     openTemperature,
     setNote,
+    confirmEntry,
     submit,
     newRound,
   };

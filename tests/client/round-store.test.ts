@@ -8,7 +8,7 @@ import * as farmsApi from '@/api/farms';
 import { ApiError } from '@/api/http';
 import * as readingsApi from '@/api/readings';
 import * as tanksApi from '@/api/tanks';
-import { parseDecimal, setupOf, useRoundStore } from '@/stores/round';
+import { setupOf, useRoundStore } from '@/stores/round';
 import { useSessionStore } from '@/stores/session';
 import { makeFarm, makeUser, sessionOf } from './support/fixtures';
 import { makeBoard, makeCultureTank, makeFarmBoard, makeTile, makeWaterTank } from './support/tanks';
@@ -136,27 +136,6 @@ describe('useRoundStore', () => {
     await round.submit();
     expect(readings.submitRound).not.toHaveBeenCalled();
     expect(round.submitProblem).toEqual({ kind: 'invalid', message: 'Fix or clear CS-W1 before sending.' });
-  });
-
-  it.each([
-    ['1250', 1250],
-    ['12.5', 12.5],
-    ['12,5', 12.5],
-    ['12.', 12],
-    [' 980 ', 980],
-  ])('reads %j as %d', (text, value) => {
-    expect(parseDecimal(text, 'Sight-tube reading', '1250')).toEqual({ ok: true, value });
-  });
-
-  it.each([
-    ['1,250', /unclear/],
-    ['12a', /type a number/],
-    ['1.2.3', /type a number/],
-  ])('refuses %j with a reason naming the field', (text, reason) => {
-    const parsed = parseDecimal(text, 'Sight-tube reading', '1250');
-    expect(parsed).toMatchObject({ ok: false });
-    expect(parsed && !parsed.ok && parsed.reason).toMatch(/^Sight-tube reading: /);
-    expect(parsed && !parsed.ok && parsed.reason).toMatch(reason);
   });
 
   it('makes one key per entry when it is first typed and keeps it while the reading is edited', async () => {
