@@ -4,6 +4,7 @@ import { createPinia, setActivePinia, type Pinia } from 'pinia';
 import * as authApi from '@/api/auth';
 import * as boardApi from '@/api/board';
 import * as farmsApi from '@/api/farms';
+import { cautionText } from '@shared/cautions';
 import { ApiError } from '@/api/http';
 import * as readingsApi from '@/api/readings';
 import * as tanksApi from '@/api/tanks';
@@ -136,5 +137,90 @@ describe('RoundView', () => {
     expect(wrapper.get('[data-testid="round-result-CS-C1"]').text()).toBe('Refused');
     expect(wrapper.get('[data-testid="round-error-CS-C1"]').text()).toBe('This tank is archived');
     expect(wrapper.get('[data-testid="round-summary"]').text()).toContain('1 stored, 1 refused');
+  });
+
+  it('shows the confined-space caution from shared/cautions through CautionNote, and the pest-solution one on its tank', async () => {
+    vi.mocked(tanksApi).fetchTanks.mockResolvedValue([water, makeCultureTank({ id: 103, code: 'CS-P1', name: 'Spray mix', contents: 'pest-solution' })]);
+    const { wrapper } = await mountAs();
+
+    expect(wrapper.get('[data-caution="confined-space"]').text()).toBe(cautionText('confined-space'));
+    expect(wrapper.get('[data-testid="round-tank-CS-P1"] [data-caution="pest-solution"]').text()).toBe(cautionText('pest-solution'));
+    expect(wrapper.find('[data-testid="round-tank-CS-W1"] [data-caution]').exists()).toBe(false);
+  });
+
+  it('asks on the card about a big fall of stock and a 45 °C culture, and sends only once both are answered', async () => {
+    vi.mocked(boardApi).fetchBoard.mockResolvedValue(
+      makeBoard([makeFarmBoard(11, 'Creek site', [makeTile({ tankId: water.id, code: water.code, grossL: 6273, usableL: 5067, takenAt: '2026-03-01T07:00:00.000Z' })])]),
+    );
+    readings.submitRound.mockResolvedValue({ results: [{ tankId: water.id, status: 'stored' }, { tankId: culture.id, status: 'stored' }] });
+    const { wrapper } = await mountAs();
+
+    // 0 mm + 60 mm datum: π × 1.6² × 0.06 m³ = 483 L, from 6,273 L (V = π r² h, recalled from memory).
+    await wrapper.get('[data-testid="round-input-CS-W1"]').setValue('0');
+    await wrapper.get('[data-testid="round-input-CS-C1"]').setValue('600');
+    await wrapper.get('[data-testid="round-temperature-CS-C1"]').setValue('45');
+    expect(wrapper.get('[data-testid="round-question-CS-W1"]').text()).toContain('483 L in the tank, down from 6,273 L');
+    expect(wrapper.get('[data-testid="round-question-CS-C1"]').text()).toContain('45.0 °C is above 40 °C');
+    expect(wrapper.get('[data-testid="round-tank-CS-C1"] [data-caution="electrical"]').exists()).toBe(true);
+    expect(wrapper.get('[data-testid="round-progress"]').text()).toMatch(/0 of 2 tanks ready\s*To answer: CS-W1, CS-C1/);
+
+    await wrapper.get('[data-testid="round-submit"]').trigger('click');
+    await flushPromises();
+    expect(readings.submitRound).not.toHaveBeenCalled();
+    expect(wrapper.get('[data-testid="round-submit-problem"]').text()).toBe('Answer the question on CS-W1, CS-C1 (or correct the reading) before sending.');
+
+    await wrapper.get('#round-101-confirm').setValue(true);
+    await wrapper.get('[data-testid="round-submit"]').trigger('click');
+    await flushPromises();
+    expect(readings.submitRound).not.toHaveBeenCalled();
+    expect(wrapper.get('[data-testid="round-progress"]').text()).toMatch(/1 of 2 tanks ready\s*To answer: CS-C1$/);
+
+    await wrapper.get('#round-102-confirm').setValue(true);
+    await wrapper.get('[data-testid="round-submit"]').trigger('click');
+    await flushPromises();
+    expect(readings.submitRound).toHaveBeenCalledTimes(1);
+    expect(readings.submitRound.mock.calls[0]![0].entries.map((e) => [e.tankId, e.readingMm, e.temperatureC])).toEqual([
+      [water.id, 0, undefined],
+      [culture.id, 600, 45],
+    ]);
+  });
+
+  it('counts only valid readings and names the tanks still to fix', async () => {
+    const { wrapper } = await mountAs();
+
+    await wrapper.get('[data-testid="round-input-CS-W1"]').setValue('2400');
+    await wrapper.get('[data-testid="round-input-CS-C1"]').setValue('600');
+
+    expect(wrapper.get('[data-testid="round-progress"]').text()).toMatch(/^1 of 2 tanks ready\s*To fix: CS-W1$/);
+    expect(wrapper.get('[data-testid="round-submit"]').text()).toBe('Send 1 reading');
+  });
+
+  it('offers only the reading it took for text the other decimal mark reads differently', async () => {
+    const { wrapper } = await mountAs();
+
+    await wrapper.get('[data-testid="round-input-CS-W1"]').setValue('1,140');
+
+    expect(wrapper.get('[data-testid="round-read-as-CS-W1"]').text()).toBe('Read as 1140 mm');
+    expect(wrapper.get('[data-testid="round-stock-CS-W1-usable"]').text()).toBe('8,445 L');
+    expect(wrapper.find('[data-testid="round-error-CS-W1"]').exists()).toBe(false);
+  });
+
+  it('scrolls to the result after sending and announces it', async () => {
+    const scrolled = vi.fn();
+    Element.prototype.scrollIntoView = scrolled;
+    readings.submitRound.mockResolvedValueOnce({ results: [{ tankId: water.id, status: 'stored' }] });
+    const { wrapper } = await mountAs();
+    const live = wrapper.get('[data-testid="round-announcement"]');
+    expect(live.attributes('aria-live')).toBe('polite');
+    expect(live.text()).toBe('');
+
+    await wrapper.get('[data-testid="round-input-CS-W1"]').setValue('1140');
+    await wrapper.get('[data-testid="round-submit"]').trigger('click');
+    await flushPromises();
+
+    expect(live.text()).toBe('Round sent: 1 stored. Round stored.');
+    expect(scrolled).toHaveBeenCalledTimes(1);
+    expect(scrolled.mock.contexts[0]).toBe(wrapper.get('[data-testid="round-summary"]').element);
+    expect(document.activeElement).toBe(wrapper.get('[data-testid="round-summary"]').element);
   });
 });
