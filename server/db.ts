@@ -20,6 +20,7 @@ import * as m0012 from './migrations/0012-flag-clear-note';
 import * as m0013 from './migrations/0013-email-per-organisation';
 import * as m0014 from './migrations/0014-import-repeats-and-notices';
 import * as m0015 from './migrations/0015-first-owner-setup';
+import * as m0016 from './migrations/0016-order-numbers-currency-close-short';
 
 /** Migrations in order; add a new numbered file and list it here. */
 const MIGRATIONS = [
@@ -38,6 +39,7 @@ const MIGRATIONS = [
   { name: '0013-email-per-organisation', module: m0013 },
   { name: '0014-import-repeats-and-notices', module: m0014 },
   { name: '0015-first-owner-setup', module: m0015 },
+  { name: '0016-order-numbers-currency-close-short', module: m0016 },
 ];
 
 export interface Database {

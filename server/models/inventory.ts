@@ -1,5 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
-import type { InputCategory, OrderStatus } from '@shared/schemas';
+import { ORDER_STATUSES, type InputCategory, type OrderStatus } from '@shared/schemas';
 
 // Factories, not shared objects: Sequelize writes into each attribute definition.
 const id = () => ({ type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true });
@@ -125,6 +125,9 @@ export class PurchaseOrder extends Model<InferAttributes<PurchaseOrder>, InferCr
   declare notes: string;
   declare sentAt: Date | null;
   declare createdById: number | null;
+  declare closedShortAt: CreationOptional<Date | null>;
+  declare closedShortReason: CreationOptional<string | null>;
+  declare closedShortById: CreationOptional<number | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 
@@ -136,10 +139,13 @@ export class PurchaseOrder extends Model<InferAttributes<PurchaseOrder>, InferCr
         farmId: ref(),
         supplierId: ref(),
         number: { type: DataTypes.STRING(20), allowNull: false },
-        status: { type: DataTypes.ENUM('draft', 'sent', 'part-received', 'received', 'cancelled'), allowNull: false },
+        status: { type: DataTypes.ENUM(...ORDER_STATUSES), allowNull: false },
         notes: { type: DataTypes.TEXT, allowNull: false },
         sentAt: { type: DataTypes.DATE, allowNull: true },
         createdById: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
+        closedShortAt: { type: DataTypes.DATE, allowNull: true },
+        closedShortReason: { type: DataTypes.STRING(300), allowNull: true },
+        closedShortById: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },

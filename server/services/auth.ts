@@ -27,6 +27,8 @@ export async function sessionUserFor(ctx: AppContext, userId: number): Promise<S
     role: user.role,
     organisationId: user.organisationId,
     organisationName: org?.name ?? '',
+    organisationCode: org?.code ?? '',
+    currency: org?.currency ?? 'EUR',
     unitSystem: user.unitSystem,
     flagMail: user.flagMail,
     farmIds: farmIds.sort((a, b) => a - b),

@@ -12,7 +12,7 @@ import { heightMm } from '@shared/calibration';
 import { QUIET_HOURS } from './forecasts';
 
 interface Scenario {
-  organisation: { name: string };
+  organisation: { name: string; code: string; currency: string };
   farms: { key: string; name: string; timeZone: string; location: string }[];
   people: { email: string; name: string; role: Role; password: string; farms: string[] }[];
   tanks: {
@@ -156,7 +156,7 @@ export async function loadDemoScenario(db: Database, opts: { onlyIfEmpty?: boole
   const scenario = readScenario();
   const hashes = await Promise.all(scenario.people.map((p) => hashPassword(p.password)));
   await db.sequelize.transaction(async (transaction) => {
-    const org = await Organisation.create({ name: scenario.organisation.name }, { transaction });
+    const org = await Organisation.create({ name: scenario.organisation.name, code: scenario.organisation.code, currency: scenario.organisation.currency }, { transaction });
     const farmIds = new Map<string, number>();
     for (const f of scenario.farms) {
       const farm = await Farm.create({ organisationId: org.id, name: f.name, timeZone: f.timeZone, location: f.location, archivedAt: null }, { transaction });

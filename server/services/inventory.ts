@@ -1,13 +1,15 @@
 // Purchased inputs: suppliers, stock from movements (never edited directly), reorder advice from
 // shared/inventory, and purchase orders from draft to received.
 import type { Transaction } from 'sequelize';
-import type { OrderCreateInput, OrderReceiptInput, OrderUpdateInput, PurchaseOrder as OrderDto, SessionUser } from '@shared/schemas';
+import { roundUpToPack } from '@shared/inventory';
+import type { OrderCloseShortInput, OrderCreateInput, OrderReceiptInput, OrderUpdateInput, PurchaseOrder as OrderDto, SessionUser } from '@shared/schemas';
 import type { AppContext } from '../context';
 import { toCsv } from '../csv';
 import { AppError, forbidden, notFound } from '../errors';
 import { assertFarmAccess } from './access';
 import type { PurchaseOrder } from '../models';
-import { escapeHtml } from '../mail/mailer';
+import { orderMail } from './inventory-order-mail';
+import { isDeadlock, takeOrderNumber } from './order-numbers';
 import { listInputs, round } from './inventory-stock';
 import { supplierFor } from './inventory-suppliers';
 
@@ -31,16 +33,25 @@ async function toOrderDtos(ctx: AppContext, orders: PurchaseOrder[]): Promise<Or
   const inputs = new Map((await Input.findAll({ where: { id: [...new Set(lines.map((l) => l.inputId))] } })).map((i) => [i.id, i]));
   const suppliers = new Map((await Supplier.findAll({ where: { id: [...new Set(orders.map((o) => o.supplierId))] } })).map((s) => [s.id, s]));
   const farms = new Map((await Farm.findAll({ where: { id: [...new Set(orders.map((o) => o.farmId))] } })).map((f) => [f.id, f.name]));
-  const users = new Map((await User.findAll({ where: { id: [...new Set(orders.map((o) => o.createdById).filter((v): v is number => v !== null))] } })).map((u) => [u.id, u.name]));
+  const userIds = new Set(orders.flatMap((o) => [o.createdById, o.closedShortById]).filter((v): v is number => v !== null && v !== undefined));
+  const users = new Map((await User.findAll({ where: { id: [...userIds] } })).map((u) => [u.id, u.name]));
   return orders.map((o) => {
-    const own = lines.filter((l) => l.orderId === o.id).map((l) => ({
-      id: l.id, inputId: l.inputId, inputName: inputs.get(l.inputId)?.name ?? '', unit: inputs.get(l.inputId)?.unit ?? '', quantity: l.quantity, unitPrice: l.unitPrice,
-      receivedQuantity: l.receivedQuantity, lineTotal: Math.round(l.quantity * l.unitPrice * 100) / 100,
-    }));
+    const closedShort = o.status === 'closed-short';
+    const own = lines.filter((l) => l.orderId === o.id).map((l) => {
+      // A closed-short order is owed for what came; the rest is cancelled.
+      const cancelledQuantity = closedShort ? Math.max(0, l.quantity - l.receivedQuantity) : 0;
+      const billed = closedShort ? l.receivedQuantity : l.quantity;
+      return {
+        id: l.id, inputId: l.inputId, inputName: inputs.get(l.inputId)?.name ?? '', unit: inputs.get(l.inputId)?.unit ?? '', quantity: l.quantity, unitPrice: l.unitPrice,
+        receivedQuantity: l.receivedQuantity, cancelledQuantity, lineTotal: Math.round(billed * l.unitPrice * 100) / 100,
+      };
+    });
     const s = suppliers.get(o.supplierId);
     return {
       id: o.id, number: o.number, farmId: o.farmId, farmName: farms.get(o.farmId) ?? '', supplierId: o.supplierId, supplierName: s?.name ?? '', supplierEmail: s?.email ?? '',
       status: o.status, notes: o.notes, createdAt: o.createdAt.toISOString(), sentAt: o.sentAt ? o.sentAt.toISOString() : null, createdBy: (o.createdById && users.get(o.createdById)) || '',
+      closedShortAt: o.closedShortAt ? o.closedShortAt.toISOString() : null, closedShortReason: o.closedShortReason ?? null,
+      closedShortBy: o.closedShortAt ? (o.closedShortById && users.get(o.closedShortById)) || '' : null,
       lines: own, total: Math.round(own.reduce((t, l) => t + l.lineTotal, 0) * 100) / 100,
     };
   });
@@ -71,17 +82,30 @@ async function checkLines(ctx: AppContext, actor: SessionUser, farmId: number, l
   });
 }
 
-/** Creates a draft order. */
+/**
+ * Creates a draft order numbered CODE-YY-NNN. The number comes from the organisation's counter row
+ * for the year, raised in this transaction; a deadlock between two first orders of a year is retried.
+ */
 export async function createOrder(ctx: AppContext, actor: SessionUser, body: OrderCreateInput): Promise<OrderDto> {
   await assertFarmAccess(ctx, actor, body.farmId);
   await supplierFor(ctx, actor, body.supplierId);
-  const order = await ctx.db.sequelize.transaction(async (transaction) => {
-    const lines = await checkLines(ctx, actor, body.farmId, body.lines, transaction);
-    const o = await ctx.db.models.PurchaseOrder.create({ organisationId: actor.organisationId, farmId: body.farmId, supplierId: body.supplierId, number: `tmp-${Date.now()}-${Math.random()}`.slice(0, 20), status: 'draft', notes: body.notes, sentAt: null, createdById: actor.id }, { transaction });
-    await o.update({ number: `PO-${String(o.id).padStart(5, '0')}` }, { transaction });
-    await ctx.db.models.PurchaseOrderLine.bulkCreate(lines.map((l) => ({ ...l, orderId: o.id })), { transaction });
-    return o;
-  });
+  const make = () =>
+    ctx.db.sequelize.transaction(async (transaction) => {
+      const lines = await checkLines(ctx, actor, body.farmId, body.lines, transaction);
+      const number = await takeOrderNumber(ctx, actor.organisationId, body.farmId, transaction);
+      const o = await ctx.db.models.PurchaseOrder.create({ organisationId: actor.organisationId, farmId: body.farmId, supplierId: body.supplierId, number, status: 'draft', notes: body.notes, sentAt: null, createdById: actor.id }, { transaction });
+      await ctx.db.models.PurchaseOrderLine.bulkCreate(lines.map((l) => ({ ...l, orderId: o.id })), { transaction });
+      return o;
+    });
+  let order;
+  for (let attempt = 1; ; attempt++) {
+    try {
+      order = await make();
+      break;
+    } catch (err) {
+      if (!isDeadlock(err) || attempt >= 3) throw err;
+    }
+  }
   return getOrder(ctx, actor, order.id);
 }
 
@@ -94,7 +118,7 @@ export async function ordersFromSuggestions(ctx: AppContext, actor: SessionUser,
   const statuses = (await listInputs(ctx, actor, { farmId: q.farmId }))
     .filter((i) => q.inputIds !== undefined || !drafted.has(i.id))
     .filter((i) => (q.inputIds ? q.inputIds.includes(i.id) : i.due && i.suggestedQuantity > 0) && i.supplierId)
-    .map((i) => ({ ...i, suggestedQuantity: i.suggestedQuantity > 0 ? i.suggestedQuantity : Math.max(i.packSize, i.minimumOrder) }));
+    .map((i) => ({ ...i, suggestedQuantity: i.suggestedQuantity > 0 ? i.suggestedQuantity : roundUpToPack(i.packSize, i.packSize, i.minimumOrder) }));
   if (!statuses.length) throw new AppError(409, 'nothing_due', 'No input with a supplier needs ordering right now (inputs already on a draft order are left out)');
   const groups = new Map<string, typeof statuses>();
   for (const s of statuses) groups.set(`${s.supplierId}|${s.farmId}`, [...(groups.get(`${s.supplierId}|${s.farmId}`) ?? []), s]);
@@ -119,30 +143,6 @@ export async function updateOrder(ctx: AppContext, actor: SessionUser, id: numbe
   return getOrder(ctx, actor, id);
 }
 
-function orderMail(order: OrderDto, org: string, sender: SessionUser) {
-  const money = (v: number) => v.toLocaleString('en-US', { minimumFractionDigits: 2, maximumFractionDigits: 2 });
-  const qty = (v: number) => v.toLocaleString('en-US', { maximumFractionDigits: 3 });
-  const lines = order.lines.map((l, i) => `${i + 1}. ${l.inputName} — ${qty(l.quantity)} ${l.unit}${l.unitPrice ? ` at ${money(l.unitPrice)} = ${money(l.lineTotal)}` : ''}`);
-  const text = [
-    `Purchase order ${order.number} from ${org}`,
-    `Deliver to: ${order.farmName}`,
-    '',
-    ...lines,
-    '',
-    `Order total: ${money(order.total)}`,
-    ...(order.notes ? ['', `Notes: ${order.notes}`] : []),
-    '',
-    `Please confirm the delivery date by replying to this message. — ${sender.name}, ${org}`,
-  ].join('\n');
-  const rows = order.lines.map((l) => `<tr><td>${escapeHtml(l.inputName)}</td><td style="text-align:right">${qty(l.quantity)} ${escapeHtml(l.unit)}</td><td style="text-align:right">${money(l.unitPrice)}</td><td style="text-align:right">${money(l.lineTotal)}</td></tr>`).join('');
-  const html = `<h2>Purchase order ${escapeHtml(order.number)}</h2><p>From ${escapeHtml(org)} — deliver to <strong>${escapeHtml(order.farmName)}</strong>.</p>
-<table cellpadding="6" style="border-collapse:collapse" border="1"><thead><tr><th>Item</th><th>Quantity</th><th>Unit price</th><th>Line total</th></tr></thead><tbody>${rows}</tbody>
-<tfoot><tr><td colspan="3"><strong>Order total</strong></td><td style="text-align:right"><strong>${money(order.total)}</strong></td></tr></tfoot></table>
-${order.notes ? `<p>Notes: ${escapeHtml(order.notes)}</p>` : ''}<p>Please confirm the delivery date by replying to this message.<br>${escapeHtml(sender.name)}, ${escapeHtml(org)}</p>`;
-  const csv = toCsv({ fields: ['order', 'item', 'quantity', 'unit', 'unit_price', 'line_total'], data: order.lines.map((l) => [order.number, l.inputName, l.quantity, l.unit, l.unitPrice, l.lineTotal]) });
-  return { subject: `Purchase order ${order.number} — ${org}`, text, html, csv };
-}
-
 /** E-mails a draft order to its supplier (HTML, text and a CSV of the lines) and marks it sent. */
 export async function sendOrder(ctx: AppContext, actor: SessionUser, id: number): Promise<OrderDto> {
   const claimed = await ctx.db.sequelize.transaction(async (transaction) => {
@@ -152,7 +152,7 @@ export async function sendOrder(ctx: AppContext, actor: SessionUser, id: number)
     return order;
   });
   const dto = await getOrder(ctx, actor, claimed.id);
-  const mail = orderMail(dto, actor.organisationName, actor);
+  const mail = orderMail(dto, actor);
   try {
     await ctx.mailer.send({ organisationId: actor.organisationId, kind: 'order', to: dto.supplierEmail, subject: mail.subject, text: mail.text, html: mail.html, attachments: [{ filename: `${dto.number}.csv`, content: mail.csv, contentType: 'text/csv' }] });
   } catch (err) {
@@ -205,14 +205,34 @@ export async function receiveOrder(ctx: AppContext, actor: SessionUser, id: numb
   return getOrder(ctx, actor, id);
 }
 
-/** Orders as CSV, one row per line (toCsv: no cell runs as a formula in a spreadsheet). */
+/**
+ * Closes a part-received order short: what came stays booked in, the rest is cancelled with the
+ * reason, so it no longer counts as on order. The supplier is not mailed; the buyer tells them.
+ */
+export async function closeOrderShort(ctx: AppContext, actor: SessionUser, id: number, body: OrderCloseShortInput): Promise<OrderDto> {
+  const farmId = await ctx.db.sequelize.transaction(async (transaction) => {
+    const order = await orderFor(ctx, actor, id, transaction, true);
+    if (order.status === 'sent') throw new AppError(409, 'nothing_received', `Nothing of ${order.number} has arrived yet: cancel the order instead of closing it short`);
+    if (order.status !== 'part-received') throw new AppError(409, 'cannot_close_short', `A ${order.status} order cannot be closed short; only a part-received one can`);
+    await order.update({ status: 'closed-short', closedShortAt: new Date(), closedShortReason: body.reason, closedShortById: actor.id }, { transaction });
+    return order.farmId;
+  });
+  ctx.events.emit('stock', { organisationId: actor.organisationId, farmIds: [farmId] });
+  return getOrder(ctx, actor, id);
+}
+
+/** Orders as CSV, one row per line (toCsv: no cell runs as a formula in a spreadsheet), money in the organisation's currency. */
 export async function ordersCsv(ctx: AppContext, actor: SessionUser, q: { status?: string; farmId?: number } = {}): Promise<string> {
   const orders = await listOrders(ctx, actor, q, null);
   return toCsv(
     {
-      fields: ['order', 'status', 'farm', 'supplier', 'created', 'sent', 'item', 'quantity', 'unit', 'unit_price', 'line_total', 'received'],
-      data: orders.flatMap((o) => o.lines.map((l) => [o.number, o.status, o.farmName, o.supplierName, o.createdAt.slice(0, 10), o.sentAt?.slice(0, 10) ?? '', l.inputName, l.quantity, l.unit, l.unitPrice, l.lineTotal, l.receivedQuantity])),
+      fields: ['order', 'status', 'farm', 'supplier', 'created', 'sent', 'item', 'quantity', 'unit', 'unit_price', 'line_total', 'currency', 'received', 'cancelled', 'closed_short_reason'],
+      data: orders.flatMap((o) =>
+        o.lines.map((l) => [
+          o.number, o.status, o.farmName, o.supplierName, o.createdAt.slice(0, 10), o.sentAt?.slice(0, 10) ?? '', l.inputName, l.quantity, l.unit, l.unitPrice, l.lineTotal,
+          actor.currency, l.receivedQuantity, l.cancelledQuantity, o.closedShortReason ?? '',
+        ]),
+      ),
     },
   );
 }
-

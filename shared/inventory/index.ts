@@ -19,3 +19,4 @@ export {
   type SuggestOrderInput,
   type OrderSuggestion,
 } from './order';
+export { ORGANISATION_CODE_PATTERN, formatOrderNumber, yearIn, organisationCodeCandidates } from './order-number';

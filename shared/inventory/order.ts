@@ -4,6 +4,7 @@ import { economicOrderQuantity, reorderPoint, safetyStock } from './policy';
 /**
  * Order quantity in units: `quantity` raised to `minimumOrder` and then up to whole packs of
  * `packSize`; 0 when nothing is needed (quantity ≤ 0), since a minimum order only applies to an order.
+ * Rounding up to whole packs is common practice, no published source.
  */
 export function roundUpToPack(quantity: number, packSize: number, minimumOrder = 0): number {
   const q = finiteNumber('quantity', quantity);

@@ -68,6 +68,10 @@ export interface SessionUser {
   role: Role;
   organisationId: number;
   organisationName: string;
+  /** The organisation's short code, the start of its order numbers ("TB"). */
+  organisationCode: string;
+  /** ISO 4217 code of the organisation's money figures ("EUR"). */
+  currency: string;
   unitSystem: UnitSystem;
   flagMail: FlagMailChoice;
   /** Farms this user may see (all of the organisation's for owners and managers). */

@@ -11,3 +11,4 @@ export * from './inventory';
 export * from './flags';
 export * from './brews';
 export * from './outbox';
+export * from './organisation';

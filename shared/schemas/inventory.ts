@@ -134,7 +134,7 @@ export const inputListQuerySchema = z.object({
 });
 
 /** Purchase order states. */
-export const ORDER_STATUSES = ['draft', 'sent', 'part-received', 'received', 'cancelled'] as const;
+export const ORDER_STATUSES = ['draft', 'sent', 'part-received', 'received', 'closed-short', 'cancelled'] as const;
 export type OrderStatus = (typeof ORDER_STATUSES)[number];
 
 const orderLine = z.object({ inputId: idSchema, quantity: z.number({ error: 'must be a number' }).finite().positive('must be greater than 0').max(100_000_000), unitPrice: money('Unit price').optional() });
@@ -167,6 +167,12 @@ export const orderReceiptSchema = z.object({
 });
 export type OrderReceiptInput = z.infer<typeof orderReceiptSchema>;
 
+/** Body of POST /api/orders/:id/close-short: a part-received order ends, the rest not delivered is cancelled. */
+export const orderCloseShortSchema = z.object({
+  reason: z.string({ error: 'say why the rest will not come' }).trim().min(3, 'say why the rest will not come').max(300, 'At most 300 characters'),
+});
+export type OrderCloseShortInput = z.infer<typeof orderCloseShortSchema>;
+
 /** A purchase order with its lines. */
 export interface PurchaseOrder {
   id: number;
@@ -181,6 +187,11 @@ export interface PurchaseOrder {
   createdAt: string;
   sentAt: string | null;
   createdBy: string;
-  lines: { id: number; inputId: number; inputName: string; unit: string; quantity: number; unitPrice: number; receivedQuantity: number; lineTotal: number }[];
+  /** When a part-received order was closed short, and why (null otherwise). */
+  closedShortAt: string | null;
+  closedShortReason: string | null;
+  closedShortBy: string | null;
+  /** cancelledQuantity: what will not come on a closed-short order (units; 0 on any other). */
+  lines: { id: number; inputId: number; inputName: string; unit: string; quantity: number; unitPrice: number; receivedQuantity: number; cancelledQuantity: number; lineTotal: number }[];
   total: number;
 }

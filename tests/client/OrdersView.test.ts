@@ -54,7 +54,7 @@ const draft = makeOrder(8, { supplierName: 'Gorse Lane Supply', supplierEmail: '
 const partReceived = makeOrder(9, {
   status: 'part-received',
   sentAt: '2026-03-02T10:00:00.000Z',
-  lines: [{ id: 601, inputId: 41, inputName: 'Fish emulsion', unit: 'L', quantity: 180, unitPrice: 2.4, receivedQuantity: 100, lineTotal: 432 }],
+  lines: [{ id: 601, inputId: 41, inputName: 'Fish emulsion', unit: 'L', quantity: 180, unitPrice: 2.4, receivedQuantity: 100, cancelledQuantity: 0, lineTotal: 432 }],
 });
 
 async function mountAt(path: string) {

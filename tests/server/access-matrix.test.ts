@@ -163,6 +163,14 @@ const ROWS: Row[] = [
   { route: 'POST /api/orders/:id/send', url: async (w, s) => `/api/orders/${await freshOrder(w, s)}/send`, expect: purchasing({ own: 200, 'other-farm': 200, 'other-org': 404 }, { own: 200, 'other-farm': 403, 'other-org': 404 }) },
   { route: 'POST /api/orders/:id/cancel', url: async (w, s) => `/api/orders/${await freshOrder(w, s)}/cancel`, expect: purchasing({ own: 200, 'other-farm': 200, 'other-org': 404 }, { own: 200, 'other-farm': 403, 'other-org': 404 }) },
   {
+    route: 'POST /api/orders/:id/close-short',
+    url: async (w, s) => `/api/orders/${await freshOrder(w, s, 'part-received')}/close-short`,
+    body: () => ({ reason: 'the rest is out of stock at the supplier' }),
+    expect: purchasing({ own: 200, 'other-farm': 200, 'other-org': 404 }, { own: 200, 'other-farm': 403, 'other-org': 404 }),
+  },
+  { route: 'GET /api/organisation', url: () => '/api/organisation', expect: signedInOnly(200) },
+  { route: 'PATCH /api/organisation', url: () => '/api/organisation', body: () => ({ currency: 'EUR' }), expect: ownerOnly(200) },
+  {
     route: 'POST /api/orders/:id/receipts',
     url: async (w, s) => `/api/orders/${await freshOrder(w, s, 'sent')}/receipts`,
     body: (w, s) => ({ lines: [{ lineId: w.stock[s].lastLineId, quantity: 1 }] }),
@@ -195,7 +203,7 @@ const env = useTestApp({ SIGN_IN_LIMIT_PER_IP: '100000', SIGN_IN_LIMIT_PER_ACCOU
 const world = {} as World;
 
 /** A new order on the scope's farm (each state change needs its own); remembers its line for receipts. */
-async function freshOrder(w: World, s: Scope, status: 'draft' | 'sent' = 'draft'): Promise<number> {
+async function freshOrder(w: World, s: Scope, status: 'draft' | 'sent' | 'part-received' = 'draft'): Promise<number> {
   const { PurchaseOrder, PurchaseOrderLine, Input } = env.ctx.db.models;
   const input = (await Input.findByPk(w.stock[s].inputId))!;
   const o = await PurchaseOrder.create({ organisationId: input.organisationId, farmId: input.farmId, supplierId: w.stock[s].supplierId, number: `MX-${++seq}`, status, notes: '', sentAt: null, createdById: null });

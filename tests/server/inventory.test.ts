@@ -77,8 +77,10 @@ describe('purchase orders', () => {
     expect(sent.body.status).toBe('sent');
     const mail = await waitForMail(env.config.outboxDir, supplier.email);
     expect(mail.subject).toBe(`Purchase order ${order.number} — ${sent.body.farmName ? (await buyer.get('/api/auth/me')).body.organisationName : ''}`);
-    expect(mail.text).toContain(`Kelp concentrate — ${line.quantity.toLocaleString('en-US')} L at 6.50`);
-    expect(mail.text).toContain(`Order total: ${order.total.toLocaleString('en-US', { minimumFractionDigits: 2, maximumFractionDigits: 2 })}`);
+    // Money in the organisation's currency (EUR unless an owner chose another), as Intl.NumberFormat writes it.
+    const euro = new Intl.NumberFormat('en-GB', { style: 'currency', currency: 'EUR' });
+    expect(mail.text).toContain(`Kelp concentrate — ${line.quantity.toLocaleString('en-GB')} L at ${euro.format(6.5)}`);
+    expect(mail.text).toContain(`Order total: ${euro.format(order.total)}`);
     expect(mail.attachments.map((a) => a.filename)).toEqual([`${order.number}.csv`]);
     await call(buyer, 'post', `/api/orders/${order.id}/send`).expect(409);
 

@@ -212,6 +212,8 @@ describe('demandFromMovements', () => {
   });
 });
 
+// Rounding the EOQ (or the shortfall) up to whole packs and to the supplier's minimum order:
+// common practice, no published source. The EOQ itself stays the computation checked above.
 describe('roundUpToPack', () => {
   it.each([
     [37, 10, 0, 40],

@@ -7,6 +7,7 @@ export const ORDER_STATUS_LABELS: Record<OrderStatus, { label: string; severity:
   sent: { label: 'Sent', severity: 'info' },
   'part-received': { label: 'Part received', severity: 'warn' },
   received: { label: 'Received', severity: 'success' },
+  'closed-short': { label: 'Closed short', severity: 'secondary' },
   cancelled: { label: 'Cancelled', severity: 'contrast' },
 };
 
@@ -18,6 +19,11 @@ export function openQuantity(line: PurchaseOrder['lines'][number]): number {
 /** Whether a delivery can still be booked in against this order. */
 export function canReceive(order: Pick<PurchaseOrder, 'status'>): boolean {
   return order.status === 'sent' || order.status === 'part-received';
+}
+
+/** Whether the rest of a part-delivered order can be given up (closed short). */
+export function canCloseShort(order: Pick<PurchaseOrder, 'status'>): boolean {
+  return order.status === 'part-received';
 }
 
 /** Whether the order may still be cancelled. */

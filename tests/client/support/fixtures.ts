@@ -9,6 +9,8 @@ export function makeUser(role: Role, overrides: Partial<SessionUser> = {}): Sess
     role,
     organisationId: 7,
     organisationName: 'Hollowbrook Growers',
+    organisationCode: 'HG',
+    currency: 'EUR',
     unitSystem: 'metric',
     flagMail: 'digest',
     farmIds: [11, 12],

@@ -61,7 +61,7 @@ export function makeMovement(id: number, inputId: number, overrides: Partial<Mov
 export function makeOrder(id: number, overrides: Partial<PurchaseOrder> = {}): PurchaseOrder {
   return {
     id,
-    number: `PO-${String(id).padStart(5, '0')}`,
+    number: `HG-26-${String(id).padStart(3, '0')}`,
     farmId: 11,
     farmName: 'Creek site',
     supplierId: 31,
@@ -72,7 +72,10 @@ export function makeOrder(id: number, overrides: Partial<PurchaseOrder> = {}): P
     createdAt: '2026-03-02T09:00:00.000Z',
     sentAt: null,
     createdBy: 'Priya Nand',
-    lines: [{ id: 501, inputId: 41, inputName: 'Input 41', unit: 'L', quantity: 180, unitPrice: 2.4, receivedQuantity: 0, lineTotal: 432 }],
+    closedShortAt: null,
+    closedShortReason: null,
+    closedShortBy: null,
+    lines: [{ id: 501, inputId: 41, inputName: 'Input 41', unit: 'L', quantity: 180, unitPrice: 2.4, receivedQuantity: 0, cancelledQuantity: 0, lineTotal: 432 }],
     total: 432,
     ...overrides,
   };
