@@ -8,7 +8,8 @@ import { capacityL, heightMm, type TankGeometry } from '@shared/calibration';
 import { totalsOf } from '@shared/board';
 import { daysOfCoverSince } from '@shared/forecast';
 import { stockFigures, usableCapacityL } from '@shared/readings';
-import { TANK_CONTENTS, type BoardHistory, type FarmBoard, type SessionUser, type StockBoard, type TankContents, type TankTile } from '@shared/schemas';
+import { datesEndingOn, farmDayOf } from '@shared/time';
+import { TANK_CONTENTS, type BoardHistory, type BoardHistoryFarm, type FarmBoard, type SessionUser, type StockBoard, type TankContents, type TankTile } from '@shared/schemas';
 import type { AppContext } from '../context';
 import { queueForecastRefresh } from './forecasts';
 
@@ -236,19 +237,28 @@ export function gzippedBoard(board: KeptBoard): Promise<Buffer> {
   return board.gzip;
 }
 
-/** Usable litres per contents for each of the last `days` days, carrying each tank's last known value forward. */
-export async function boardHistory(ctx: AppContext, actor: SessionUser, days = 14): Promise<BoardHistory> {
-  const dayList: string[] = [];
-  const today = new Date();
-  for (let i = days - 1; i >= 0; i--) dayList.push(new Date(today.getTime() - i * 86_400_000).toISOString().slice(0, 10));
-  if (!actor.farmIds.length) return { days: dayList, series: TANK_CONTENTS.map((contents) => ({ contents, usableL: dayList.map(() => null) })) };
+/**
+ * Usable litres per contents for each of the last `days` farm-local dates, carrying each tank's last
+ * known value forward. A tank's day is its farm's local day (tank_days). The dates end at the latest
+ * farm-local today among the farms shown (a farm east of the others reaches a date first); a farm that
+ * has not reached that date yet counts its latest value there. Each farm's zone and today are listed.
+ */
+export async function boardHistory(ctx: AppContext, actor: SessionUser, days = 14, now = Date.now()): Promise<BoardHistory> {
+  const farms = actor.farmIds.length
+    ? (await ctx.db.models.Farm.findAll({ where: { organisationId: actor.organisationId, id: actor.farmIds, archivedAt: null }, attributes: ['id', 'name', 'timeZone'], order: [['name', 'ASC']] })).map(
+        (f): BoardHistoryFarm => ({ farmId: f.id, name: f.name, timeZone: f.timeZone, today: farmDayOf(now, f.timeZone) }),
+      )
+    : [];
+  const lastDate = farms.reduce((last, f) => (f.today > last ? f.today : last), farms.length ? farms[0].today : farmDayOf(now, 'UTC'));
+  const dayList = datesEndingOn(lastDate, days);
+  if (!farms.length) return { days: dayList, farms, series: TANK_CONTENTS.map((contents) => ({ contents, usableL: dayList.map(() => null) })) };
   const rows = await ctx.db.sequelize.query<{ tankId: number; day: string; usableL: number; contents: TankContents }>(
     `SELECT d.tankId, DATE_FORMAT(d.day, '%Y-%m-%d') AS day, d.usableL, t.contents
        FROM tank_days d JOIN tanks t ON t.id = d.tankId
       WHERE d.organisationId = ? AND d.farmId IN (?) AND t.archivedAt IS NULL
         AND (d.day >= ? OR d.day = (SELECT MAX(d2.day) FROM tank_days d2 WHERE d2.tankId = d.tankId AND d2.day < ?))
       ORDER BY d.day`,
-    { replacements: [actor.organisationId, actor.farmIds, dayList[0], dayList[0]], type: QueryTypes.SELECT },
+    { replacements: [actor.organisationId, farms.map((f) => f.farmId), dayList[0], dayList[0]], type: QueryTypes.SELECT },
   );
   const last = new Map<number, { usableL: number; contents: TankContents }>();
   const series = TANK_CONTENTS.map((contents) => ({ contents, usableL: [] as (number | null)[] }));
@@ -263,5 +273,5 @@ export async function boardHistory(ctx: AppContext, actor: SessionUser, days = 1
       s.usableL.push(vals.length ? vals.reduce((a, v) => a + v.usableL, 0) : null);
     }
   }
-  return { days: dayList, series };
+  return { days: dayList, farms, series };
 }

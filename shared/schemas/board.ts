@@ -62,8 +62,23 @@ export interface StockBoard {
   farms: FarmBoard[];
 }
 
-/** GET /api/board/history: usable litres per contents per local day. */
+/** A farm on the board history: whose local days its tanks' figures follow. */
+export interface BoardHistoryFarm {
+  farmId: number;
+  name: string;
+  /** The IANA time zone whose midnights start and end this farm's days. */
+  timeZone: string;
+  /** The farm's local date now ('YYYY-MM-DD'). */
+  today: string;
+}
+
+/**
+ * GET /api/board/history: usable litres per contents per farm-local day. `days` are calendar dates
+ * ('YYYY-MM-DD'), each farm's figures taken from its own local day; they end at the latest `today`
+ * of the farms, and a farm not yet at a date counts its latest value there.
+ */
 export interface BoardHistory {
   days: string[];
+  farms: BoardHistoryFarm[];
   series: { contents: TankContents; usableL: (number | null)[] }[];
 }
