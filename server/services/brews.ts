@@ -1,10 +1,12 @@
 // Brews: batches made in a tank. Each input used becomes a use movement on that input's stock,
-// in the same transaction as the brew, so a brew never takes stock that is not there.
+// in the same transaction as the brew, so a brew never takes stock that is not there, and a batch
+// larger than the tank's free space below its safe fill line is refused before anything is stored.
 import { Op } from 'sequelize';
+import { batchFit, batchOverText, batchVolumeL } from '@shared/mixing';
 import type { Brew as BrewDto, BrewCreateInput, BrewUpdateInput, SessionUser } from '@shared/schemas';
 import type { AppContext } from '../context';
 import { AppError, forbidden, notFound } from '../errors';
-import type { Brew } from '../models';
+import type { Brew, Tank } from '../models';
 import { recordMovement } from './inventory';
 import { tankFor, updateTank } from './tanks';
 
@@ -55,12 +57,32 @@ export async function listBrews(ctx: AppContext, actor: SessionUser, q: { farmId
   return toDtos(ctx, brews);
 }
 
+/**
+ * Refuses with 422 naming waterL a batch (water plus inputs counted by volume) larger than the tank's
+ * free space by its latest reading before the start; without such a reading there is nothing to measure.
+ */
+async function assertBatchFits(ctx: AppContext, actor: SessionUser, tank: Tank, body: BrewCreateInput, startedAt: Date): Promise<void> {
+  const latest = await ctx.db.models.TankLatest.findByPk(tank.id);
+  const inputIds = [...new Set(body.inputs.map((l) => l.inputId))];
+  const units = new Map((await ctx.db.models.Input.findAll({ where: { id: inputIds, organisationId: actor.organisationId }, attributes: ['id', 'unit'] })).map((i) => [i.id, i.unit]));
+  const batchL = batchVolumeL(body.waterL, body.inputs.map((l) => ({ quantity: l.quantity, unit: units.get(l.inputId) ?? '' })));
+  const fit = batchFit({
+    geometry: tank.geometry,
+    safeFillLevelMm: tank.safeFillLevelMm,
+    latest: latest ? { grossL: latest.grossL, takenAt: latest.takenAt.toISOString() } : null,
+    startedAt: startedAt.toISOString(),
+    batchL,
+  });
+  if (fit.verdict === 'over') throw new AppError(422, 'batch_over_free_space', `waterL: ${batchOverText(fit)}`, 'waterL');
+}
+
 /** Logs a brew and the use of each input in one transaction; the tank's contents follow the brew. */
 export async function createBrew(ctx: AppContext, actor: SessionUser, body: BrewCreateInput): Promise<BrewDto> {
   const tank = await tankFor(ctx, actor, body.tankId);
   const startedAt = body.startedAt ? new Date(body.startedAt) : new Date();
   if (startedAt.getTime() > Date.now() + 5 * 60_000) throw new AppError(400, 'invalid_input', 'startedAt: a brew cannot start in the future', 'startedAt');
   if (body.readyAt && new Date(body.readyAt) < startedAt) throw new AppError(400, 'invalid_input', 'readyAt: must be after the start', 'readyAt');
+  await assertBatchFits(ctx, actor, tank, body, startedAt);
   const brew = await ctx.db.sequelize.transaction(async (transaction) => {
     const b = await ctx.db.models.Brew.create(
       { organisationId: actor.organisationId, farmId: tank.farmId, tankId: tank.id, kind: body.kind, name: body.name, status: 'brewing', startedAt, readyAt: body.readyAt ? new Date(body.readyAt) : null, waterL: body.waterL, dilution: body.dilution, notes: body.notes, createdById: actor.id },

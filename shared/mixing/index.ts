@@ -22,3 +22,16 @@ export {
   type InjectionRatioInput,
   type DosingRateInput,
 } from './injection';
+export {
+  BATCH_FIT_WARN_SHARE,
+  INPUT_UNITS_PER_LITRE,
+  litresPerInputUnit,
+  batchVolumeL,
+  batchFit,
+  batchOverText,
+  inputShortfalls,
+  type BatchFitInput,
+  type BatchFitFigures,
+  type BatchFit,
+  type InputShortfall,
+} from './batch-fit';

@@ -45,4 +45,22 @@ describe('brews', () => {
     expect(ready.body.status).toBe('ready');
     await call(worker, 'post', `/api/brews/${brew.id}/temperatures`, { temperatureC: 120 }).expect(400);
   });
+
+  // The 1,000 mm test cylinder read at 1,000 mm with its safe fill line at 1,400 mm has
+  // π/4 · (1 m)² · 0.4 m = 314.159 L of free space (hand derivation, π r² h).
+  it('refuses with 422 naming waterL a batch larger than the free space below the safe fill line, storing nothing', async () => {
+    const { org, tank, input, worker } = await setup();
+    await call(worker, 'post', '/api/rounds', { farmId: org.farmIds[0], entries: [{ tankId: tank.id, readingMm: 1000, idempotencyKey: `fit${Date.now()}` }] }).expect(201);
+    // 300 L of water and 15 L of an input counted in litres make 315 L: 0.84 L too many.
+    const over = await call(worker, 'post', '/api/brews', { tankId: tank.id, kind: 'fertilizer', name: 'Kelp feed', waterL: 300, inputs: [{ inputId: input.id, quantity: 10 }, { inputId: input.id, quantity: 5 }] }).expect(422);
+    expect(over.body.error).toEqual({
+      code: 'batch_over_free_space',
+      field: 'waterL',
+      message: "waterL: the batch of 315 L is 0.8 L more than the tank's free space: it holds 785.4 L and 1,099.6 L reaches its safe fill line, leaving 314.2 L",
+    });
+    expect((await worker.get('/api/brews').expect(200)).body).toEqual([]);
+    expect((await worker.get(`/api/inputs/${input.id}`).expect(200)).body.onHand).toBeCloseTo(10, 9);
+    // 314 L fits (within the last 10 %: the form warns, the server lets it through).
+    await call(worker, 'post', '/api/brews', { tankId: tank.id, kind: 'fertilizer', name: 'Kelp feed', waterL: 304, inputs: [{ inputId: input.id, quantity: 10 }] }).expect(201);
+  });
 });
