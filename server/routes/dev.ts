@@ -1,4 +1,5 @@
 import { Router } from 'express';
+import type { OutboxList } from '@shared/schemas';
 import type { AppContext } from '../context';
 import { actorOf, requireRole } from '../middleware/access';
 import { clearOutboxOf, listOutbox, outboxAttachment } from '../services/outbox';
@@ -12,7 +13,7 @@ export function devRouter(ctx: AppContext) {
   const router = Router();
   const readers = requireRole('owner', 'manager', 'buyer');
   router.get('/outbox', readers, async (req, res) => {
-    res.json({ messages: await listOutbox(ctx, actorOf(req)) });
+    res.json({ messages: await listOutbox(ctx, actorOf(req)) } satisfies OutboxList);
   });
   router.get('/outbox/:id/attachments/:index', readers, async (req, res) => {
     const id = String(req.params.id);

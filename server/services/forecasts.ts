@@ -1,8 +1,8 @@
 // Tank forecasts: use rate, days of cover and suspected leaks from shared/forecast, over the
 // tank's effective readings. The rate is cached in tank_latest so the board reads it cheaply.
 import { col, Op } from 'sequelize';
-import { tankForecast, type TankForecast } from '@shared/forecast';
-import type { SessionUser } from '@shared/schemas';
+import { tankForecast } from '@shared/forecast';
+import type { SessionUser, TankForecastDto } from '@shared/schemas';
 import type { AppContext } from '../context';
 import type { Tank } from '../models';
 import { tankFor } from './tanks';
@@ -10,14 +10,6 @@ import { tankFor } from './tanks';
 const WINDOW_DAYS = 14;
 /** Quiet hours when no irrigation is planned: common practice, no published source; night draws are rare. */
 export const QUIET_HOURS = { startHour: 23, endHour: 5 };
-
-export interface TankForecastDto extends Omit<TankForecast, 'projectedEmptyAt' | 'leaks'> {
-  tankId: number;
-  usableL: number | null;
-  windowDays: number;
-  projectedEmptyAt: string | null;
-  leaks: { from: string; to: string; lossL: number; rateLPerHour: number }[];
-}
 
 /** The tank's effective readings of the forecast window (plus two days), oldest first, as plain rows. */
 async function seriesOf(ctx: AppContext, tankId: number, now: number): Promise<{ takenAt: number; volumeL: number }[]> {
@@ -43,10 +35,10 @@ async function refreshRate(ctx: AppContext, tank: Tank, timeZone: string): Promi
   await latest.update({ useLPerDay: f.meanLPerDay, useSdLPerDay: f.sdLPerDay, forecastAt: new Date(now) });
 }
 
-/** Computes a tank's forecast now and caches its use rate beside the latest reading (unless `store` is false). */
-export async function computeForecast(ctx: AppContext, tank: Tank, timeZone: string, opts: { store?: boolean } = {}): Promise<TankForecastDto> {
+/** Computes a tank's forecast now (or at `now`, epoch ms) over the farm's local days in `timeZone` and caches its use rate beside the latest reading (unless `store` is false). */
+export async function computeForecast(ctx: AppContext, tank: Tank, timeZone: string, opts: { store?: boolean; now?: number } = {}): Promise<TankForecastDto> {
   const { TankLatest } = ctx.db.models;
-  const now = Date.now();
+  const now = opts.now ?? Date.now();
   const latest = await TankLatest.findByPk(tank.id);
   const series = await seriesOf(ctx, tank.id, now);
   // Cover runs from the latest reading: the use since then is taken off at the mean rate.

@@ -5,6 +5,7 @@ export * from './farms';
 export * from './tanks';
 export * from './readings';
 export * from './board';
+export * from './forecasts';
 export * from './gauge';
 export * from './imports';
 export * from './inventory';

@@ -33,3 +33,8 @@ export const OUTBOX_KINDS_BY_ROLE = {
   buyer: ['order'],
   worker: [],
 } as const satisfies Record<Role, readonly MailKind[]>;
+
+/** GET /api/dev/outbox: the captured mails the caller may read, newest first. */
+export interface OutboxList {
+  messages: OutboxMessage[];
+}

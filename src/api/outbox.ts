@@ -1,11 +1,11 @@
-import type { OutboxMessage } from '@shared/schemas';
+import type { OutboxList, OutboxMessage } from '@shared/schemas';
 import { http } from './http';
 
 export type { OutboxMessage };
 
 /** Captured mails of the caller's organisation, newest first; 404 when the server runs without the development mail receiver. */
 export async function fetchOutbox(): Promise<OutboxMessage[]> {
-  const body = await http.get<{ messages: OutboxMessage[] }>('/api/dev/outbox');
+  const body = await http.get<OutboxList>('/api/dev/outbox');
   return body.messages;
 }
 

@@ -1,4 +1,4 @@
-import type { Tank, TankContentsPeriod, TankCreateInput, TankUpdateInput, UnitSystem } from '@shared/schemas';
+import type { TankForecastDto, TankLeakWindow, Tank, TankContentsPeriod, TankCreateInput, TankUpdateInput, UnitSystem } from '@shared/schemas';
 import { http } from './http';
 
 /** A calibration table as GET /api/tanks/:id/calibration returns it (levels and volumes in the units named). */
@@ -11,33 +11,9 @@ export interface CalibrationTable {
   rows: { level: number; volume: number }[];
 }
 
-/** A suspected leak: a fall during quiet hours (times ISO, loss in L, rate in L/h). */
-export interface TankLeakWindow {
-  from: string;
-  to: string;
-  lossL: number;
-  rateLPerHour: number;
-}
-
-/** A tank's forecast as GET /api/tanks/:id/forecast returns it (litres, L/day, days, ISO times). */
-export interface TankForecast {
-  tankId: number;
-  /** Usable volume now (L); null before the first reading. */
-  usableL: number | null;
-  /** Local days the forecast looks back over. */
-  windowDays: number;
-  meanLPerDay: number;
-  /** Sample standard deviation of daily use (L/day). */
-  sdLPerDay: number;
-  /** Whole days of readings behind the rate. */
-  days: number;
-  /** Days the usable volume lasts at the mean rate; null when no use was seen. */
-  daysOfCover: number | null;
-  projectedEmptyAt: string | null;
-  /** Half-width of the reading noise band (L). */
-  noiseL: number;
-  leaks: TankLeakWindow[];
-}
+/** A tank's forecast as GET /api/tanks/:id/forecast returns it (the DTO in shared/schemas). */
+export type TankForecast = TankForecastDto;
+export type { TankLeakWindow };
 
 /** Tanks the user may see, in walking order; one farm's when farmId is given. */
 export function fetchTanks(options: { farmId?: number; includeArchived?: boolean } = {}): Promise<Tank[]> {

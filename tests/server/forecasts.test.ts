@@ -3,7 +3,8 @@ import { useTestApp } from '../support/db';
 import { makeOrganisation, signedIn } from '../support/fixtures';
 import { makeTank } from '../support/tanks';
 import { insertReadings, type NewReading } from '../../server/services/readings';
-import { queueForecastRefresh } from '../../server/services/forecasts';
+import { computeForecast, queueForecastRefresh } from '../../server/services/forecasts';
+import { addDays, farmDayStart } from '@shared/time';
 
 const env = useTestApp();
 const L_PER_MM = Math.PI / 4;
@@ -73,5 +74,40 @@ describe('tank forecasts', () => {
     } finally {
       env.ctx.events.off('forecasts', listen);
     }
+  });
+});
+
+// Europe/Madrid follows Directive 2000/84/EC, art. 2 and 3: summer time from 01:00 UTC on the last Sunday
+// of March to 01:00 UTC on the last Sunday of October (IANA tzdb "Rule EU"); in 2026 29 March and 25 October.
+describe('tank forecast days in the farm zone', () => {
+  // A day before the window, then 14 days alternating 100 L and 20 L: mean 60 L/day, sample spread
+  // √(14 · 40² / 13) = 41.510 L/day (hand computation).
+  const USES = [20, ...Array.from({ length: 14 }, (_, i) => (i % 2 === 0 ? 100 : 20))];
+  const SD = Math.sqrt((14 * 1600) / 13);
+
+  it.each([
+    ['spring', '2026-03-21', '2026-04-05T10:00:00Z'],
+    ['autumn', '2026-10-17', '2026-11-01T10:00:00Z'],
+  ])('bins readings taken at each local midnight by the farm day they start, across the %s change', async (_season, firstDate, now) => {
+    const org = await makeOrganisation(env);
+    const tank = await makeTank(env, org, org.farmIds[0], { code: `Z${firstDate.slice(5, 7)}` });
+    let grossL = 1400 * L_PER_MM;
+    const rows: NewReading[] = [];
+    for (let i = 0; i <= USES.length; i++) {
+      if (i > 0) grossL -= USES[i - 1];
+      const levelMm = grossL / L_PER_MM;
+      rows.push({
+        organisationId: org.organisationId, farmId: tank.farmId, tankId: tank.id, takenAt: new Date(farmDayStart(addDays(firstDate, i), 'Europe/Madrid')), source: 'round', levelMm,
+        grossL, usableL: (levelMm - 100) * L_PER_MM, temperatureC: null, calibrationVersion: tank.calibrationVersion, enteredById: null, importId: null, note: '', idempotencyKey: null,
+      });
+    }
+    await env.ctx.db.sequelize.transaction((t) => insertReadings(env.ctx, rows, new Map([[tank.farmId, 'Europe/Madrid']]), t));
+    const f = await computeForecast(env.ctx, tank, 'Europe/Madrid', { store: false, now: Date.parse(now) });
+    expect(f.days).toBe(14);
+    expect(f.meanLPerDay).toBeCloseTo(60, 6);
+    expect(f.sdLPerDay).toBeCloseTo(SD, 6);
+    // The same readings binned with one offset for the whole window (UTC here) mix neighbouring days.
+    const utc = await computeForecast(env.ctx, tank, 'UTC', { store: false, now: Date.parse(now) });
+    expect(utc.sdLPerDay).toBeLessThan(SD - 1);
   });
 });
