@@ -5,7 +5,8 @@ import type { AppContext } from '../context';
 import { toCsv } from '../csv';
 import { actorOf, requireRole, requireSignIn } from '../middleware/access';
 import { gaugeStripPdf } from '../services/gauge-strip';
-import { calibrationTable, contentsHistory, createTank, listTanks, tankFor, toTankDto, updateTank } from '../services/tanks';
+import { calibrationTable, calibrationVersions } from '../services/tank-calibrations';
+import { contentsHistory, createTank, listTanks, tankFor, toTankDto, updateTank } from '../services/tanks';
 import { idParam, parse } from '../validate';
 import { forecastFor } from '../services/forecasts';
 
@@ -34,6 +35,9 @@ export function tanksRouter(ctx: AppContext) {
   router.get('/:id/contents', requireSignIn, async (req, res) => {
     res.json(await contentsHistory(ctx, actorOf(req), idParam(req.params.id, 'Tank')));
   });
+  router.get('/:id/calibrations', requireSignIn, async (req, res) => {
+    res.json(await calibrationVersions(ctx, actorOf(req), idParam(req.params.id, 'Tank')));
+  });
   router.get('/:id/calibration', requireSignIn, async (req, res) => {
     const q = parse(calibrationQuerySchema, req.query);
     const table = await calibrationTable(ctx, actorOf(req), idParam(req.params.id, 'Tank'), q);
@@ -41,9 +45,9 @@ export function tanksRouter(ctx: AppContext) {
     const tank = await tankFor(ctx, actorOf(req), table.tankId);
     // toCsv: no cell (the tank's name included) can run as a formula in a spreadsheet.
     const csv = toCsv(
-      { fields: [`level_${table.lengthUnit}`, `tube_reading_${table.lengthUnit}`, `volume_${table.volumeUnit}`], data: table.rows.map((r) => [round(r.level), round(r.level - table.datumOffset), round(r.volume)]) },
+      { fields: [`tube_reading_${table.lengthUnit}`, `level_above_floor_${table.lengthUnit}`, `volume_${table.volumeUnit}`], data: table.rows.map((r) => [round(r.reading), round(r.level), round(r.volume)]) },
     );
-    const title = toCsv([[`# ${tank.name} (${tank.code})`], [`# calibration ${table.version}`]]);
+    const title = toCsv([[`# ${tank.name} (${tank.code})`], [`# calibration ${table.number} of ${table.calibratedAt.slice(0, 10)}`]]);
     res.type('text/csv').attachment(`${tank.code}-calibration.csv`).send(`${title}\r\n${csv}\r\n`);
   });
   router.get('/:id/gauge-strip.pdf', requireSignIn, async (req, res) => {

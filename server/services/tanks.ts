@@ -1,8 +1,8 @@
-// Tanks: shape and sight-tube settings, calibration versions and contents history.
+// Tanks: shape and sight-tube settings, calibration versions and contents history (numbered
+// versions and the calibration table are in tank-calibrations.ts).
 import type { Transaction } from 'sequelize';
-import { buildCalibrationTable, calibrationVersion, capacityL, heightMm, MAX_TABLE_ROWS } from '@shared/calibration';
+import { calibrationVersion, capacityL, heightMm } from '@shared/calibration';
 import type { SessionUser, Tank as TankDto, TankContentsPeriod as PeriodDto, TankCreateInput, TankUpdateInput } from '@shared/schemas';
-import { convert } from '@shared/units';
 import type { AppContext } from '../context';
 import { AppError, forbidden, notFound } from '../errors';
 import { assertFarmAccess } from './access';
@@ -150,34 +150,4 @@ export async function contentsHistory(ctx: AppContext, actor: SessionUser, id: n
     to: r.toAt ? r.toAt.toISOString() : null,
     changedBy: (r.changedById && users.get(r.changedById)) || '',
   }));
-}
-
-export interface CalibrationTableDto {
-  tankId: number;
-  version: string;
-  lengthUnit: 'mm' | 'in';
-  volumeUnit: 'L' | 'usgal';
-  /** Level of the tank floor on the sight tube's scale: tube reading = level − datum. */
-  datumOffset: number;
-  rows: { level: number; volume: number }[];
-}
-
-/** The calibration table at `step` (in mm for metric, inches for US), levels and volumes in those units. */
-export async function calibrationTable(ctx: AppContext, actor: SessionUser, id: number, opts: { step: number; unit: 'metric' | 'us' }): Promise<CalibrationTableDto> {
-  const tank = await tankFor(ctx, actor, id);
-  const lengthUnit = opts.unit === 'us' ? 'in' : 'mm';
-  const volumeUnit = opts.unit === 'us' ? 'usgal' : 'L';
-  const stepMm = convert(opts.step, lengthUnit, 'mm');
-  if (heightMm(tank.geometry) / stepMm > MAX_TABLE_ROWS) {
-    throw new AppError(400, 'invalid_input', `step: too small for this tank (more than ${MAX_TABLE_ROWS.toLocaleString('en-US')} rows)`, 'step');
-  }
-  const table = buildCalibrationTable(tank.geometry, stepMm);
-  return {
-    tankId: tank.id,
-    version: tank.calibrationVersion,
-    lengthUnit,
-    volumeUnit,
-    datumOffset: convert(tank.datumOffsetMm, 'mm', lengthUnit),
-    rows: table.map((r) => ({ level: convert(r.levelMm, 'mm', lengthUnit), volume: convert(r.volumeL, 'L', volumeUnit) })),
-  };
 }

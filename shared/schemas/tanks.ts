@@ -84,3 +84,35 @@ export const calibrationQuerySchema = z.object({
   unit: z.enum(['metric', 'us']).default('metric'),
   format: z.enum(['json', 'csv']).default('json'),
 });
+
+/**
+ * One calibration a tank has had (GET /api/tanks/:id/calibrations): numbered 1, 2, 3… per tank in
+ * the order they were made. Every reading is stored against the calibration current at its time.
+ */
+export interface TankCalibrationVersion {
+  /** 1 for the tank's first calibration, then one more for each new one. */
+  number: number;
+  /** The key a reading's calibrationVersion holds: for matching readings, never for showing. */
+  key: string;
+  /** When this calibration was first made (ISO). */
+  createdAt: string;
+  /** True for the calibration new readings are stored with. */
+  current: boolean;
+  geometry: TankGeometry;
+  /** Height of the tube's zero mark above the floor under this calibration, mm (negative below). */
+  datumOffsetMm: number;
+}
+
+/** A calibration table by tube reading (GET /api/tanks/:id/calibration), lengths and volumes in the units named. */
+export interface CalibrationTableDto {
+  tankId: number;
+  /** The number of the tank's current calibration, and when it was made (ISO). */
+  number: number;
+  calibratedAt: string;
+  lengthUnit: 'mm' | 'in';
+  volumeUnit: 'L' | 'usgal';
+  /** Height of the tube's zero mark above the floor: level = tube reading + datumOffset. */
+  datumOffset: number;
+  /** Rows by what the tube reads, each with the level above the floor it means and the volume there. */
+  rows: { reading: number; level: number; volume: number }[];
+}

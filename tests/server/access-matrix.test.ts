@@ -107,6 +107,7 @@ const ROWS: Row[] = [
   { route: 'GET /api/tanks/:id/forecast', url: (w, s) => `/api/tanks/${tank(w, s)}/forecast`, expect: farmRead(200) },
   { route: 'GET /api/tanks/:id/contents', url: (w, s) => `/api/tanks/${tank(w, s)}/contents`, expect: farmRead(200) },
   { route: 'GET /api/tanks/:id/calibration', url: (w, s) => `/api/tanks/${tank(w, s)}/calibration?step=50`, expect: farmRead(200) },
+  { route: 'GET /api/tanks/:id/calibrations', url: (w, s) => `/api/tanks/${tank(w, s)}/calibrations`, expect: farmRead(200) },
   { route: 'GET /api/tanks/:id/gauge-strip.pdf', url: (w, s) => `/api/tanks/${tank(w, s)}/gauge-strip.pdf?every=50&unit=metric&paper=a4`, expect: farmRead(200) },
   {
     route: 'POST /api/rounds',

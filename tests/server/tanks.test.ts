@@ -92,14 +92,27 @@ describe('tanks API', () => {
 });
 
 describe('GET /api/tanks/:id/calibration', () => {
-  it('returns a 10 mm table that ends at the top of the tank', async () => {
+  it('returns a 10 mm table by tube reading that ends at the top of the tank', async () => {
     const { org, manager } = await managerOnNewOrg();
     const created = await call(manager, 'post', '/api/tanks', { farmId: org.farmIds[0], name: 'Main', code: 'W1', contents: 'water', geometry: { shape: 'vertical-cylinder', diameterMm: 1000, heightMm: 1005 } }).expect(201);
     const res = await manager.get(`/api/tanks/${created.body.id}/calibration?step=10`).expect(200);
+    expect(res.body).toMatchObject({ number: 1, lengthUnit: 'mm', volumeUnit: 'L', datumOffset: 0 });
+    expect(res.body).not.toHaveProperty('version');
     expect(res.body.rows).toHaveLength(102);
-    expect(res.body.rows.at(-1).level).toBe(1005);
+    expect(res.body.rows.at(-1)).toMatchObject({ reading: 1005, level: 1005 });
     // π/4 · 1 m² · 1.005 m = 789.32 L (hand calculation).
     expect(res.body.rows.at(-1).volume).toBeCloseTo((Math.PI / 4) * 1005, 6);
+  });
+
+  it('lists rows by what the tube reads when its zero mark is 30 mm below the floor', async () => {
+    const { org, manager } = await managerOnNewOrg();
+    const created = await call(manager, 'post', '/api/tanks', { farmId: org.farmIds[0], name: 'Low mark', code: 'W3', contents: 'water', geometry: { shape: 'vertical-cylinder', diameterMm: 1000, heightMm: 1000 }, datumOffsetMm: -30 }).expect(201);
+    const res = await manager.get(`/api/tanks/${created.body.id}/calibration?step=10`).expect(200);
+    expect(res.body.rows[0]).toEqual({ reading: 30, level: 0, volume: 0 });
+    expect(res.body.rows[1]).toMatchObject({ reading: 40, level: 10 });
+    // π/4 · 1 m² · 0.01 m = 7.854 L (hand calculation).
+    expect(res.body.rows[1].volume).toBeCloseTo((Math.PI / 4) * 10, 6);
+    expect(res.body.rows.at(-1)).toMatchObject({ reading: 1030, level: 1000 });
   });
 
   it('returns inches and US gallons for US customary users', async () => {
@@ -111,15 +124,17 @@ describe('GET /api/tanks/:id/calibration', () => {
     expect(res.body.rows.at(-1).volume).toBeCloseTo(1000 / 231, 9);
   });
 
-  it('downloads CSV with spreadsheet formulas defused', async () => {
+  it('downloads CSV by tube reading, numbered and dated, with spreadsheet formulas defused', async () => {
     const { org, manager } = await managerOnNewOrg();
     const created = await call(manager, 'post', '/api/tanks', { farmId: org.farmIds[0], name: '=HYPERLINK("x")', code: 'F1', contents: 'water', geometry: SHAPES[0], datumOffsetMm: 50 }).expect(201);
     const res = await manager.get(`/api/tanks/${created.body.id}/calibration?step=100&format=csv`).expect(200);
     expect(res.headers['content-type']).toMatch(/text\/csv/);
     const lines = res.text.trim().split(/\r\n/);
     expect(lines[0]).not.toMatch(/^=/);
-    expect(lines[2]).toBe('level_mm,tube_reading_mm,volume_L');
-    expect(lines[3]).toBe('0,-50,0');
+    expect(lines[1]).toMatch(/^# calibration 1 of \d{4}-\d{2}-\d{2}$/);
+    expect(lines[2]).toBe('tube_reading_mm,level_above_floor_mm,volume_L');
+    // The zero mark stands 50 mm above the floor: the tube's 0 is the level 50 mm.
+    expect(lines[3]).toBe(`0,50,${Math.round((Math.PI / 4) * 1.44 * 50 * 1000) / 1000}`);
   });
 
   it('names the step when it is not a positive number', async () => {
@@ -127,6 +142,47 @@ describe('GET /api/tanks/:id/calibration', () => {
     const created = await call(manager, 'post', '/api/tanks', { farmId: org.farmIds[0], name: 'Main', code: 'W2', contents: 'water', geometry: SHAPES[0] }).expect(201);
     const res = await manager.get(`/api/tanks/${created.body.id}/calibration?step=-4`).expect(400);
     expect(res.body.error.field).toBe('step');
+  });
+
+  it('names the zero mark when it stands above the top of the tank', async () => {
+    const { org, manager } = await managerOnNewOrg();
+    const created = await call(manager, 'post', '/api/tanks', { farmId: org.farmIds[0], name: 'High mark', code: 'W4', contents: 'water', geometry: SHAPES[0], datumOffsetMm: 2500 }).expect(201);
+    const res = await manager.get(`/api/tanks/${created.body.id}/calibration?step=10`).expect(422);
+    expect(res.body.error.field).toBe('datumOffsetMm');
+    expect(res.body.error).not.toHaveProperty('stack');
+  });
+});
+
+describe('GET /api/tanks/:id/calibrations', () => {
+  it('numbers a tank’s calibrations 1, 2, 3 in the order they were made and marks the current one', async () => {
+    const { org, manager } = await managerOnNewOrg();
+    const created = await call(manager, 'post', '/api/tanks', { farmId: org.farmIds[0], name: 'Remeasured', code: 'N1', contents: 'water', geometry: SHAPES[0] }).expect(201);
+    await call(manager, 'patch', `/api/tanks/${created.body.id}`, { datumOffsetMm: -30 }).expect(200);
+    const third = await call(manager, 'patch', `/api/tanks/${created.body.id}`, { geometry: { ...SHAPES[0], heightMm: 1900 } }).expect(200);
+    // A change that leaves the shape and the zero mark alone makes no new calibration.
+    await call(manager, 'patch', `/api/tanks/${created.body.id}`, { lowStockL: 120 }).expect(200);
+    const res = await manager.get(`/api/tanks/${created.body.id}/calibrations`).expect(200);
+    expect(res.body.map((v: { number: number }) => v.number)).toEqual([1, 2, 3]);
+    expect(res.body.map((v: { datumOffsetMm: number }) => v.datumOffsetMm)).toEqual([0, -30, -30]);
+    expect(res.body.map((v: { current: boolean }) => v.current)).toEqual([false, false, true]);
+    expect(res.body[0].key).toBe(created.body.calibrationVersion);
+    expect(res.body[2].key).toBe(third.body.calibrationVersion);
+    expect(res.body[2].geometry.heightMm).toBe(1900);
+    for (const v of res.body) expect(Number.isNaN(Date.parse(v.createdAt))).toBe(false);
+    const table = await manager.get(`/api/tanks/${created.body.id}/calibration?step=100`).expect(200);
+    expect(table.body.number).toBe(3);
+    expect(table.body.calibratedAt).toBe(res.body[2].createdAt);
+  });
+
+  it('numbers each tank on its own and keeps other farms’ tanks out', async () => {
+    const { org, manager } = await managerOnNewOrg();
+    const a = await call(manager, 'post', '/api/tanks', { farmId: org.farmIds[0], name: 'A', code: 'NA', contents: 'water', geometry: SHAPES[0] }).expect(201);
+    await call(manager, 'patch', `/api/tanks/${a.body.id}`, { datumOffsetMm: 20 }).expect(200);
+    const b = await call(manager, 'post', '/api/tanks', { farmId: org.farmIds[1], name: 'B', code: 'NB', contents: 'water', geometry: SHAPES[3] }).expect(201);
+    const res = await manager.get(`/api/tanks/${b.body.id}/calibrations`).expect(200);
+    expect(res.body.map((v: { number: number; current: boolean }) => [v.number, v.current])).toEqual([[1, true]]);
+    const worker = await signedIn(env, org.users.worker.email);
+    await worker.get(`/api/tanks/${b.body.id}/calibrations`).expect(403);
   });
 });
 
