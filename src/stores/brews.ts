@@ -1,6 +1,7 @@
 import { computed, ref, shallowRef } from 'vue';
 import { defineStore } from 'pinia';
 import { levelAtVolume } from '@shared/calibration';
+import { batchFit, batchVolumeL, inputShortfalls, type BatchFit, type InputShortfall } from '@shared/mixing';
 import { tankVolumes } from '@shared/readings';
 import type { Brew, BrewCreateInput, BrewKind, BrewStatus, InputStatus, Tank, TankTile } from '@shared/schemas';
 import { displayUnits, toSI, type UnitSystem } from '@shared/units';
@@ -37,6 +38,18 @@ export interface TankFill {
   grossL: number;
   ullageL: number;
   takenAt: string | null;
+}
+
+/** A form line of the new-brew form: an input and its quantity in the input's unit, either still empty. */
+export interface BrewLineDraft {
+  inputId: number | null;
+  quantity: number | null;
+}
+
+/** An input the brew takes more of than the farm holds, with its name and unit for the words. */
+export interface NamedShortfall extends InputShortfall {
+  name: string;
+  unit: string;
 }
 
 /** Brews of the user's farms, and the tanks, inputs and latest tank volumes the new-brew form needs. */
@@ -115,6 +128,48 @@ export const useBrewsStore = defineStore('brews', () => {
     }
   }
 
+  const filledLines = (lines: readonly BrewLineDraft[]) =>
+    lines.flatMap((l) => (l.inputId !== null && typeof l.quantity === 'number' && Number.isFinite(l.quantity) && l.quantity >= 0 ? [{ inputId: l.inputId, quantity: l.quantity }] : []));
+
+  function fitIn(tank: Tank, batchL: () => number, startedAt: Date | null): BatchFit | null {
+    const tile = tiles.value.get(tank.id);
+    try {
+      return batchFit({
+        geometry: tank.geometry,
+        safeFillLevelMm: tank.safeFillLevelMm,
+        latest: tile && tile.grossL !== null && tile.takenAt ? { grossL: tile.grossL, takenAt: tile.takenAt } : null,
+        startedAt: (startedAt ?? new Date()).toISOString(),
+        batchL: batchL(),
+      });
+    } catch {
+      return null;
+    }
+  }
+
+  /**
+   * Whether the form's batch (water typed in the user's unit plus the inputs counted by volume) fits
+   * the tank below its safe fill line, by the shared check against the board's latest reading; null
+   * while the water is not a number.
+   */
+  function batchFitOf(tank: Tank, waterVolume: number | null, lines: readonly BrewLineDraft[], startedAt: Date | null): BatchFit | null {
+    if (typeof waterVolume !== 'number' || !Number.isFinite(waterVolume) || waterVolume < 0) return null;
+    const units = new Map(inputsOf(tank.farmId).map((i) => [i.id, i.unit]));
+    const waterL = toSI(waterVolume, displayUnits(unitSystem.value).volume);
+    return fitIn(tank, () => batchVolumeL(waterL, filledLines(lines).map((l) => ({ quantity: l.quantity, unit: units.get(l.inputId) ?? '' }))), startedAt);
+  }
+
+  /** Whether the calculator's amounts (water and concentrate, L) fit the tank below its safe fill line. */
+  function mixFitOf(tank: Tank, amounts: { waterL: number; concentrateL: number }, startedAt: Date | null): BatchFit | null {
+    return fitIn(tank, () => batchVolumeL(amounts.waterL, [{ quantity: amounts.concentrateL, unit: 'L' }]), startedAt);
+  }
+
+  /** The inputs the form's lines take more of than the farm's stock on hand, each with how much is missing. */
+  function shortfallsOf(farmId: number | null, lines: readonly BrewLineDraft[]): NamedShortfall[] {
+    const inputs = new Map(inputsOf(farmId).map((i) => [i.id, i]));
+    const onHand = new Map([...inputs.values()].map((i) => [i.id, i.onHand]));
+    return inputShortfalls(filledLines(lines), onHand).map((s) => ({ ...s, name: inputs.get(s.inputId)?.name ?? '', unit: inputs.get(s.inputId)?.unit ?? '' }));
+  }
+
   function put(brew: Brew): Brew {
     const others = brews.value.filter((b) => b.id !== brew.id);
     brews.value = [...others, brew].sort((a, b) => b.startedAt.localeCompare(a.startedAt) || b.id - a.id);
@@ -173,6 +228,9 @@ export const useBrewsStore = defineStore('brews', () => {
     tanksOf,
     inputsOf,
     tankFill,
+    batchFitOf,
+    mixFitOf,
+    shortfallsOf,
     toCreateInput,
     create,
     setStatus,
