@@ -1,5 +1,5 @@
 import { Router } from 'express';
-import { correctionSchema, readingsQuerySchema, roundSubmitSchema, seriesQuerySchema } from '@shared/schemas';
+import { correctionSchema, readingsQuerySchema, roundSubmitSchema, seriesQuerySchema, type RoundSubmitAnswer } from '@shared/schemas';
 import type { AppContext } from '../context';
 import { actorOf, requireRole, requireSignIn } from '../middleware/access';
 import { correctReading, listReadings, submitRound, tankSeries } from '../services/readings';
@@ -13,7 +13,7 @@ export function roundsRouter(ctx: AppContext) {
   const router = Router();
   router.post('/', readers, async (req, res) => {
     const results = await submitRound(ctx, actorOf(req), parse(roundSubmitSchema, req.body));
-    res.status(results.some((r) => r.status === 'stored') ? 201 : 200).json({ results });
+    res.status(results.some((r) => r.status === 'stored') ? 201 : 200).json({ results } satisfies RoundSubmitAnswer);
   });
   return router;
 }

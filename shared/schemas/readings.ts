@@ -40,6 +40,11 @@ export interface RoundEntryResult {
   reading?: Reading;
 }
 
+/** POST /api/rounds: what happened to each entry, in the order sent (201 when any was stored, else 200). */
+export interface RoundSubmitAnswer {
+  results: RoundEntryResult[];
+}
+
 /** Body of POST /api/readings/:id/correction: the right value and why. */
 export const correctionSchema = z
   .object({

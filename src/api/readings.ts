@@ -1,9 +1,9 @@
-import type { CorrectionInput, Reading, RoundEntryResult, RoundSubmitInput, SeriesPoint } from '@shared/schemas';
+import type { CorrectionInput, Reading, RoundSubmitAnswer, RoundSubmitInput, SeriesPoint } from '@shared/schemas';
 import { http } from './http';
 
 /** Submits a round; each entry comes back stored, duplicate (already stored by an earlier try) or refused. */
-export function submitRound(input: RoundSubmitInput): Promise<{ results: RoundEntryResult[] }> {
-  return http.post<{ results: RoundEntryResult[] }>('/api/rounds', input);
+export function submitRound(input: RoundSubmitInput): Promise<RoundSubmitAnswer> {
+  return http.post<RoundSubmitAnswer>('/api/rounds', input);
 }
 
 /** A tank's readings, newest first, corrected ones included. */
