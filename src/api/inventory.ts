@@ -4,6 +4,7 @@ import type {
   InputUpdateInput,
   Movement,
   MovementCreateInput,
+  OrderCloseShortInput,
   OrderCreateInput,
   OrderReceiptInput,
   OrderStatus,
@@ -130,6 +131,11 @@ export function sendOrder(orderId: number): Promise<PurchaseOrder> {
 /** Cancels a draft or sent order. */
 export function cancelOrder(orderId: number): Promise<PurchaseOrder> {
   return http.post<PurchaseOrder>(`/api/orders/${orderId}/cancel`);
+}
+
+/** Closes a part-delivered order short: the rest is cancelled with the reason and no longer on order. */
+export function closeOrderShort(orderId: number, input: OrderCloseShortInput): Promise<PurchaseOrder> {
+  return http.post<PurchaseOrder>(`/api/orders/${orderId}/close-short`, input);
 }
 
 /** Books a delivery in; stock rises by what arrived. */

@@ -6,6 +6,7 @@ import type {
   InputUpdateInput,
   Movement,
   MovementCreateInput,
+  OrderCloseShortInput,
   OrderCreateInput,
   OrderReceiptInput,
   OrderUpdateInput,
@@ -247,6 +248,13 @@ export const useInventoryStore = defineStore('inventory', () => {
     return cancelled;
   }
 
+  /** Closes a part-delivered order short; what was on order for the rest drops off the inputs. */
+  async function closeOrderShort(orderId: number, input: OrderCloseShortInput): Promise<PurchaseOrder> {
+    const closed = putOrder(await api.closeOrderShort(orderId, input));
+    if (inputsStatus.value !== 'idle') await refreshInputs();
+    return closed;
+  }
+
   /** Books a delivery in and fetches the inputs again: their stock has risen. */
   async function receiveOrder(orderId: number, input: OrderReceiptInput): Promise<PurchaseOrder> {
     const received = putOrder(await api.receiveOrder(orderId, input));
@@ -329,6 +337,7 @@ export const useInventoryStore = defineStore('inventory', () => {
     updateOrder,
     sendOrder,
     cancelOrder,
+    closeOrderShort,
     receiveOrder,
     outboxAvailable,
     checkOutbox,

@@ -86,20 +86,25 @@ beforeEach(() => {
 });
 
 describe('InputsView', () => {
-  it('lists inputs in the server’s order with an amber “Order now” tag on the due one and a date on the other', async () => {
+  it('groups the reorder list by urgency in plain sentences: the due input under “Buy now”, the other with its date', async () => {
     const { wrapper } = await mountAs('buyer');
 
     const rows = wrapper.findAll('[data-testid^="input-row-"]');
     expect(rows.map((r) => r.attributes('data-testid'))).toEqual(['input-row-41', 'input-row-42']);
-    const dueTag = rows[0]!.get('[data-testid="input-tag"]');
-    expect(dueTag.text()).toBe('Order now');
-    expect(dueTag.attributes('data-p')).toBe('warn');
+    const now = wrapper.get('[data-testid="reorder-group-now"]');
+    expect(now.get('h2').text()).toBe('Buy now 1');
+    expect(now.find('[data-testid="input-row-41"]').exists()).toBe(true);
+    expect(now.get('[data-testid="input-suggested"]').text()).toBe('Buy 340 L (17 packs of 20 L) now.');
+    expect(now.get('[data-testid="input-onhand"]').text()).toMatch(/^30 L on hand/);
     const date = new Intl.DateTimeFormat(undefined, { day: 'numeric', month: 'short', ...(new Date().getFullYear() === 2026 ? {} : { year: 'numeric' }) }).format(new Date('2026-12-12T09:00:00.000Z'));
-    expect(rows[1]!.get('[data-testid="input-tag"]').text()).toBe(`Order by ${date}`);
-    expect(rows[1]!.get('[data-testid="input-tag"]').attributes('data-p')).not.toBe('warn');
-    expect(rows[0]!.get('[data-testid="input-suggested"]').text()).toContain('340 L');
-    expect(rows[0]!.get('[data-testid="input-suggested"]').text()).toContain('17 packs of 20 L');
+    const later = wrapper.get('[data-testid="input-row-42"]');
+    expect(later.get('[data-testid="input-suggested"]').text()).toMatch(new RegExp(`^Buy .+ by ${date}\\.$`));
+    expect(later.element.closest('[data-testid^="reorder-group-"]')?.getAttribute('data-testid')).not.toBe('reorder-group-now');
+    // No chips and no trend column: the words carry the urgency.
+    expect(wrapper.find('.p-tag').exists()).toBe(false);
+    expect(wrapper.text()).not.toMatch(/Order now|Order by/);
     expect(wrapper.get('[data-testid="inputs-due-banner"]').text()).toContain('1 input is at or below the reorder point.');
+    expect(wrapper.get('[data-testid="inputs-draft-orders"]').text()).toBe('Prepare orders from the reorder list');
   });
 
   it('explains the reorder point and the suggestion in words, with the server’s own figures', async () => {
@@ -111,7 +116,7 @@ describe('InputsView', () => {
     expect(advice.get('[data-testid="input-advice-rop"]').text()).toContain(
       'Reorder point 41.6 L = 6 days of lead time × 5.2 L a day + 10.4 L safety stock for a 95 % service level.',
     );
-    expect(advice.get('[data-testid="input-advice-order"]').text()).toBe('Order 340 L (17 packs of 20 L) now.');
+    expect(advice.get('[data-testid="input-advice-order"]').text()).toBe('Buy 340 L (17 packs of 20 L) now.');
     expect(advice.get('[data-testid="input-advice-cover"]').text()).toBe('30 L on hand lasts about 5.8 days at 5.2 L a day.');
     expect(advice.get('[data-testid="input-advice-why"]').text()).toContain('economic order quantity, 337.5 L');
   });
@@ -205,7 +210,8 @@ describe('InputsView', () => {
     await flushPromises();
 
     expect(api.createOrdersFromSuggestions).toHaveBeenCalledWith({ farmId: undefined });
-    await vi.waitFor(() => expect(router.currentRoute.value.name).toBe('orders'));
+    // The Orders screen is a lazy route: its first load in the test runner may take a moment.
+    await vi.waitFor(() => expect(router.currentRoute.value.name).toBe('orders'), { timeout: 8000 });
     expect(router.currentRoute.value.query.order).toBe('8');
   });
 });

@@ -40,6 +40,7 @@ vi.mock('@/api/inventory', () => ({
   updateOrder: vi.fn(),
   sendOrder: vi.fn(),
   cancelOrder: vi.fn(),
+  closeOrderShort: vi.fn(),
   receiveOrder: vi.fn(),
 }));
 vi.mock('@/api/outbox', () => ({ fetchOutbox: vi.fn(), clearOutbox: vi.fn() }));
@@ -148,5 +149,48 @@ describe('OrdersView', () => {
     await flushPromises();
 
     expect(inDocument('receipt-qty-601-error').text()).toBe('only 80 still due on this line');
+  });
+
+  it('shows every total in the organisation’s currency', async () => {
+    auth.fetchSession.mockResolvedValue(sessionOf(makeUser('buyer', { currency: 'NZD' })));
+    const { wrapper } = await mountAt('/orders');
+
+    const nzd = new Intl.NumberFormat(undefined, { style: 'currency', currency: 'NZD' });
+    expect(wrapper.get('[data-testid="order-row-9"]').text()).toContain(nzd.format(432));
+    await mountAt('/orders?order=9');
+    expect(inDocument('order-total').text()).toContain(nzd.format(432));
+  });
+
+  it('closes a part delivery short only with a reason, then shows the status, the reason and the cancelled rest', async () => {
+    api.closeOrderShort.mockResolvedValue({
+      ...partReceived,
+      status: 'closed-short',
+      closedShortAt: '2026-03-09T10:00:00.000Z',
+      closedShortReason: 'Out of stock until spring',
+      closedShortBy: 'Priya Nand',
+      lines: partReceived.lines.map((l) => ({ ...l, cancelledQuantity: 80, lineTotal: 240 })),
+      total: 240,
+    });
+    await mountAt('/orders?order=9');
+
+    await inDocument('order-close-short').trigger('click');
+    await flushPromises();
+    expect(inDocument('close-short-rest').text()).toBe('Fish emulsion: 80 L of 180 L');
+    await inDocument('close-short-submit').trigger('submit');
+    await flushPromises();
+    expect(api.closeOrderShort).not.toHaveBeenCalled();
+    expect(inDocument('close-short-reason-error').text()).toBe('say why the rest will not come');
+
+    const reason = inDocument('close-short-reason');
+    await reason.setValue('Out of stock until spring');
+    await inDocument('close-short-submit').trigger('submit');
+    await flushPromises();
+
+    expect(api.closeOrderShort).toHaveBeenCalledWith(9, { reason: 'Out of stock until spring' });
+    expect(inDocument('order-status').text()).toBe('Closed short');
+    expect(inDocument('order-closed-short').text()).toContain('by Priya Nand: Out of stock until spring');
+    expect(inDocument('order-line-cancelled').text()).toBe('80 L');
+    expect(existsInDocument('order-receive')).toBe(false);
+    expect(existsInDocument('order-close-short')).toBe(false);
   });
 });

@@ -5,8 +5,8 @@ import { makeInput, makeMovement } from './support/inventoryFixtures';
 // Phrasing only: every figure is the server's (shared/inventory), so the cases check words and rounding.
 describe('orderTag', () => {
   it.each([
-    ['due with stock left', { due: true, onHand: 12, orderBy: '2026-03-02T09:00:00.000Z' }, 'Order now', 'warn'],
-    ['due and empty', { due: true, onHand: 0, orderBy: '2026-03-02T09:00:00.000Z' }, 'Out of stock · order now', 'danger'],
+    ['due with stock left', { due: true, onHand: 12, orderBy: '2026-03-02T09:00:00.000Z' }, 'Buy now', 'warn'],
+    ['due and empty', { due: true, onHand: 0, orderBy: '2026-03-02T09:00:00.000Z' }, 'Out of stock · buy now', 'danger'],
     ['no use recorded', { due: false, onHand: 40, orderBy: null }, 'No use recorded', 'secondary'],
   ] as const)('says %s', (_case, input, label, severity) => {
     expect(orderTag(input)).toEqual({ label, severity });
@@ -15,7 +15,7 @@ describe('orderTag', () => {
   it('gives the order-by day of an input not due yet, with the year when it is another year', () => {
     const tag = orderTag({ due: false, onHand: 40, orderBy: '2027-01-15T12:00:00.000Z' }, new Date('2026-12-01T12:00:00.000Z'));
     expect(tag.severity).toBe('info');
-    expect(tag.label).toMatch(/^Order by .*15.*2027$/);
+    expect(tag.label).toMatch(/^Buy by .*15.*2027$/);
   });
 });
 
@@ -37,16 +37,18 @@ describe('formatDays and formatCover', () => {
 
 describe('adviceSentences', () => {
   it('explains a zero suggestion instead of suggesting 0 L', () => {
-    const words = adviceSentences(makeInput(1, { dailyDemand: 0, dailyDemandSd: 0, daysOfCover: null, reorderPoint: 0, safetyStock: 0, eoq: 0, suggestedQuantity: 0, due: false, orderBy: null }));
+    const words = adviceSentences(makeInput(1, { dailyDemand: 0, dailyDemandSd: 0, daysOfCover: null, reorderPoint: 0, safetyStock: 0, eoq: 0, suggestedQuantity: 0, due: false, orderBy: null }), 'EUR');
     expect(words.order).toBe('Nothing to order: no use is recorded and stock is above the reorder point.');
     expect(words.orderWhy).toBeNull();
     expect(words.reorderPoint).toBe('Reorder point 0 L: with no use recorded, nothing is expected to be used in the 6 days of lead time.');
   });
 
   it('names what is on order and the minimum order when there are any', () => {
-    const words = adviceSentences(makeInput(1, { onOrder: 40, minimumOrder: 100 }));
+    const words = adviceSentences(makeInput(1, { onOrder: 40, minimumOrder: 100 }), 'NZD');
     expect(words.onOrder).toBe('40 L is on order already and counts toward the reorder point.');
     expect(words.orderWhy).toContain('rounded up to whole packs and to at least the minimum order of 100 L.');
+    // Money in the organisation's currency, as Intl.NumberFormat writes it in this locale.
+    expect(words.orderWhy).toContain(`balances ${new Intl.NumberFormat(undefined, { style: 'currency', currency: 'NZD' }).format(makeInput(1).orderCost)} per order`);
   });
 
   it('says how many packs the suggestion is', () => {

@@ -54,9 +54,9 @@ export function formatDays(days: number): string {
   return `${text} ${text === '1' ? 'day' : 'days'}`;
 }
 
-/** Money without a currency symbol (the organisation's own currency): "18.00". */
-export function formatMoney(value: number): string {
-  return new Intl.NumberFormat(undefined, { minimumFractionDigits: 2, maximumFractionDigits: 2 }).format(value);
+/** Money in the organisation's ISO 4217 currency, in the reader's locale: "€18.00", "NZ$18.00", "¥1,800". */
+export function formatMoney(value: number, currency: string): string {
+  return new Intl.NumberFormat(undefined, { style: 'currency', currency }).format(value);
 }
 
 /** A service level 0.95 as "95 %" (99.5 % keeps its decimal). */
@@ -72,11 +72,11 @@ export function formatShortDate(iso: string, now: Date = new Date()): string {
   return new Intl.DateTimeFormat(undefined, { day: 'numeric', month: 'short', ...(sameYear ? {} : { year: 'numeric' }) }).format(date);
 }
 
-/** The urgency tag of an input's row: "Order now" (amber), "Order by 12 Dec", or no use recorded. */
+/** When to buy an input, in our words: "Buy now" (amber; "Out of stock · buy now" in red), "Buy by 16 Dec", or no use recorded. */
 export function orderTag(input: Pick<InputStatus, 'due' | 'onHand' | 'orderBy'>, now: Date = new Date()): { label: string; severity: TagSeverity } {
-  if (input.due) return input.onHand <= 0 ? { label: 'Out of stock · order now', severity: 'danger' } : { label: 'Order now', severity: 'warn' };
+  if (input.due) return input.onHand <= 0 ? { label: 'Out of stock · buy now', severity: 'danger' } : { label: 'Buy now', severity: 'warn' };
   if (input.orderBy === null) return { label: 'No use recorded', severity: 'secondary' };
-  return { label: `Order by ${formatShortDate(input.orderBy, now)}`, severity: 'info' };
+  return { label: `Buy by ${formatShortDate(input.orderBy, now)}`, severity: 'info' };
 }
 
 /** Whole packs in a quantity that the server already rounded up to packs. */
@@ -98,7 +98,7 @@ export function formatCover(input: Pick<InputStatus, 'daysOfCover'>): string {
 }
 
 /** The reorder advice in plain words, one sentence per figure (nothing here is worked out anew). */
-export function adviceSentences(input: InputStatus, now: Date = new Date()): { cover: string; reorderPoint: string; reorderMeaning: string; onOrder: string | null; order: string; orderWhy: string | null } {
+export function adviceSentences(input: InputStatus, currency: string, now: Date = new Date()): { cover: string; reorderPoint: string; reorderMeaning: string; onOrder: string | null; order: string; orderWhy: string | null } {
   const q = (v: number) => formatQuantity(v, input.unit);
   const rate = formatRate(input.dailyDemand, input.unit);
   const level = formatPercent(input.serviceLevel);
@@ -123,11 +123,11 @@ export function adviceSentences(input: InputStatus, now: Date = new Date()): { c
     return { cover, reorderPoint, reorderMeaning, onOrder, order: 'Nothing to order: no use is recorded and stock is above the reorder point.', orderWhy: null };
   }
   const when = input.due ? 'now' : input.orderBy ? `by ${formatShortDate(input.orderBy, now)}` : 'when stock reaches the reorder point';
-  const order = `Order ${q(input.suggestedQuantity)} (${formatPacks(input.suggestedQuantity, input.packSize, input.unit)}) ${when}.`;
+  const order = `Buy ${q(input.suggestedQuantity)} (${formatPacks(input.suggestedQuantity, input.packSize, input.unit)}) ${when}.`;
   const minimum = input.minimumOrder > 0 ? ` and to at least the minimum order of ${q(input.minimumOrder)}` : '';
   const orderWhy =
-    `That is the larger of the economic order quantity, ${formatQuantityFine(input.eoq, input.unit)} (it balances ${formatMoney(input.orderCost)} per order against ` +
-    `${formatMoney(input.holdingCostPerYear)} per ${input.unit} a year to hold), and what brings stock back up to the reorder point, ` +
+    `That is the larger of the economic order quantity, ${formatQuantityFine(input.eoq, input.unit)} (it balances ${formatMoney(input.orderCost, currency)} per order against ` +
+    `${formatMoney(input.holdingCostPerYear, currency)} per ${input.unit} a year to hold), and what brings stock back up to the reorder point, ` +
     `rounded up to whole packs${minimum}.`;
   return { cover, reorderPoint, reorderMeaning, onOrder, order, orderWhy };
 }
