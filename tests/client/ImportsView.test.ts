@@ -1,6 +1,7 @@
 import { beforeEach, describe, expect, it, vi } from 'vitest';
 import { flushPromises, type VueWrapper } from '@vue/test-utils';
 import { createPinia, setActivePinia, type Pinia } from 'pinia';
+import { cautionText } from '@shared/cautions';
 import { importMappingSchema } from '@shared/imports';
 import type { LoggerImportDetail, Tank, TankEditor } from '@shared/schemas';
 import * as authApi from '@/api/auth';
@@ -220,6 +221,14 @@ describe('ImportsView', () => {
     const { wrapper } = await mountWithApp(ImportsView, { pinia, path: '/imports' });
 
     expect(wrapper.get('#imports-file-limit').text()).toBe('CSV text files, up to 200 MB each, at most 20 at once.');
+  });
+
+  it('shows the confined-space caution in the shared words, through the caution note', async () => {
+    const { wrapper } = await mountWithApp(ImportsView, { pinia, path: '/imports' });
+
+    const note = wrapper.get('[data-testid="caution-confined-space"]');
+    expect(note.attributes('data-caution')).toBe('confined-space');
+    expect(note.text()).toBe(cautionText('confined-space'));
   });
 });
 
