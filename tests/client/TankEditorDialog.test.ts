@@ -3,6 +3,7 @@ import { DOMWrapper, flushPromises } from '@vue/test-utils';
 import { createPinia, setActivePinia, type Pinia } from 'pinia';
 import { capacityL, validateGeometry } from '@shared/calibration';
 import type { Role, TankCreateInput, UnitSystem } from '@shared/schemas';
+import { cautionText } from '@shared/cautions';
 import { formatVolume } from '@shared/units';
 import * as authApi from '@/api/auth';
 import * as tanksApi from '@/api/tanks';
@@ -58,6 +59,14 @@ async function typeNumber(id: string, value: number): Promise<void> {
   const field = input(id);
   await field.setValue(String(value));
   await field.trigger('blur');
+  await flushPromises();
+}
+
+/** Picks a kind of contents by its label. */
+async function chooseContents(label: string): Promise<void> {
+  const option = [...document.querySelectorAll<HTMLElement>('[data-testid="tank-contents"] [role="radio"], [data-testid="tank-contents"] button')].find((b) => b.textContent?.trim() === label);
+  if (!option) throw new Error(`No contents option ${label}`);
+  option.click();
   await flushPromises();
 }
 
@@ -190,15 +199,33 @@ describe('TankEditorDialog', () => {
     expect(api.updateTank).toHaveBeenCalledWith(5, { name: 'Flats header' });
   });
 
-  it('shows the confined-space caution always and the electrical one for culture tanks', async () => {
+  it('shows the confined-space caution always and the electrical one for culture tanks, in the shared caution words', async () => {
     await openEditor();
-    expect(inDocument('tank-caution-confined').text()).toContain('Never climb into a tank');
+    expect(inDocument('tank-caution-confined').text()).toBe(cautionText('confined-space'));
     expect(existsInDocument('tank-caution-rcd')).toBe(false);
 
-    const culture = [...document.querySelectorAll<HTMLElement>('[data-testid="tank-contents"] [role="radio"], [data-testid="tank-contents"] button')].find((b) => b.textContent?.trim() === 'Culture');
-    culture!.click();
-    await flushPromises();
+    await chooseContents('Culture');
+    expect(inDocument('tank-caution-rcd').text()).toBe(cautionText('electrical'));
+    expect(existsInDocument('tank-caution-backflow')).toBe(false);
+  });
 
-    expect(inDocument('tank-caution-rcd').text()).toContain('residual-current (RCD/GFCI)');
+  it('shows the backflow caution for fertilizer and adds the protective-equipment one for pest solution', async () => {
+    await openEditor();
+    await chooseContents('Fertilizer');
+    expect(inDocument('tank-caution-backflow').text()).toBe(cautionText('backflow'));
+    expect(existsInDocument('tank-caution-ppe')).toBe(false);
+    await chooseContents('Pest solution');
+    expect(inDocument('tank-caution-backflow').text()).toBe(cautionText('backflow'));
+    expect(inDocument('tank-caution-ppe').text()).toBe(cautionText('pest-solution'));
+  });
+
+  it.each([
+    [-30, '30 mm below the floor'],
+    [45, '45 mm above the floor'],
+    [0, 'at the floor'],
+  ])('words a datum offset of %s mm as the zero mark %s while it is typed', async (offset, words) => {
+    await openEditor();
+    await typeNumber('tank-datum', offset);
+    expect(inDocument('tank-datum-words').text()).toBe(`The zero mark is ${words}.`);
   });
 });
