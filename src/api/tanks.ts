@@ -1,15 +1,8 @@
-import type { TankForecastDto, TankLeakWindow, Tank, TankContentsPeriod, TankCreateInput, TankUpdateInput, UnitSystem } from '@shared/schemas';
+import type { TankForecastDto, TankLeakWindow, CalibrationTableDto, Tank, TankCalibrationVersion, TankContentsPeriod, TankCreateInput, TankUpdateInput, UnitSystem } from '@shared/schemas';
 import { http } from './http';
 
-/** A calibration table as GET /api/tanks/:id/calibration returns it (levels and volumes in the units named). */
-export interface CalibrationTable {
-  tankId: number;
-  version: string;
-  lengthUnit: 'mm' | 'in';
-  volumeUnit: 'L' | 'usgal';
-  datumOffset: number;
-  rows: { level: number; volume: number }[];
-}
+/** A calibration table as GET /api/tanks/:id/calibration returns it: rows by tube reading, in the units named. */
+export type CalibrationTable = CalibrationTableDto;
 
 /** A tank's forecast as GET /api/tanks/:id/forecast returns it (the DTO in shared/schemas). */
 export type TankForecast = TankForecastDto;
@@ -48,6 +41,11 @@ export function fetchForecast(tankId: number): Promise<TankForecast> {
 /** The calibration table at `step` (mm for metric, inches for US). */
 export function fetchCalibration(tankId: number, step: number, unit: UnitSystem): Promise<CalibrationTable> {
   return http.get<CalibrationTable>(`/api/tanks/${tankId}/calibration`, { query: { step, unit } });
+}
+
+/** Every calibration the tank has had, numbered 1, 2, 3… in the order they were made, oldest first. */
+export function fetchCalibrations(tankId: number): Promise<TankCalibrationVersion[]> {
+  return http.get<TankCalibrationVersion[]>(`/api/tanks/${tankId}/calibrations`);
 }
 
 /** The address of the calibration table as a CSV download (formula-like cells escaped by the server). */

@@ -1,6 +1,6 @@
 import { computed, ref, shallowRef, watch } from 'vue';
 import { defineStore } from 'pinia';
-import type { Tank, TankContentsPeriod, TankCreateInput, TankTile, TankUpdateInput } from '@shared/schemas';
+import type { Tank, TankCalibrationVersion, TankContentsPeriod, TankCreateInput, TankTile, TankUpdateInput } from '@shared/schemas';
 import * as tanksApi from '@/api/tanks';
 import type { TankForecast } from '@/api/tanks';
 import * as boardApi from '@/api/board';
@@ -27,6 +27,9 @@ export const useTanksStore = defineStore('tanks', () => {
   const forecasts = shallowRef<Record<number, TankForecast>>({});
   const forecastStatus = ref<Record<number, LoadStatus>>({});
   const forecastError = ref<Record<number, string | null>>({});
+  /** Each tank's calibrations, numbered in the order they were made, oldest first, by tank id. */
+  const calibrations = shallowRef<Record<number, TankCalibrationVersion[]>>({});
+  const calibrationsStatus = ref<Record<number, LoadStatus>>({});
 
   const byId = computed(() => new Map(tanks.value.map((t) => [t.id, t])));
 
@@ -89,6 +92,19 @@ export const useTanksStore = defineStore('tanks', () => {
     }
   }
 
+  /** Fetches a tank's numbered calibrations; a list already shown stays while the new one loads. */
+  async function loadCalibrations(tankId: number): Promise<void> {
+    calibrationsStatus.value = { ...calibrationsStatus.value, [tankId]: 'loading' };
+    try {
+      const list = await tanksApi.fetchCalibrations(tankId);
+      calibrations.value = { ...calibrations.value, [tankId]: list };
+      calibrationsStatus.value = { ...calibrationsStatus.value, [tankId]: 'ready' };
+    } catch {
+      // The page then names no version; the calibration table and the readings still load on their own.
+      calibrationsStatus.value = { ...calibrationsStatus.value, [tankId]: 'error' };
+    }
+  }
+
   /** The walkOrder a new tank of this farm gets so it comes last on the round. */
   function nextWalkOrder(farmId: number): number {
     return tanksOf(farmId).reduce((last, t) => Math.max(last, t.walkOrder), 0) + 1;
@@ -147,6 +163,8 @@ export const useTanksStore = defineStore('tanks', () => {
     forecasts.value = {};
     forecastStatus.value = {};
     forecastError.value = {};
+    calibrations.value = {};
+    calibrationsStatus.value = {};
   }
 
   // Tanks cached for one person must not show to the next one on this device.
@@ -167,6 +185,8 @@ export const useTanksStore = defineStore('tanks', () => {
     forecasts,
     forecastStatus,
     forecastError,
+    calibrations,
+    calibrationsStatus,
     byId,
     tanksOf,
     statusOf,
@@ -174,6 +194,7 @@ export const useTanksStore = defineStore('tanks', () => {
     loadTank,
     loadLatest,
     loadForecast,
+    loadCalibrations,
     nextWalkOrder,
     create,
     update,

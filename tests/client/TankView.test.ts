@@ -7,8 +7,11 @@ import * as farmsApi from '@/api/farms';
 import * as readingsApi from '@/api/readings';
 import * as tanksApi from '@/api/tanks';
 import type { TankForecast } from '@/api/tanks';
+import { cautionText } from '@shared/cautions';
+import type { TankCalibrationVersion } from '@shared/schemas';
 import { ApiError } from '@/api/http';
 import { formatInZone } from '@/components/tank/tankContents';
+import { formatDateInZone } from '@/components/tank/tankFacts';
 import TankView from '@/views/TankView.vue';
 import { makeFarm, makeUser, sessionOf } from './support/fixtures';
 import { mountWithApp } from './support/mountApp';
@@ -23,6 +26,7 @@ vi.mock('@/api/tanks', () => ({
   fetchContentsHistory: vi.fn(),
   fetchCalibration: vi.fn(),
   fetchForecast: vi.fn(),
+  fetchCalibrations: vi.fn(),
   calibrationCsvUrl: vi.fn(),
   gaugeStripUrl: vi.fn(),
 }));
@@ -39,6 +43,10 @@ let pinia: Pinia;
 // The invented Creek site keeps New Zealand time: 13 h ahead of UTC in March (daylight time).
 const ZONE = 'Pacific/Auckland';
 const TANK = makeWaterTank();
+const VERSIONS: TankCalibrationVersion[] = [
+  { number: 1, key: 'a1b2c3d4', createdAt: '2025-11-20T02:00:00.000Z', current: false, geometry: TANK.geometry, datumOffsetMm: 0 },
+  { number: 2, key: TANK.calibrationVersion, createdAt: '2026-02-27T21:00:00.000Z', current: true, geometry: TANK.geometry, datumOffsetMm: TANK.datumOffsetMm },
+];
 
 function forecastOf(overrides: Partial<TankForecast> = {}): TankForecast {
   return {
@@ -65,6 +73,7 @@ beforeEach(() => {
   farms.fetchFarms.mockResolvedValue([makeFarm(11, 'Creek site', { timeZone: ZONE })]);
   tanks.fetchTank.mockResolvedValue(TANK);
   readings.fetchSeries.mockResolvedValue([]);
+  tanks.fetchCalibrations.mockResolvedValue(VERSIONS);
   vi.mocked(boardApi).fetchBoard.mockResolvedValue(makeBoard([]));
 });
 
@@ -125,7 +134,7 @@ describe('TankView forecast panel', () => {
     expect(item.text()).toContain('85 L lost');
     expect(item.text()).toContain('(16 L/h)');
     expect(leaks.text()).toContain('Suspected leak:');
-    expect(leaks.text()).toMatch(/Never enter a tank: it is a confined space/);
+    expect(wrapper.get('[data-testid="forecast-leak-caution"]').text()).toBe(cautionText('confined-space'));
   });
 
   it('turns days of cover amber with one decimal when under three days are left', async () => {
@@ -177,5 +186,35 @@ describe('TankView forecast panel', () => {
     await flushPromises();
     expect(tanks.fetchForecast).toHaveBeenCalledTimes(2);
     expect(wrapper.get('[data-testid="forecast-cover"]').text()).toBe('≈ 9 days left');
+  });
+});
+
+describe('TankView facts', () => {
+  it('names the calibration by its number and date, never by its key, and words the zero mark above or below the floor', async () => {
+    tanks.fetchForecast.mockResolvedValue(forecastOf());
+    const { wrapper } = await mountWithApp(TankView, { pinia, path: `/tanks/${TANK.id}` });
+
+    expect(tanks.fetchCalibrations).toHaveBeenCalledWith(TANK.id);
+    // 21:00 UTC on 27 February is 10:00 on 28 February in Auckland (UTC+13).
+    expect(wrapper.get('[data-testid="tank-calibration-version"]').text()).toBe(`Version 2 · ${formatDateInZone(VERSIONS[1].createdAt, ZONE)}`);
+    expect(wrapper.text()).not.toContain(TANK.calibrationVersion);
+    expect(wrapper.get('[data-testid="tank-zero-mark"]').text()).toBe('60 mm above the floor');
+  });
+
+  it('says the zero mark is below the floor when the offset is negative', async () => {
+    tanks.fetchTank.mockResolvedValue({ ...TANK, datumOffsetMm: -30 });
+    tanks.fetchForecast.mockResolvedValue(forecastOf());
+    const { wrapper } = await mountWithApp(TankView, { pinia, path: `/tanks/${TANK.id}` });
+
+    expect(wrapper.get('[data-testid="tank-zero-mark"]').text()).toBe('30 mm below the floor');
+    expect(wrapper.text()).not.toMatch(/-30 mm/);
+  });
+
+  it('shows a dash for the calibration when its versions could not be loaded', async () => {
+    tanks.fetchCalibrations.mockRejectedValue(new ApiError(503, 'http_error', 'The server is not ready.'));
+    tanks.fetchForecast.mockResolvedValue(forecastOf());
+    const { wrapper } = await mountWithApp(TankView, { pinia, path: `/tanks/${TANK.id}` });
+
+    expect(wrapper.get('[data-testid="tank-calibration-version"]').text()).toBe('—');
   });
 });
