@@ -1,14 +1,16 @@
-// Gauge-strip layout: marks at the calibration engine's levels, page tiling and the refusals.
+// Gauge-strip layout: marks at the levels that hold each volume, page tiling and the refusals.
 //
-// Mark positions are checked two ways: against levelAtVolume itself (the brief: a mark for k·N sits at
-// levelAtVolume(k·N) − datum), and against published worked examples of "what level holds this volume"
-// already used by the calibration tests (web pages read from a stored copy, not the live site).
+// Mark positions are checked against levels worked out here by hand from the solids' volume formulas
+// (not from the calibration engine), and against published worked examples of "what level holds this
+// volume" already used by the calibration tests (web pages read from a stored copy, not the live site).
+// The hand formulas and their source (CRC Standard Mathematical Tables and Formulae) are in
+// tests/support/hand-tanks.ts.
 // Exact definitions: 1 in = 25.4 mm, 1 US gal = 231 in³ (NIST Handbook 44, Appendix C).
 // Paper: A4 is 210 × 297 mm (ISO 216; value recalled from memory of the standard, matching the size
 // tables printers' documentation gives) and US Letter 8.5 × 11 in (ANSI/ASME Y14.1 "A" size, recalled
 // from memory, not re-checked). Values derived by hand are labelled "hand derivation".
 import { describe, expect, it } from 'vitest';
-import { capacityL, heightMm, levelAtVolume, type TankGeometry } from '@shared/calibration/index';
+import type { TankGeometry } from '@shared/calibration/index';
 import {
   GAUGE_HEADER_MM,
   GaugeStripError,
@@ -22,6 +24,7 @@ import {
   type GaugeStripInput,
   type GaugeStripLayout,
 } from '@shared/gauge/index';
+import { box, coneBottom, frustum, horizontalWithHalfHeads, sphere, uprightCylinder, type HandTank } from '../support/hand-tanks';
 
 const IN = 25.4; // mm per inch, exact
 const GAL = (231 * IN ** 3) / 1e6; // litres per US gallon, exact (3.785411784)
@@ -33,12 +36,11 @@ function expectWithin(actual: number, expected: number, tolerance: number) {
 
 const allTicks = (l: GaugeStripLayout) => l.pages.flatMap((p) => p.ticks);
 
-/** Tube positions of k·stepL for every k whose level is on the strip, straight from levelAtVolume. */
-function expectedPositions(g: TankGeometry, datumOffsetMm: number, stepL: number) {
+/** Tube positions of k·stepL for every k whose level is on the strip, from the hand inverse. */
+function expectedPositions(tank: HandTank, datumOffsetMm: number, stepL: number) {
   const out: { k: number; positionMm: number }[] = [];
-  const cap = capacityL(g);
-  for (let k = 0; k * stepL <= cap * (1 + 1e-12); k++) {
-    const positionMm = levelAtVolume(g, Math.min(cap, k * stepL)) - datumOffsetMm;
+  for (let k = 0; k * stepL <= tank.capacityL * (1 + 1e-12); k++) {
+    const positionMm = tank.levelMm(Math.min(tank.capacityL, k * stepL)) - datumOffsetMm;
     if (positionMm >= 0) out.push({ k, positionMm });
   }
   return out;
@@ -54,15 +56,50 @@ const SHAPES: [string, TankGeometry, number, number][] = [
   ['fill-and-mark tank', { shape: 'points', points: [{ levelMm: 0, volumeL: 0 }, { levelMm: 200, volumeL: 100 }, { levelMm: 500, volumeL: 300 }, { levelMm: 900, volumeL: 520 }] }, 0, 5],
 ];
 
+/** The solid shapes of SHAPES with their hand formulas, and a first mark worked out by hand as a number. */
+const HAND_SHAPES: [string, TankGeometry, number, number, HandTank, { volumeL: number; positionMm: number }][] = [
+  // 25 L / (π · 0.6² m²) = 22.1049 mm.
+  [SHAPES[0][0], SHAPES[0][1], 0, 25, uprightCylinder(1200, 1800), { volumeL: 25, positionMm: 22.104853 }],
+  // Inside the cone: ∛(3 · 10 L · 400² mm² / (π · 450² mm²)) = 196.1352 mm, less the 35 mm zero mark.
+  [SHAPES[1][0], SHAPES[1][1], 35, 10, coneBottom(900, 800, 400), { volumeL: 10, positionMm: 161.135156 }],
+  // 20 L: 2,000 mm · segment(h) + π h² (1,500 − h)/6 = 20·10⁶ mm³ at h = 37.2271 mm (bisection by hand), plus the 20 mm below the shell.
+  [SHAPES[2][0], SHAPES[2][1], -20, 20, horizontalWithHalfHeads(1000, 2000), { volumeL: 20, positionMm: 57.227107 }],
+  // 10 L over 1.2 m² of floor is 8.3333 mm.
+  [SHAPES[3][0], SHAPES[3][1], 0, 10, box(1200, 1000, 1000), { volumeL: 10, positionMm: 25 / 3 }],
+  // k = 100/1200; (∛(450³ + 3k · 20 L/π) − 450) / k = 31.2567 mm is under the 50 mm zero mark, so the first mark
+  // shown is 40 L: (∛(450³ + 3k · 40 L/π) − 450) / k − 50 = 12.1578 mm.
+  [SHAPES[4][0], SHAPES[4][1], 50, 20, frustum(900, 1100, 1200), { volumeL: 40, positionMm: 12.157802 }],
+  // q = 3 · 25 L / (π · 0.75³ m³) − 2; 750 · (1 + 2 cos(acos(−q/2)/3 − 2π/3)) = 105.5100 mm.
+  [SHAPES[5][0], SHAPES[5][1], 0, 25, sphere(1500), { volumeL: 25, positionMm: 105.510015 }],
+];
+
 describe('gaugeStripLayout', () => {
-  it.each(SHAPES)('puts every mark at levelAtVolume(k·N) − datum for a %s', (_name, geometry, datumOffsetMm, everyL) => {
+  it.each(HAND_SHAPES)('puts every mark at the level that holds k·N by the solid’s formula (hand derivation) for a %s', (_name, geometry, datumOffsetMm, everyL, tank, first) => {
     const layout = gaugeStripLayout({ geometry, datumOffsetMm, everyL, unitSystem: 'metric' });
-    const want = expectedPositions(geometry, datumOffsetMm, everyL);
+    const want = expectedPositions(tank, datumOffsetMm, everyL);
     const got = allTicks(layout);
     expect(got.map((t) => t.volumeL)).toEqual(want.map((w) => w.k * everyL));
-    got.forEach((t, i) => expectWithin(t.positionMm, want[i].positionMm, 1e-9));
+    got.forEach((t, i) => expectWithin(t.positionMm, want[i].positionMm, 1e-6));
     got.forEach((t) => expectWithin(t.levelMm - datumOffsetMm, t.positionMm, 1e-9));
-    expect(layout.topPositionMm).toBeCloseTo(heightMm(geometry) - datumOffsetMm, 9);
+    expectWithin(got.find((t) => t.volumeL === first.volumeL)!.positionMm, first.positionMm, 1e-6);
+  });
+
+  it.each(SHAPES)('puts the top of the strip at the tank’s height less the zero mark for a %s', (_name, geometry, datumOffsetMm, everyL) => {
+    const heights: Record<TankGeometry['shape'], number> = { 'vertical-cylinder': 1800, 'cone-bottom': 1200, 'horizontal-cylinder': 1000, box: 1000, frustum: 1200, sphere: 1500, points: 900 };
+    expect(gaugeStripLayout({ geometry, datumOffsetMm, everyL, unitSystem: 'metric' }).topPositionMm).toBe(heights[geometry.shape] - datumOffsetMm);
+  });
+
+  it('puts the marks of a fill-and-mark tank on its measured points and in order between them (the points are the published values)', () => {
+    const [, geometry] = SHAPES[6];
+    const ticks = allTicks(gaugeStripLayout({ geometry, datumOffsetMm: 0, everyL: 5, unitSystem: 'metric' }));
+    expect(ticks.map((t) => t.volumeL)).toEqual(Array.from({ length: 105 }, (_, k) => k * 5));
+    const at = (volumeL: number) => ticks.find((t) => t.volumeL === volumeL)!.positionMm;
+    expect([at(0), at(100), at(300), at(520)]).toEqual([0, 200, 500, 900]);
+    for (let i = 1; i < ticks.length; i++) expect(ticks[i].positionMm).toBeGreaterThan(ticks[i - 1].positionMm);
+    for (const t of ticks) {
+      if (t.volumeL < 100) expect(t.positionMm).toBeLessThan(200);
+      else if (t.volumeL < 300) expect(t.positionMm).toBeLessThan(500);
+    }
   });
 
   it('puts the 8 L mark at the published 10 cm (tinkutara.com question 66985: 40 cm × 20 cm inside, 8 L → 10 cm of water)', () => {
@@ -182,7 +219,7 @@ describe('gaugeStripLayout pages', () => {
 
   it('puts every mark on exactly one page, inside that page’s range', () => {
     const layout = gaugeStripLayout(tall);
-    const want = expectedPositions(tall.geometry, tall.datumOffsetMm, 20);
+    const want = expectedPositions(uprightCylinder(1200, 2000), tall.datumOffsetMm, 20);
     expect(allTicks(layout).map((t) => t.volumeL)).toEqual(want.map((w) => w.k * 20));
     for (const p of layout.pages) {
       const last = p.index === layout.totalPages - 1;

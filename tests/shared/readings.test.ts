@@ -1,9 +1,10 @@
 // Readings → level → volumes. Pressure head uses ρ = SG × 1000 kg/m³ and g = 9.80665 m/s², the basis
 // of the conventional metre of water (1 mH₂O = 9.80665 kPa, NIST SP 811 Appendix B.8; recalled from
-// memory, not re-checked). Other expected values are hand derivations.
+// memory, not re-checked). Other expected values are hand derivations: the upright tank from V = π r² h,
+// the horizontal one from the circular segment (tests/support/hand-tanks.ts gives the source).
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { capacityL, volumeAtLevel, type TankGeometry } from '@shared/calibration/index';
+import type { TankGeometry } from '@shared/calibration/index';
 import {
   levelFromPressure,
   levelFromSightTube,
@@ -13,6 +14,7 @@ import {
   type ReadingInput,
   type TankSetup,
 } from '@shared/readings/index';
+import { circularSegmentMm2 } from '../support/hand-tanks';
 
 // A 1,790 mm tall upright tank, 1,000 mm across: 785.398 L per metre of level.
 const upright: TankGeometry = { shape: 'vertical-cylinder', diameterMm: 1000, heightMm: 1790 };
@@ -80,12 +82,17 @@ describe('tankVolumes', () => {
     expect(tankVolumes(upright, 1750, { outletHeightMm: 100, safeFillLevelMm: 1700 }).ullageL).toBeCloseTo(-50 * perMmL, 9);
   });
 
-  it('uses the shape curve, not a straight line, for a horizontal tank', () => {
+  it('uses the shape curve, not a straight line, for a horizontal tank (hand derivation from the circular segment)', () => {
     const drum: TankGeometry = { shape: 'horizontal-cylinder', diameterMm: 1200, lengthMm: 2000, ends: 'flat' };
     const v = tankVolumes(drum, 300, { outletHeightMm: 50, safeFillLevelMm: 1150 });
-    expect(v.grossL).toBe(volumeAtLevel(drum, 300));
-    expect(v.usableL).toBeCloseTo(volumeAtLevel(drum, 300) - volumeAtLevel(drum, 50), 9);
-    expect(v.percentFull).toBeLessThan(25);
+    // h = r/2 = 300 mm: segment = r² acos(1/2) − (r/2) √(3r²/4) = 360,000 · π/3 − 300 · √270,000 = 221,106.55 mm²; × 2 m = 442.2131 L.
+    expect(v.grossL).toBeCloseTo(442.213091, 5);
+    expect(v.grossL).toBeCloseTo((2000 * circularSegmentMm2(600, 300)) / 1e6, 9);
+    // Below the 50 mm outlet: segment(50) × 2 m = 32.2485 L, so 409.9646 L are usable.
+    expect(v.usableL).toBeCloseTo(409.964564, 5);
+    expect(v.usableL).toBeCloseTo((2000 * (circularSegmentMm2(600, 300) - circularSegmentMm2(600, 50))) / 1e6, 9);
+    // 442.2131 L of the 2,261.9467 L (π · 0.6² m² · 2 m) the drum holds.
+    expect(v.percentFull).toBeCloseTo(19.550111, 5);
   });
 
   it('throws a RangeError naming the field when a level is outside the tank', () => {
@@ -216,7 +223,7 @@ describe('readingToVolumes', () => {
         if (r.ok) {
           expect(r.levelMm).toBeGreaterThanOrEqual(0);
           expect(r.levelMm).toBeLessThanOrEqual(1790);
-          expect(r.grossL).toBeLessThanOrEqual(capacityL(upright));
+          expect(r.grossL).toBeLessThanOrEqual(1790 * perMmL * (1 + 1e-12));
           expect(Number.isFinite(r.usableL + r.ullageL + r.percentFull)).toBe(true);
         } else {
           expect(typeof r.reason).toBe('string');
