@@ -64,7 +64,7 @@ const DEMO_USE_PER_DAY = { water: 0.07, fertilizer: 0.035, 'pest-solution': 0.05
 const DEMO_DAYS = 21;
 
 /**
- * Three weeks of morning sight-tube rounds for a demo tank: a steady draw with a little day-to-day
+ * Three weeks of morning sight-tube rounds for a demo tank (earlierDemoRounds adds the days before them): a steady draw with a little day-to-day
  * spread, a refill or new brew when the level runs low, and warm cultures (one cooling off). The
  * numbers come from a fixed pseudo-random sequence, so every demo database is the same.
  */
@@ -101,6 +101,40 @@ function demoReadings(tank: import('../models').Tank, index: number, workerId: n
     });
   }
   return tank.code === 'MF-W1' ? withLeakNight(out, setup, timeZone) : out;
+}
+
+/** Days before the three weeks of rounds that the demo also fills, so a month's history has a reading every day. */
+const DEMO_EARLIER_DAYS = 12;
+
+/**
+ * The rounds of the twelve days before `rounds` (the tank's three weeks), worked backwards from the
+ * oldest of them with a sequence of their own, so the three weeks stay exactly as they are: going back
+ * a day adds that day's draw, and a level that would pass the fill line was a refill, with the tank
+ * low before it. Invented figures, the same in every demo database.
+ */
+function earlierDemoRounds(tank: import('../models').Tank, rounds: NewReading[], index: number): NewReading[] {
+  const oldest = rounds.find((r) => r.source === 'round');
+  if (!oldest) return [];
+  let seed = 7_877 + index * 31_337;
+  const random = () => ((seed = (seed * 16_807) % 2_147_483_647) / 2_147_483_647);
+  const setup = tankSetupOf(tank);
+  const top = Math.min(tank.safeFillLevelMm, heightMm(tank.geometry));
+  const span = top - tank.outletHeightMm;
+  let fraction = (oldest.levelMm - tank.outletHeightMm) / span;
+  const out: NewReading[] = [];
+  for (let d = 1; d <= DEMO_EARLIER_DAYS; d++) {
+    fraction += DEMO_USE_PER_DAY[tank.contents] * (tank.geometry.shape === 'sphere' ? 0.5 : 1) * (0.6 + random() * 0.8) * (heightMm(tank.geometry) / span);
+    if (fraction > 0.92) fraction = 0.2 + random() * 0.1;
+    const levelMm = Math.round(tank.outletHeightMm + Math.max(0.02, fraction) * span);
+    const v = readingToVolumes(setup, { kind: 'level', levelMm });
+    if (!v.ok) continue;
+    const takenAt = new Date(oldest.takenAt.getTime() - d * 86_400_000 + Math.round((random() - 0.5) * 40) * 60_000);
+    out.unshift({
+      ...oldest, takenAt, levelMm, grossL: v.grossL, usableL: v.usableL,
+      temperatureC: tank.contents === 'culture' ? Math.round((21 + random() * 3) * 10) / 10 : null, note: '',
+    });
+  }
+  return out;
 }
 
 /**
@@ -187,8 +221,9 @@ export async function loadDemoScenario(db: Database, opts: { onlyIfEmpty?: boole
       await TankCalibration.create({ organisationId: org.id, tankId: tank.id, version, geometry: t.geometry, datumOffsetMm: t.datumOffsetMm }, { transaction });
       await TankContentsPeriod.create({ organisationId: org.id, tankId: tank.id, contents: t.contents, contentsNote: t.contentsNote, specificGravity: t.specificGravity, fromAt: since, toAt: null, changedById: null }, { transaction });
       const made = demoReadings(tank, rounds, readerOf(tank.farmId), timeZoneOf(tank.farmId));
+      // Counted before the earlier days are added, so every tank's three weeks come out as they always have.
       rounds += made.filter((r) => r.source === 'round').length;
-      readings.push(...made);
+      readings.push(...earlierDemoRounds(tank, made, rounds), ...made);
     }
     const supplierIds = new Map<string, number>();
     for (const { key, ...sup } of scenario.suppliers) supplierIds.set(key, (await Supplier.create({ ...sup, organisationId: org.id, archivedAt: null }, { transaction })).id);
