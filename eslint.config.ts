@@ -1,4 +1,5 @@
 import { builtinModules } from 'node:module';
+import type { Linter } from 'eslint';
 import { defineConfigWithVueTs, vueTsConfigs } from '@vue/eslint-config-typescript';
 import pluginVue from 'eslint-plugin-vue';
 
@@ -34,7 +35,7 @@ const clientImports: ImportPattern[] = [
   { regex: '^(express|sequelize)(/|$)', message: 'src/ never imports server/ libraries: share it through shared/ (src/README.md).' },
 ];
 
-const restrict = (files: string[], patterns: ImportPattern[], ignores: string[] = []) => ({
+const restrict = (files: string[], patterns: ImportPattern[], ignores: string[] = []): Linter.Config => ({
   files,
   ignores,
   rules: { 'no-restricted-imports': ['error', { patterns: patterns.map(({ regex, message }) => ({ regex, message })) }] },
