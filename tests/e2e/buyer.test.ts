@@ -55,25 +55,26 @@ describe('buyer’s side', () => {
     await page.waitForURL(/\/inputs$/);
     await page.getByTestId('inputs-list').waitFor();
 
-    // The server sorts the due inputs first; the first row is one to order now, with a quantity.
+    // The server sorts the due inputs first; the first row is one to buy now, under that heading, with a quantity.
     const dueRow = page.locator('[data-testid^="input-row-"][data-due="true"]').first();
     await dueRow.waitFor();
     const rowId = (await dueRow.getAttribute('data-testid'))!;
     expect(await page.locator('[data-testid^="input-row-"]').first().getAttribute('data-testid')).toBe(rowId);
     const inputName = (await dueRow.locator('[data-testid^="input-open-"]').innerText()).trim();
-    expect(await dueRow.getByTestId('input-tag').innerText()).toBe('Order now');
+    expect(await page.getByTestId('reorder-group-now').getByTestId(rowId).count()).toBe(1);
+    expect(await dueRow.getByTestId('input-suggested').innerText()).toMatch(/^Buy [\d.,]+ \S+ \(\d+ packs? of .+\) now\.$/);
     const suggested = quantityOf(await dueRow.getByTestId('input-suggested').innerText());
     expect(suggested).toBeGreaterThan(0);
     const onHandBefore = quantityOf(await dueRow.getByTestId('input-onhand').innerText());
-    // A later input shows its order-by date.
-    const laterTags = await page.locator('[data-testid^="input-row-"][data-due="false"] [data-testid="input-tag"]').allInnerTexts();
-    expect(laterTags.some((t) => /^Order by \S+/.test(t))).toBe(true);
+    // A later input says the day to buy by.
+    const laterWords = await page.locator('[data-testid^="input-row-"][data-due="false"] [data-testid="input-suggested"]').allInnerTexts();
+    expect(laterWords.some((t) => /^Buy .+ by .+\.$/.test(t))).toBe(true);
     await shot(page, 'buyer-inputs-1280');
 
     await dueRow.locator('[data-testid^="input-open-"]').click();
     const drawer = page.getByTestId('input-drawer');
     await drawer.getByTestId('input-advice').waitFor();
-    expect(await drawer.getByTestId('input-advice-order').innerText()).toMatch(new RegExp(`^Order ${suggested.toLocaleString('en-US')} .+ now\\.$`));
+    expect(await drawer.getByTestId('input-advice-order').innerText()).toMatch(new RegExp(`^Buy ${suggested.toLocaleString('en-US')} .+ now\\.$`));
     expect(await drawer.getByTestId('input-advice-rop').innerText()).toMatch(/^Reorder point [\d.,]+ \S+ = [\d.,]+ days? of lead time × [\d.,]+ \S+ a day \+ [\d.,]+ \S+ safety stock for a 95 % service level\./);
     await drawer.getByTestId('input-movements').locator('[data-testid^="movement-"]').first().waitFor();
     await tallShot(page, 'buyer-input-detail-1280');
@@ -157,7 +158,7 @@ describe('buyer’s side', () => {
     await page.goto(`${baseUrl}/inputs`);
     await page.getByTestId('inputs-list').waitFor();
     const first = page.locator('[data-testid^="input-row-"]').first();
-    expect(await first.getByTestId('input-tag').innerText()).toMatch(/^(Order now|Order by .+|Out of stock · order now)$/);
+    expect(await first.getByTestId('input-suggested').innerText()).toMatch(/^(Buy .+|Nothing to buy yet\.)$/);
     // Nothing wider than the phone: the page must not scroll sideways.
     expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(360);
     await shot(page, 'buyer-inputs-360');
