@@ -19,6 +19,7 @@ import mariadb from 'mariadb';
 import type { ModelAttributes } from 'sequelize';
 import { calibrationVersion, type TankGeometry } from '../shared/calibration/index';
 import { createImportReader, importMappingSchema, type ImportMappingInput } from '../shared/imports/index';
+import { tankSetupOf, type TankSetup } from '../shared/readings/index';
 import { ensureDatabase, startMariaDb } from '../scripts/lib/mariadb';
 import { freePort } from '../scripts/lib/ports';
 import { startServerProcess } from '../scripts/lib/server-process';
@@ -26,7 +27,6 @@ import { loadConfig } from '../server/config';
 import { createDatabase, migrate } from '../server/db';
 import { startMailCapture } from '../server/mail/capture';
 import { hashPassword } from '../server/services/passwords';
-import { tankSetup } from '../server/services/readings';
 import type { BenchFigure } from './calibration';
 
 const ROWS = Number(process.env.BENCH_INGEST_ROWS ?? 1_000_000);
@@ -123,7 +123,7 @@ async function startServer(env: Record<string, string>): Promise<{ child: ChildP
 }
 
 /** Converts the logger file with the shared reader, row by row, handing each reading to `use`. */
-async function convertFile(path: string, setup: ReturnType<typeof tankSetup>, use: (r: { takenAtMs: number; levelMm: number; grossL: number; usableL: number; temperatureC: number | null }) => Promise<void> | void) {
+async function convertFile(path: string, setup: TankSetup, use: (r: { takenAtMs: number; levelMm: number; grossL: number; usableL: number; temperatureC: number | null }) => Promise<void> | void) {
   const reader = createImportReader({ mapping: importMappingSchema.parse(MAPPING), tank: setup, nowMs: Date.now() });
   const lines = createInterface({ input: createReadStream(path, { encoding: 'utf8' }), crlfDelay: Infinity });
   for await (const line of lines) {
@@ -221,7 +221,7 @@ export async function runIngestBench(): Promise<BenchFigure[]> {
 
     // 2. The floor: the same rows, converted beforehand, loaded by MariaDB itself.
     phase = 'floor';
-    const setup = tankSetup(tank);
+    const setup = tankSetupOf(tank);
     const floorFile = join(dir, 'floor.tsv');
     const out = createWriteStream(floorFile);
     const now = sqlDate(Date.now());
