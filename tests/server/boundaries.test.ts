@@ -33,6 +33,8 @@ import {
   orderCreateSchema,
   orderFromSuggestionsSchema,
   orderReceiptSchema,
+  orderCloseShortSchema,
+  organisationSettingsSchema,
   orderUpdateSchema,
   passwordResetSchema,
   personUpdateSchema,
@@ -99,6 +101,14 @@ async function freshReading(): Promise<number> {
   return r.id;
 }
 
+/** A new part-received order (closing one short ends it, so each case needs its own). */
+async function freshPartReceivedOrder(): Promise<number> {
+  const { PurchaseOrder, PurchaseOrderLine } = env.ctx.db.models;
+  const o = await PurchaseOrder.create({ organisationId: org.organisationId, farmId, supplierId, number: `BD-${++seq}`, status: 'part-received', notes: '', sentAt: new Date(), createdById: null });
+  await PurchaseOrderLine.create({ orderId: o.id, inputId, quantity: 10, unitPrice: 1, receivedQuantity: 4 });
+  return o.id;
+}
+
 async function freshFlag(kind: 'low-stock' | 'frost-risk' = 'low-stock'): Promise<number> {
   const now = new Date();
   return (await env.ctx.db.models.Flag.create({ organisationId: org.organisationId, farmId, kind, subjectType: 'tank', subjectId: 200_000 + ++seq, status: 'open', activeKey: 1, message: 'boundary', value: null, raisedAt: now, lastSeenAt: now, acknowledgedAt: null, acknowledgedById: null, ackNote: null, clearedAt: null })).id;
@@ -138,6 +148,8 @@ const ROUTES: RouteCase[] = [
   { route: 'POST /api/orders/from-suggestions', method: 'post', url: () => '/api/orders/from-suggestions', schema: orderFromSuggestionsSchema, body: () => ({ farmId, inputIds: [inputId] }) },
   { route: 'PATCH /api/orders/:id', method: 'patch', url: () => `/api/orders/${ids.draftOrder}`, schema: orderUpdateSchema, body: () => ({ notes: 'call first', lines: [{ inputId, quantity: 3 }] }) },
   { route: 'POST /api/orders/:id/receipts', method: 'post', url: () => `/api/orders/${ids.sentOrder}/receipts`, schema: orderReceiptSchema, body: () => ({ lines: [{ lineId: ids.sentLine, quantity: 0.001 }], note: 'part' }) },
+  { route: 'POST /api/orders/:id/close-short', method: 'post', url: async () => `/api/orders/${await freshPartReceivedOrder()}/close-short`, schema: orderCloseShortSchema, body: () => ({ reason: 'rest out of stock' }), freshFixture: true },
+  { route: 'PATCH /api/organisation', method: 'patch', url: () => '/api/organisation', schema: organisationSettingsSchema, body: () => ({ currency: 'NZD' }) },
   { route: 'POST /api/flags/:id/acknowledge', method: 'post', url: async () => `/api/flags/${await freshFlag()}/acknowledge`, schema: flagAckSchema, body: () => ({ note: 'ordered more' }), noEcho: ['note'], freshFixture: true },
   { route: 'POST /api/flags/:id/clear', method: 'post', url: async () => `/api/flags/${await freshFlag('frost-risk')}/clear`, schema: flagClearSchema, body: () => ({ note: 'tank drained for the winter' }), noEcho: ['note'], freshFixture: true },
   { route: 'POST /api/brews', method: 'post', url: () => '/api/brews', schema: brewCreateSchema, body: () => ({ tankId, kind: 'culture', name: `Boundary brew ${++seq}`, waterL: 10, dilution: { n: 10, convention: 'parts-water' }, inputs: [{ inputId, quantity: 0.5 }], notes: 'warm' }) },
