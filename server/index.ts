@@ -5,8 +5,13 @@ import { startServer } from './start';
 const config = loadConfig();
 const server = await startServer(config);
 server.ctx.logger.info(`Brimstock is serving on http://${config.host}:${server.port}`);
-if (server.firstOwnerLink) console.log(`No organisation exists yet: open ${server.firstOwnerLink} to make the first owner (the link works once, until the next start).`);
-console.log(`Brimstock is ready: open ${config.publicUrl}`);
+// What start-up announces is for whoever started the process (a person, npm start, the tests' reader in
+// scripts/lib/server-process.ts): logged at info whatever LOG_LEVEL lets through, as pino lines like the rest.
+const announce = server.ctx.logger.child({ startup: true }, { level: 'info' });
+if (server.firstOwnerLink) {
+  announce.info({ event: 'first-owner-link', link: server.firstOwnerLink }, `No organisation exists yet: open ${server.firstOwnerLink} to make the first owner (the link works once, until the next start).`);
+}
+announce.info({ event: 'ready', url: config.publicUrl }, `Brimstock is ready: open ${config.publicUrl}`);
 
 let stopping = false;
 for (const signal of ['SIGINT', 'SIGTERM'] as const) {

@@ -4,7 +4,20 @@ import { spawn, type ChildProcess } from 'node:child_process';
 import { join, resolve } from 'node:path';
 
 const root = resolve(import.meta.dirname, '../..');
-const READY = 'Brimstock is ready';
+
+/**
+ * True for the server's ready line: the pino record server/index.ts logs with `event: 'ready'` once it
+ * listens ("Brimstock is ready: open …"); any other line, JSON or not, is not it.
+ */
+export function isReadyLine(line: string): boolean {
+  if (!line.startsWith('{')) return false;
+  try {
+    const record = JSON.parse(line) as { event?: unknown; msg?: unknown };
+    return record.event === 'ready' && typeof record.msg === 'string' && record.msg.startsWith('Brimstock is ready');
+  } catch {
+    return false;
+  }
+}
 
 export interface ServerProcessOptions {
   env: Record<string, string>;
@@ -45,7 +58,7 @@ export function startServerProcess(opts: ServerProcessOptions): Promise<ServerPr
       rest = lines.pop()!;
       for (const line of lines) {
         opts.onLine?.(line);
-        if (!ready && line.includes(READY)) {
+        if (!ready && isReadyLine(line)) {
           ready = true;
           clearTimeout(timer);
           ok(started);
