@@ -161,7 +161,7 @@ describe('RoundView', () => {
     await wrapper.get('[data-testid="round-temperature-CS-C1"]').setValue('45');
     expect(wrapper.get('[data-testid="round-question-CS-W1"]').text()).toContain('483 L in the tank, down from 6,273 L');
     expect(wrapper.get('[data-testid="round-question-CS-C1"]').text()).toContain('45.0 °C is above 40 °C');
-    expect(wrapper.get('[data-testid="round-tank-CS-C1"] [data-caution="electrical"]').exists()).toBe(true);
+    expect(wrapper.find('[data-testid="round-tank-CS-C1"] [data-caution="electrical"]').exists()).toBe(true);
     expect(wrapper.get('[data-testid="round-progress"]').text()).toMatch(/0 of 2 tanks ready\s*To answer: CS-W1, CS-C1/);
 
     await wrapper.get('[data-testid="round-submit"]').trigger('click');
