@@ -18,7 +18,7 @@ export async function up({ context: qi }: { context: QueryInterface }) {
     const code = organisationCodeCandidates(org.name).find((c) => !taken.has(c));
     if (!code) throw new Error(`no free organisation code for organisation ${org.id}`);
     taken.add(code);
-    await qi.sequelize.query('UPDATE organisations SET code = ? WHERE id = ?', { replacements: [code, org.id] });
+    await qi.sequelize.query('UPDATE organisations SET code = ? WHERE id = ?', { replacements: [code, org.id], type: QueryTypes.UPDATE });
   }
   await qi.changeColumn('organisations', 'code', { type: DataTypes.STRING(4), allowNull: false });
   await qi.addIndex('organisations', ['code'], { unique: true, name: 'organisations_code' });
@@ -36,14 +36,12 @@ export async function up({ context: qi }: { context: QueryInterface }) {
 }
 
 export async function down({ context: qi }: { context: QueryInterface }) {
-  await qi.removeColumn('purchase_orders', 'closedShortById');
-  await qi.removeColumn('purchase_orders', 'closedShortReason');
-  await qi.removeColumn('purchase_orders', 'closedShortAt');
+  // Plain ALTERs: the mariadb connector's results trip Sequelize's removeColumn (it deletes a read-only `meta`).
+  const sql = (text: string) => qi.sequelize.query(text, { type: QueryTypes.RAW });
+  await sql('ALTER TABLE purchase_orders DROP COLUMN closedShortById, DROP COLUMN closedShortReason, DROP COLUMN closedShortAt');
   // A closed-short order reads as received in the older schema: nothing more is expected on it.
-  await qi.sequelize.query("UPDATE purchase_orders SET status = 'received' WHERE status = 'closed-short'");
+  await qi.sequelize.query("UPDATE purchase_orders SET status = 'received' WHERE status = 'closed-short'", { type: QueryTypes.UPDATE });
   await qi.changeColumn('purchase_orders', 'status', { type: DataTypes.ENUM(...STATUSES_BEFORE), allowNull: false });
   await qi.dropTable('order_counters');
-  await qi.removeIndex('organisations', 'organisations_code');
-  await qi.removeColumn('organisations', 'currency');
-  await qi.removeColumn('organisations', 'code');
+  await sql('ALTER TABLE organisations DROP INDEX organisations_code, DROP COLUMN currency, DROP COLUMN code');
 }
