@@ -37,6 +37,7 @@ vi.mock('@/api/inventory', () => ({
   updateOrder: vi.fn(),
   sendOrder: vi.fn(),
   cancelOrder: vi.fn(),
+  closeOrderShort: vi.fn(),
   receiveOrder: vi.fn(),
 }));
 vi.mock('@/api/outbox', () => ({ fetchOutbox: vi.fn(), clearOutbox: vi.fn() }));
@@ -169,6 +170,22 @@ describe('useInventoryStore', () => {
 
     expect(store.inputs).toEqual([]);
     expect(store.inputsStatus).toBe('error');
+  });
+
+  it('closes an order short in place and fetches the inputs again, whose on-order quantity has dropped', async () => {
+    const store = await signedInStore();
+    api.fetchInputs.mockResolvedValue([makeInput(41, { onOrder: 80 })]);
+    await store.loadInputs();
+    api.fetchOrders.mockResolvedValue([makeOrder(9, { status: 'part-received' })]);
+    await store.loadOrders();
+    api.closeOrderShort.mockResolvedValue(makeOrder(9, { status: 'closed-short', closedShortReason: 'none left', closedShortAt: '2026-03-09T10:00:00.000Z' }));
+    api.fetchInputs.mockResolvedValue([makeInput(41, { onOrder: 0 })]);
+
+    await store.closeOrderShort(9, { reason: 'none left' });
+
+    expect(api.closeOrderShort).toHaveBeenCalledWith(9, { reason: 'none left' });
+    expect(store.orderById.get(9)?.status).toBe('closed-short');
+    expect(store.inputById.get(41)?.onOrder).toBe(0);
   });
 
   it('says the outbox is there only when the development route answers', async () => {
