@@ -4,14 +4,13 @@ import { defineConfigWithVueTs, vueTsConfigs } from '@vue/eslint-config-typescri
 import pluginVue from 'eslint-plugin-vue';
 
 // The layer rules of shared/README.md, server/README.md and src/README.md, enforced on every import.
-// Each message starts with the rule it breaks so a reader knows which README to open.
+// Each message says the rule it breaks and names the README it comes from.
 type ImportPattern = { regex: string; message: string };
 
-const SERVER_OR_CLIENT = '(\\.\\./)+(server|src)(/|$)';
 const NODE_ONLY = [`^node:`, `^(${builtinModules.filter((m) => !m.startsWith('_')).map((m) => m.replace(/[/]/g, '\\/')).join('|')})(/|$)`];
 
 const sharedImports: ImportPattern[] = [
-  { regex: `^${SERVER_OR_CLIENT}`, message: 'shared/ imports nothing of server/ or src/: move the code into shared/ or pass it in (shared/README.md).' },
+  { regex: '^(\\.\\./)+(server|src)(/|$)', message: 'shared/ imports nothing of server/ or src/: move the code into shared/ or pass it in (shared/README.md).' },
   { regex: '^@/', message: 'shared/ imports nothing of src/ (the @/ alias): shared code runs in the browser and on the server alike (shared/README.md).' },
   { regex: '^(vue|vue-router|pinia|primevue|express|sequelize|socket\\.io)(/|$)', message: 'shared/ is plain TypeScript: no Vue, Express, Sequelize or socket.io (shared/README.md).' },
   ...NODE_ONLY.map((regex) => ({ regex, message: 'shared/ uses no Node-only module: the browser runs it too (shared/README.md).' })),
@@ -31,14 +30,14 @@ const serviceImports: ImportPattern[] = [
   { regex: '^express(/|$)', message: 'Services never import middleware or routes, and see no req/res: the route passes what the work needs (server/README.md).' },
 ];
 const clientImports: ImportPattern[] = [
-  { regex: `^(\\.\\./)+server(/|$)`, message: 'src/ never imports server/: share it through shared/ (src/README.md).' },
+  { regex: '^(\\.\\./)+server(/|$)', message: 'src/ never imports server/: share it through shared/ (src/README.md).' },
   { regex: '^(express|sequelize)(/|$)', message: 'src/ never imports server/ libraries: share it through shared/ (src/README.md).' },
 ];
 
 const restrict = (files: string[], patterns: ImportPattern[], ignores: string[] = []): Linter.Config => ({
   files,
   ignores,
-  rules: { 'no-restricted-imports': ['error', { patterns: patterns.map(({ regex, message }) => ({ regex, message })) }] },
+  rules: { 'no-restricted-imports': ['error', { patterns }] },
 });
 
 export default defineConfigWithVueTs(
