@@ -218,7 +218,8 @@ export async function loadDemoScenario(db: Database, opts: { onlyIfEmpty?: boole
     for (const { farm, ...t } of scenario.tanks) {
       const version = calibrationVersion(t.geometry, t.datumOffsetMm);
       const tank = await Tank.create({ ...t, organisationId: org.id, farmId: farmIds.get(farm)!, sensorHeightMm: null, calibrationVersion: version, archivedAt: null }, { transaction });
-      await TankCalibration.create({ organisationId: org.id, tankId: tank.id, version, geometry: t.geometry, datumOffsetMm: t.datumOffsetMm }, { transaction });
+      // Measured when the tank was set up, before any of its readings (the tank page dates the calibration).
+      await TankCalibration.create({ organisationId: org.id, tankId: tank.id, version, geometry: t.geometry, datumOffsetMm: t.datumOffsetMm, createdAt: since }, { transaction });
       await TankContentsPeriod.create({ organisationId: org.id, tankId: tank.id, contents: t.contents, contentsNote: t.contentsNote, specificGravity: t.specificGravity, fromAt: since, toAt: null, changedById: null }, { transaction });
       const made = demoReadings(tank, rounds, readerOf(tank.farmId), timeZoneOf(tank.farmId));
       // Counted before the earlier days are added, so every tank's three weeks come out as they always have.

@@ -77,7 +77,7 @@ async function createAndOpen(page: Page): Promise<number> {
   return Number(new URL(page.url()).pathname.split('/').pop());
 }
 
-/** Opens the calibration tab and returns the first table rows as [level, volume] text. */
+/** Opens the calibration tab and returns the first table rows as [tube reading, level, volume] text. */
 async function calibrationRows(page: Page): Promise<string[][]> {
   await page.getByTestId('tank-tab-calibration').click();
   await page.getByTestId('calibration-chart').locator('canvas').first().waitFor();
@@ -104,9 +104,9 @@ describe('tank pages', () => {
     await createAndOpen(page);
     expect(await page.getByTestId('tank-capacity-header').innerText()).toBe(formatVolume(capacityL(cylinder), 'metric'));
     const cylRows = await calibrationRows(page);
-    expect(cylRows[0]).toEqual(['0', '0.0']);
-    // 10 mm of a 1.2 m cylinder is π/4 × 1.2² × 0.01 m³ = 11.3 L.
-    expect(cylRows[1]).toEqual(['10', '11.3']);
+    expect(cylRows[0]).toEqual(['0', '0', '0.0']);
+    // 10 mm of a 1.2 m cylinder is π/4 × 1.2² × 0.01 m³ = 11.3 L (the tube's zero at the floor: it reads the level).
+    expect(cylRows[1]).toEqual(['10', '10', '11.3']);
     await screenshot(page, 'tank-calibration-cylinder-1280');
 
     // Horizontal cylinder with 2:1 ellipsoidal heads.
@@ -122,7 +122,7 @@ describe('tank pages', () => {
     await dialogShot(page, 'tank-editor-horizontal-1280');
     await createAndOpen(page);
     const horRows = await calibrationRows(page);
-    expect(horRows[0]).toEqual(['0', '0.0']);
+    expect(horRows[0]).toEqual(['0', '0', '0.0']);
     expect(await page.locator('[data-testid="calibration-table"] tbody tr').count()).toBe(20);
     await screenshot(page, 'tank-calibration-horizontal-1280');
 
@@ -147,7 +147,7 @@ describe('tank pages', () => {
     await expect.poll(() => page.getByTestId('tank-capacity-value').innerText()).toBe('80 L');
     await createAndOpen(page);
     const markRows = await calibrationRows(page);
-    expect(markRows[0]).toEqual(['0', '0.0']);
+    expect(markRows[0]).toEqual(['0', '0', '0.0']);
     await screenshot(page, 'tank-calibration-points-1280');
   });
 

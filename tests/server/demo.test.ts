@@ -50,6 +50,11 @@ describe('demo scenario', () => {
       // The gate tank (SO-W2) has not been read for its last four days; every other tank is read each morning.
       const missing = tank.code === 'SO-W2' ? 4 : 0;
       expect(days.size, tank.code).toBeGreaterThanOrEqual(30 - missing);
+      // Its one calibration is dated before its first reading, as a tank measured when it was set up.
+      const versions: { number: number; createdAt: string }[] = (await agent.get(`/api/tanks/${tank.id}/calibrations`).expect(200)).body;
+      expect(versions.map((v) => v.number), tank.code).toEqual([1]);
+      const first = (await agent.get(`/api/tanks/${tank.id}/series`).query({ from: new Date(0).toISOString(), bucket: 'raw' }).expect(200)).body[0];
+      expect(Date.parse(versions[0].createdAt), tank.code).toBeLessThan(Date.parse(first.t));
     }
   });
 });
