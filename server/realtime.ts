@@ -1,24 +1,30 @@
 // socket.io: the handshake is authenticated with the API's own session; the server (never the
 // client) puts each socket in the rooms of the farms its user may see and in the room of that
-// set of farms. Farms whose readings commit are gathered and pushed at most every THROTTLE_MS,
-// in one message per farm set holding every changed farm of the set, however many commit meanwhile.
+// set of farms. Farms whose readings commit are gathered and pushed at most every THROTTLE_MS: one
+// numbered delta per farm set (only the tiles that changed and the totals they move), built once and
+// sent to the set's room, however many commits came meanwhile. On each connection the socket is told
+// where its set's stream stands (`board:stream`); the client fetches GET /api/board and applies the
+// deltas numbered after the board's. Event names and payloads come from shared/schemas/board-delta.ts.
 // A socket lives no longer than the session it was opened with: it closes when that session is
 // signed out, ended by a password reset or deactivation, or expires (idle or absolute), and only
 // the app's own origin (PUBLIC_URL) may open one.
 import type { Server as HttpServer } from 'node:http';
 import type { RequestHandler } from 'express';
 import { Server } from 'socket.io';
-import type { SessionUser } from '@shared/schemas';
+import type { ServerEventPayload, SessionUser } from '@shared/schemas';
 import type { AppContext } from './context';
-import { onEvent } from './events';
-import { boardOf, stockBoard } from './services/board';
+import { onEvent, type BoardChange, type RealtimeServer, type RealtimeSocket, type SocketSession } from './events';
+import { createDeltaBuilder, type WatchedSet } from './services/board-deltas';
+import { farmSetKey, streamPosition } from './services/board-sequences';
 import { activeFlagsOf } from './services/flags';
 import { keptSessionUser } from './services/signed-in-cache';
+import { answerTimingRequests, recordTiming } from './timings';
 
 export const THROTTLE_MS = 100;
 const farmRoom = (id: number) => `farm:${id}`;
-const setPrefix = (organisationId: number) => `farms:${organisationId}:`;
-const setRoom = (actor: SessionUser) => `${setPrefix(actor.organisationId)}${[...actor.farmIds].sort((a, b) => a - b).join(',')}`;
+const SET_ROOM = 'farms:';
+const setPrefix = (organisationId: number) => `${SET_ROOM}${organisationId}:`;
+const setRoom = (actor: SessionUser) => `${SET_ROOM}${farmSetKey(actor.organisationId, actor.farmIds)}`;
 const userRoom = (id: number) => `user:${id}`;
 const sessionRoom = (sid: string) => `session:${sid}`;
 /** How often sockets whose session may have expired are looked at. */
@@ -26,21 +32,9 @@ const EXPIRY_SWEEP_MS = 500;
 /** How long an ended session is remembered, for handshakes that were under way when it ended. */
 const ENDED_KEEP_MS = 60_000;
 
-/** The session a socket was opened with, and when it ends as far as the socket knows. */
-interface SocketSession {
-  sid: string;
-  userId: number;
-  /** The store row's expiry when last read; HTTP use moves the row's on, so it is read again once this passes. */
-  idleEndsAt: number;
-  /** signedInAt + the absolute session length. */
-  endsAt: number;
-  /** When the handshake started checking the session: a session ended after this never gets the socket. */
-  checkedAt: number;
-}
-
-export function attachRealtime(ctx: AppContext, http: HttpServer, sessionMiddleware: RequestHandler): Server {
+export function attachRealtime(ctx: AppContext, http: HttpServer, sessionMiddleware: RequestHandler): RealtimeServer {
   const ownOrigin = new URL(ctx.config.publicUrl).origin;
-  const io = new Server(http, {
+  const io: RealtimeServer = new Server(http, {
     serveClient: false,
     path: '/socket.io',
     // Browsers always send Origin on a WebSocket and on cross-origin requests; a client without one
@@ -79,55 +73,45 @@ export function attachRealtime(ctx: AppContext, http: HttpServer, sessionMiddlew
     next();
   });
 
-  const joinRooms = async (socket: import('socket.io').Socket, actor: SessionUser) => {
+  const joinRooms = async (socket: RealtimeSocket, actor: SessionUser) => {
     for (const room of socket.rooms) if (room.startsWith('farm:') || room.startsWith('farms:')) await socket.leave(room);
     await socket.join([userRoom(actor.id), setRoom(actor), ...actor.farmIds.map(farmRoom)]);
   };
 
-  // A failed board read (database gone for a moment) must not end the process: the socket is
-  // dropped and the client reconnects for a fresh board.
-  const failed = (socket: import('socket.io').Socket) => (err: unknown) => {
-    ctx.logger.error({ err }, 'board for a socket failed');
-    socket.disconnect(true);
-  };
+  const deltas = createDeltaBuilder(ctx);
   io.on('connection', (socket) => {
-    const actor = socket.data.actor as SessionUser;
-    const session = socket.data.session as SocketSession;
+    const { actor, session } = socket.data;
     // The session may have ended while the handshake was being checked.
     if (endedSince(session)) return void socket.disconnect(true);
-    void socket.join([sessionRoom(session.sid), userRoom(session.userId)]);
     void (async () => {
+      await socket.join([sessionRoom(session.sid), userRoom(session.userId)]);
       await joinRooms(socket, actor);
-      socket.emit('board', await stockBoard(ctx, actor));
-    })().catch(failed(socket));
-    // A client that lost its connection (or suspects it missed pushes) asks for the whole board again;
-    // access is re-read so changed farm access applies.
-    socket.on('board:resync', () => {
-      void (async () => {
-        const now = await keptSessionUser(ctx, actor.id);
-        if (!now) return void socket.disconnect(true);
-        socket.data.actor = now;
-        await joinRooms(socket, now);
-        socket.emit('board', await stockBoard(ctx, now));
-      })().catch(failed(socket));
+      await deltas.watch(actor.organisationId, actor.farmIds);
+      // Joined: every delta numbered after this reaches the socket.
+      socket.emit('board:stream', streamPosition(ctx, farmSetKey(actor.organisationId, actor.farmIds)));
+    })().catch((err: unknown) => {
+      ctx.logger.error({ err }, 'socket set-up failed');
+      socket.disconnect(true);
     });
   });
 
-  /** The changed farms of one organisation, sent to every farm set that holds some of them. */
-  const pushFarms = async (organisationId: number, farmIds: number[]) => {
-    const board = await boardOf(ctx, organisationId, farmIds);
-    const byId = new Map(board.farms.map((f) => [f.farmId, f]));
-    // A farm with no tanks left (or archived meanwhile) goes out empty, so it leaves the board.
-    const farms = farmIds.map((farmId) => byId.get(farmId) ?? { farmId, name: '', totals: [], tanks: [] });
+  /** The changed farms of one organisation, as one delta per watched farm set that shows some of them. */
+  const pushFarms = async (organisationId: number, farmIds: Iterable<number>, since: number) => {
     const prefix = setPrefix(organisationId);
+    const sets: WatchedSet[] = [];
     for (const room of io.of('/').adapter.rooms.keys()) {
       if (!room.startsWith(prefix)) continue;
-      const visible = new Set(room.slice(prefix.length).split(',').map(Number));
-      const theirs = farms.filter((f) => visible.has(f.farmId));
-      if (theirs.length) io.to(room).emit('board:farms', theirs);
+      const key = room.slice(SET_ROOM.length);
+      sets.push({ key, farmIds: new Set(room.slice(prefix.length).split(',').map(Number)) });
+    }
+    for (const { key, delta } of await deltas.build(organisationId, farmIds, sets)) {
+      // Encoded once by socket.io for the whole room.
+      io.to(`${SET_ROOM}${key}`).emit('board:delta', delta);
+      recordTiming(ctx, 'board-push', Date.now() - since);
     }
   };
-  const dirty = new Map<number, Set<number>>();
+  /** Per organisation: the changed farms and when the first of those changes was heard of. */
+  const dirty = new Map<number, { farms: Set<number>; since: number }>();
   let timer: NodeJS.Timeout | null = null;
   let lastFlushAt = 0;
   let flushing = false;
@@ -139,7 +123,7 @@ export function attachRealtime(ctx: AppContext, http: HttpServer, sessionMiddlew
     lastFlushAt = Date.now();
     const batch = [...dirty.entries()];
     dirty.clear();
-    for (const [organisationId, farms] of batch) await pushFarms(organisationId, [...farms]).catch((err) => ctx.logger.error({ err }, 'board push failed'));
+    for (const [organisationId, { farms, since }] of batch) await pushFarms(organisationId, farms, since).catch((err) => ctx.logger.error({ err }, 'board push failed'));
     flushing = false;
     if (dirty.size) arm();
   };
@@ -148,21 +132,18 @@ export function attachRealtime(ctx: AppContext, http: HttpServer, sessionMiddlew
     if (timer || flushing) return;
     timer = setTimeout(() => void flush(), Math.max(0, lastFlushAt + THROTTLE_MS - Date.now()));
   };
-  const schedule = (organisationId: number, farmId: number) => {
-    let farms = dirty.get(organisationId);
-    if (!farms) dirty.set(organisationId, (farms = new Set()));
-    farms.add(farmId);
+  const onBoardChange = ({ organisationId, farmIds }: BoardChange) => {
+    let pending = dirty.get(organisationId);
+    if (!pending) dirty.set(organisationId, (pending = { farms: new Set(), since: Date.now() }));
+    for (const id of farmIds) pending.farms.add(id);
     arm();
-  };
-
-  const onReadings = ({ organisationId, farmIds }: { organisationId: number; farmIds: number[] }) => {
-    for (const id of farmIds) schedule(organisationId, id);
   };
   const onUserChanged = ({ userId }: { userId: number }) => {
     io.in(userRoom(userId)).disconnectSockets(true);
   };
   const onUserEvent = ({ userId, event, payload }: { userId: number; event: string; payload: unknown }) => {
-    io.to(userRoom(userId)).emit(event, payload);
+    if (event !== 'import:progress') return void ctx.logger.warn({ event }, 'unknown user event not sent');
+    io.to(userRoom(userId)).emit(event, payload as ServerEventPayload<typeof event>);
   };
   const onFlags = async ({ organisationId, farmIds }: { organisationId: number; farmIds: number[] }) => {
     for (const farmId of farmIds) {
@@ -171,9 +152,10 @@ export function attachRealtime(ctx: AppContext, http: HttpServer, sessionMiddlew
     }
   };
   ctx.events.on('flags', onFlags);
-  ctx.events.on('readings', onReadings);
+  const stopReadings = onEvent(ctx, 'readings', onBoardChange);
   // Newer cached use rates (computed off the request path) change days of cover: push those farms too.
-  ctx.events.on('forecasts', onReadings);
+  const stopForecasts = onEvent(ctx, 'forecasts', onBoardChange);
+  const stopTimings = answerTimingRequests(ctx);
   ctx.events.on('user-changed', onUserChanged);
   ctx.events.on('user-event', onUserEvent);
 
@@ -189,9 +171,9 @@ export function attachRealtime(ctx: AppContext, http: HttpServer, sessionMiddlew
   const sweep = async () => {
     const now = Date.now();
     for (const [key, at] of ended) if (now - at > ENDED_KEEP_MS) ended.delete(key);
-    const idle: { socket: import('socket.io').Socket; session: SocketSession }[] = [];
+    const idle: { socket: RealtimeSocket; session: SocketSession }[] = [];
     for (const socket of io.of('/').sockets.values()) {
-      const session = socket.data.session as SocketSession;
+      const session = socket.data.session;
       if (now >= session.endsAt) socket.disconnect(true);
       else if (now >= session.idleEndsAt) idle.push({ socket, session });
     }
@@ -218,8 +200,9 @@ export function attachRealtime(ctx: AppContext, http: HttpServer, sessionMiddlew
   // io.close() ends with closing the HTTP server.
   http.once('close', () => {
     ctx.events.off('flags', onFlags);
-    ctx.events.off('readings', onReadings);
-    ctx.events.off('forecasts', onReadings);
+    stopReadings();
+    stopForecasts();
+    stopTimings();
     ctx.events.off('user-changed', onUserChanged);
     ctx.events.off('user-event', onUserEvent);
     stopSessionEnded();

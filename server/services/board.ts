@@ -9,8 +9,9 @@ import { totalsOf } from '@shared/board';
 import { daysOfCoverSince } from '@shared/forecast';
 import { stockFigures, usableCapacityL } from '@shared/readings';
 import { datesEndingOn, farmDayOf } from '@shared/time';
-import { TANK_CONTENTS, type BoardHistory, type BoardHistoryFarm, type FarmBoard, type SessionUser, type StockBoard, type TankContents, type TankTile } from '@shared/schemas';
+import { TANK_CONTENTS, type BoardHistory, type BoardHistoryFarm, type BoardSnapshot, type FarmBoard, type SessionUser, type StockBoard, type TankContents, type TankTile } from '@shared/schemas';
 import type { AppContext } from '../context';
+import { boardSequences, farmSetKey, streamPosition } from './board-sequences';
 import { queueForecastRefresh } from './forecasts';
 
 const gzipAsync = promisify(gzip);
@@ -81,13 +82,15 @@ async function boardRows(ctx: AppContext, organisationId: number, farmIds: numbe
   return rows.sort((a, b) => (position.get(a.tankId) ?? order.length) - (position.get(b.tankId) ?? order.length));
 }
 
-/** The board for the farms the actor may see. */
-export function stockBoard(ctx: AppContext, actor: SessionUser): Promise<StockBoard> {
-  return boardOf(ctx, actor.organisationId, actor.farmIds);
+/** The board for the farms the actor may see, with the position of their delta stream it includes. */
+export async function stockBoard(ctx: AppContext, actor: SessionUser): Promise<StockBoard> {
+  // Taken before the read: every delta numbered up to here was read before this board.
+  const stream = streamPosition(ctx, farmSetKey(actor.organisationId, actor.farmIds));
+  return { ...(await boardOf(ctx, actor.organisationId, actor.farmIds)), stream };
 }
 
-/** The board of some farms of one organisation (callers check access). */
-export async function boardOf(ctx: AppContext, organisationId: number, farmIds: number[]): Promise<StockBoard> {
+/** The figures of some farms of one organisation (callers check access). */
+export async function boardOf(ctx: AppContext, organisationId: number, farmIds: number[]): Promise<BoardSnapshot> {
   const rows = farmIds.length ? await boardRows(ctx, organisationId, farmIds) : [];
   const farms = new Map<number, FarmBoard>();
   const all: TankTile[] = [];
@@ -196,10 +199,10 @@ async function boardFingerprint(ctx: AppContext, organisationId: number, farmIds
  * Requests that find the copy out of date at the same moment share one check and one rebuild.
  */
 export async function stockBoardJson(ctx: AppContext, actor: SessionUser): Promise<KeptBoard> {
-  if (!actor.farmIds.length) return { json: Buffer.from(JSON.stringify(await stockBoard(ctx, actor))), etag: '"board-empty"' };
+  if (!actor.farmIds.length) return { json: Buffer.from(JSON.stringify(await stockBoard(ctx, actor))), etag: `"board-empty-${boardSequences(ctx).epoch}"` };
   const keep = keepOf(ctx);
   const farmIds = [...actor.farmIds].sort((a, b) => a - b);
-  const key = `${actor.organisationId}:${farmIds.join(',')}`;
+  const key = farmSetKey(actor.organisationId, farmIds);
   const generation = keep.generation;
   const flight = keep.flights.get(key);
   if (flight && flight.generation === generation) return flight.board;
@@ -220,7 +223,9 @@ async function refreshBoard(ctx: AppContext, keep: BoardKeep, key: string, organ
     current.checkedAt = Date.now();
     return current;
   }
-  const json = Buffer.from(JSON.stringify(await boardOf(ctx, organisationId, farmIds)));
+  // The stream position is taken before the read, so the deltas numbered after it carry nothing older than this board.
+  const stream = streamPosition(ctx, key);
+  const json = Buffer.from(JSON.stringify({ ...(await boardOf(ctx, organisationId, farmIds)), stream } satisfies StockBoard));
   const builtAt = Date.now();
   const entry: BoardEntry = { fingerprint, generation, builtAt, checkedAt: builtAt, json, etag: `"board-${createHash('sha1').update(json).digest('base64url')}"` };
   if (keep.entries.size >= 1_000) keep.entries.clear();

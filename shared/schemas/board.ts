@@ -1,3 +1,4 @@
+import type { BoardStreamPosition } from './board-delta';
 import type { TankContents } from './tanks';
 
 /** Stock of one kind of contents: litres from each tank's latest reading. */
@@ -55,11 +56,16 @@ export interface FarmBoard {
   tanks: TankTile[];
 }
 
-/** GET /api/board (the socket event `board:farms` carries the changed farms' `FarmBoard`s). */
-export interface StockBoard {
+/** The board's figures, as read from the database. */
+export interface BoardSnapshot {
   generatedAt: string;
   totals: ContentsTotal[];
   farms: FarmBoard[];
+}
+
+/** GET /api/board: the figures and the position of the farm set's delta stream they include (socket event `board:delta` carries what changes after it). */
+export interface StockBoard extends BoardSnapshot {
+  stream: BoardStreamPosition;
 }
 
 /** A farm on the board history: whose local days its tanks' figures follow. */

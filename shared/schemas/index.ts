@@ -6,6 +6,7 @@ export * from './tanks';
 export * from './readings';
 export * from './board';
 export * from './forecasts';
+export * from './board-delta';
 export * from './gauge';
 export * from './imports';
 export * from './inventory';

@@ -1,4 +1,4 @@
-import type { Flag, FlagKind } from '@shared/schemas';
+import type { Flag, FlagKind, ServerEventPayload } from '@shared/schemas';
 import { http } from './http';
 import { onServerEvent, sharedSocket } from './socket';
 
@@ -12,19 +12,11 @@ export interface FlagListQuery {
   limit?: number;
 }
 
-/** What the server pushes whenever one farm's active flags change: all of them, replacing the last push. */
-export interface FlagsFarmPush {
-  farmId: number;
-  flags: Flag[];
-}
-
-// The server sends 'flags:farm' to the farm's room; every socket of a person is in the rooms of
-// their farms, so the tab's one shared connection receives it alongside its own events.
-declare module './socket' {
-  interface UserServerEvents {
-    'flags:farm': (payload: FlagsFarmPush) => void;
-  }
-}
+/**
+ * What the server pushes whenever one farm's active flags change: all of them, replacing the last push
+ * (socket event 'flags:farm', sent to the farm's room, so the tab's one shared connection receives it).
+ */
+export type FlagsFarmPush = ServerEventPayload<'flags:farm'>;
 
 /** Flags on the user's farms, newest first. */
 export function fetchFlags(query: FlagListQuery = {}): Promise<Flag[]> {

@@ -99,8 +99,8 @@ function toApiError(status: number, body: unknown): ApiError {
   return new ApiError(status, 'http_error', fallback[status] ?? `The request failed (HTTP ${status}).`);
 }
 
-async function send(method: HttpMethod, path: string, options: RequestOptions): Promise<Response> {
-  const headers: Record<string, string> = { Accept: 'application/json' };
+async function send(method: HttpMethod, path: string, options: RequestOptions, extraHeaders: Record<string, string> = {}): Promise<Response> {
+  const headers: Record<string, string> = { Accept: 'application/json', ...extraHeaders };
   if (options.body !== undefined) headers['Content-Type'] = 'application/json';
   if (WRITE_METHODS.has(method) && csrfSource) {
     const token = csrfSource.token();
@@ -138,6 +138,22 @@ export async function request<T>(method: HttpMethod, path: string, options: Requ
     throw error;
   }
   return body as T;
+}
+
+/** A GET that may answer 304: the body and entity tag of a new answer, or notModified when it still matches `etag`. */
+export type ConditionalAnswer<T> = { notModified: false; body: T; etag: string | null } | { notModified: true; etag: string };
+
+/** GET with If-None-Match (the API's answers are not kept by the browser, so the caller keeps the tag); throws ApiError like request(). */
+export async function getConditional<T>(path: string, etag: string | null): Promise<ConditionalAnswer<T>> {
+  const response = await send('GET', path, {}, etag ? { 'If-None-Match': etag } : {});
+  if (response.status === 304 && etag) return { notModified: true, etag };
+  const body = await readBody(response);
+  if (!response.ok) {
+    const error = toApiError(response.status, body);
+    if (error.status === 401 && error.code === 'unauthenticated') unauthenticatedHandler?.(path);
+    throw error;
+  }
+  return { notModified: false, body: body as T, etag: response.headers.get('ETag') };
 }
 
 /** The five verbs as small helpers over request(). */

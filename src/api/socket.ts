@@ -1,30 +1,45 @@
 import { io, type Socket } from 'socket.io-client';
-import type { ImportProgress } from '@shared/schemas';
+import type { ClientToServerEvents, ServerToClientEvents } from '@shared/schemas';
 
-/** Events the server pushes to one person (its `user:<id>` room) over the shared connection. */
-export interface UserServerEvents {
-  'import:progress': (payload: ImportProgress) => void;
-}
+/** The tab's socket, typed by the event map of shared/schemas/board-delta.ts. */
+export type SharedSocket = Socket<ServerToClientEvents, ClientToServerEvents>;
+/** The events the server sends. */
+export type ServerEventName = keyof ServerToClientEvents;
 
-type SharedSocket = Socket<UserServerEvents, Record<string, never>>;
+/** Wait before connecting again after the server closed the connection, ms. */
+export const SERVER_CLOSE_RETRY_MS = 1000;
 
 let socket: SharedSocket | null = null;
 let listeners = 0;
+let retryTimer: ReturnType<typeof setTimeout> | null = null;
 
 /**
- * The one socket.io connection of this tab to its own origin, created on first use and
- * authenticated by the session cookie; the server decides which pushes reach it.
+ * The one socket.io connection of this tab to its own origin (the board, flags and import progress
+ * all share it), created on first use and authenticated by the session cookie; the server decides
+ * which pushes reach it.
  */
 export function sharedSocket(): SharedSocket {
-  socket ??= io({ path: '/socket.io', withCredentials: true, autoConnect: false });
-  return socket;
+  if (socket) return socket;
+  const s: SharedSocket = io({ path: '/socket.io', withCredentials: true, autoConnect: false });
+  // The server closes a person's sockets when their access changes; socket.io does not come back by
+  // itself after that, so connect again (while anyone listens) and let the server decide what they now see.
+  s.on('disconnect', (reason) => {
+    if (reason !== 'io server disconnect') return;
+    if (retryTimer) clearTimeout(retryTimer);
+    retryTimer = setTimeout(() => {
+      retryTimer = null;
+      if (listeners > 0 && !s.active) s.connect();
+    }, SERVER_CLOSE_RETRY_MS);
+  });
+  socket = s;
+  return s;
 }
 
 /**
  * Listens for one pushed event; connects while anyone listens and disconnects after the last one
  * stops, so a signed-out tab keeps no connection. Returns the function that stops listening.
  */
-export function onServerEvent<E extends keyof UserServerEvents>(event: E, handler: UserServerEvents[E]): () => void {
+export function onServerEvent<E extends ServerEventName>(event: E, handler: ServerToClientEvents[E]): () => void {
   const s = sharedSocket();
   s.on(event, handler as never);
   listeners++;
@@ -36,7 +51,11 @@ export function onServerEvent<E extends keyof UserServerEvents>(event: E, handle
     stopped = true;
     s.off(event, handler as never);
     listeners--;
-    if (listeners === 0) s.disconnect();
+    if (listeners === 0) {
+      if (retryTimer) clearTimeout(retryTimer);
+      retryTimer = null;
+      s.disconnect();
+    }
   };
 }
 

@@ -1,35 +1,22 @@
 import { getCurrentScope, onScopeDispose, ref, shallowRef, type Ref } from 'vue';
-import { io, type Socket } from 'socket.io-client';
-import type { FarmBoard, StockBoard } from '@shared/schemas';
+import type { BoardStreamPosition, ServerEventPayload } from '@shared/schemas';
+import { onServerEvent, sharedSocket } from '@/api/socket';
 
 /** connecting: first connection; live: pushes arrive; reconnecting: lost, trying again; offline: given up or closed. */
 export type BoardSocketStatus = 'connecting' | 'live' | 'reconnecting' | 'offline';
 
-interface ServerEvents {
-  board: (board: StockBoard) => void;
-  'board:farms': (farms: FarmBoard[]) => void;
-}
-interface ClientEvents {
-  'board:resync': () => void;
-}
-type BoardSocket = Socket<ServerEvents, ClientEvents>;
-
 export interface UseBoardSocketOptions {
-  /** The whole board: on every connection, and after each resync. */
-  onBoard: (board: StockBoard) => void;
-  /** One farm's board, for each farm in a push after readings of those farms are stored. */
-  onFarm: (farm: FarmBoard) => void;
+  /** Where the farm set's stream stands, on every (re)connection once the socket is in its rooms: fetch the board then. */
+  onStream: (position: BoardStreamPosition) => void;
+  /** Each numbered board delta as it arrives (unchecked: the store checks it against the schema). */
+  onDelta: (delta: ServerEventPayload<'board:delta'>) => void;
   /** Connect at once (default true); otherwise call open(). */
   immediate?: boolean;
-  /** socket.io's HTTP path on this origin (default '/socket.io'). */
-  path?: string;
-  /** Wait before connecting again after the server closed the connection, ms (default 1000). */
-  serverCloseDelayMs?: number;
 }
 
 export interface UseBoardSocketReturn {
   status: Ref<BoardSocketStatus>;
-  /** When the last board or farm push arrived. */
+  /** When the last stream position or delta arrived. */
   lastMessageAt: Ref<Date | null>;
   /** Why the last connection attempt failed, or null. */
   lastError: Ref<string | null>;
@@ -38,68 +25,56 @@ export interface UseBoardSocketReturn {
 }
 
 /**
- * The stock board's live connection to this origin, authenticated by the session cookie (the server
- * picks the farms). Asks for the whole board again after every reconnect, since pushes sent while
- * the connection was down are lost. Closed when the calling scope is disposed.
+ * The stock board's live feed over the tab's one shared connection (src/api/socket.ts), authenticated
+ * by the session cookie (the server picks the farms). Pushes sent while the connection was down are
+ * lost, so every connection starts with the stream position and the caller fetches the board then.
+ * Stops listening when the calling scope is disposed.
  */
 export function useBoardSocket(options: UseBoardSocketOptions): UseBoardSocketReturn {
   const status = ref<BoardSocketStatus>('offline');
   const lastMessageAt = shallowRef<Date | null>(null);
   const lastError = ref<string | null>(null);
-  let socket: BoardSocket | null = null;
-  let connectedBefore = false;
-  let retryTimer: ReturnType<typeof setTimeout> | null = null;
+  let stops: (() => void)[] = [];
 
   function open(): void {
-    if (socket) return;
-    status.value = 'connecting';
-    const s: BoardSocket = io({ path: options.path ?? '/socket.io', withCredentials: true });
-    socket = s;
-
-    s.on('connect', () => {
+    if (stops.length) return;
+    const s = sharedSocket();
+    status.value = s.connected ? 'live' : 'connecting';
+    const onConnect = () => {
       status.value = 'live';
       lastError.value = null;
-      if (connectedBefore) s.emit('board:resync');
-      connectedBefore = true;
-    });
-    s.on('disconnect', (reason) => {
-      if (reason === 'io client disconnect') {
-        status.value = 'offline';
-        return;
-      }
-      status.value = 'reconnecting';
-      // The server closes a person's sockets when their access changes; socket.io does not come back
-      // by itself after that, so connect again and let the server decide what they now see.
-      if (reason === 'io server disconnect') {
-        retryTimer = setTimeout(() => {
-          retryTimer = null;
-          s.connect();
-        }, options.serverCloseDelayMs ?? 1000);
-      }
-    });
-    s.on('connect_error', (err) => {
+    };
+    const onDisconnect = (reason: string) => {
+      status.value = reason === 'io client disconnect' ? 'offline' : 'reconnecting';
+    };
+    const onConnectError = (err: Error) => {
       lastError.value = err.message;
       // `active` is false when the server refused the connection (signed out): no retry is coming.
       status.value = s.active ? 'reconnecting' : 'offline';
-    });
-    s.on('board', (board) => {
-      lastMessageAt.value = new Date();
-      options.onBoard(board);
-    });
-    s.on('board:farms', (farms) => {
-      lastMessageAt.value = new Date();
-      for (const farm of farms) options.onFarm(farm);
-    });
+    };
+    s.on('connect', onConnect);
+    s.on('disconnect', onDisconnect);
+    s.on('connect_error', onConnectError);
+    stops = [
+      () => {
+        s.off('connect', onConnect);
+        s.off('disconnect', onDisconnect);
+        s.off('connect_error', onConnectError);
+      },
+      onServerEvent('board:stream', (position) => {
+        lastMessageAt.value = new Date();
+        options.onStream(position);
+      }),
+      onServerEvent('board:delta', (delta) => {
+        lastMessageAt.value = new Date();
+        options.onDelta(delta);
+      }),
+    ];
   }
 
   function close(): void {
-    if (retryTimer) clearTimeout(retryTimer);
-    retryTimer = null;
-    if (!socket) return;
-    socket.off();
-    socket.disconnect();
-    socket = null;
-    connectedBefore = false;
+    for (const stop of stops) stop();
+    stops = [];
     status.value = 'offline';
   }
 

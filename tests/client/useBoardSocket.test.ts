@@ -1,32 +1,37 @@
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import { effectScope } from 'vue';
 import * as client from 'socket.io-client';
-import { useBoardSocket } from '@/composables/useBoardSocket';
-import { makeBoard, makeFarmBoard, makeTile } from './support/tanks';
+import { BOARD_DELTA_VERSION } from '@shared/schemas';
 
 const fake = vi.hoisted(() => {
   type Handler = (...args: unknown[]) => void;
   class FakeSocket {
     readonly handlers = new Map<string, Handler[]>();
-    readonly emitted: unknown[][] = [];
-    active = true;
-    connect = vi.fn();
-    disconnect = vi.fn();
+    active = false;
+    connected = false;
+    connect = vi.fn(() => {
+      this.active = true;
+    });
+    disconnect = vi.fn(() => {
+      this.active = false;
+      this.connected = false;
+    });
     constructor(readonly options: unknown) {}
     on(event: string, handler: Handler) {
       this.handlers.set(event, [...(this.handlers.get(event) ?? []), handler]);
       return this;
     }
-    off() {
-      this.handlers.clear();
+    off(event: string, handler: Handler) {
+      this.handlers.set(event, (this.handlers.get(event) ?? []).filter((h) => h !== handler));
       return this;
     }
-    emit(...args: unknown[]) {
-      this.emitted.push(args);
-      return this;
+    listenerCount() {
+      return [...this.handlers.values()].reduce((n, hs) => n + hs.length, 0);
     }
     /** What the server (or the transport) would make happen. */
     fire(event: string, ...args: unknown[]) {
+      if (event === 'connect') this.connected = true;
+      if (event === 'disconnect') this.connected = false;
       for (const h of this.handlers.get(event) ?? []) h(...args);
     }
   }
@@ -42,74 +47,78 @@ vi.mock('socket.io-client', () => ({
   }),
 }));
 
-function start() {
-  const onBoard = vi.fn();
-  const onFarm = vi.fn();
+const position = { version: BOARD_DELTA_VERSION, epoch: 'e1', seq: 4 };
+
+async function start() {
+  // A fresh module each test: the tab's one shared socket is made on first use.
+  const { useBoardSocket } = await import('@/composables/useBoardSocket');
+  const onStream = vi.fn();
+  const onDelta = vi.fn();
   const scope = effectScope();
-  const live = scope.run(() => useBoardSocket({ onBoard, onFarm, serverCloseDelayMs: 50 }))!;
-  return { live, scope, onBoard, onFarm, socket: fake.made.at(-1)! };
+  const live = scope.run(() => useBoardSocket({ onStream, onDelta }))!;
+  return { live, scope, onStream, onDelta, socket: fake.made.at(-1)! };
 }
 
 beforeEach(() => {
   fake.made.length = 0;
   vi.mocked(client.io).mockClear();
+  vi.resetModules();
   vi.useFakeTimers();
 });
 afterEach(() => vi.useRealTimers());
 
 describe('useBoardSocket', () => {
-  it('connects to this origin on /socket.io with credentials', () => {
-    const { live } = start();
+  it('uses the tab\'s one shared connection to this origin on /socket.io with credentials', async () => {
+    const { live } = await start();
+    const { onFlagsPush } = await import('@/api/flags');
+    const stopFlags = onFlagsPush(() => undefined);
 
-    expect(client.io).toHaveBeenCalledWith({ path: '/socket.io', withCredentials: true });
+    expect(client.io).toHaveBeenCalledTimes(1);
+    expect(client.io).toHaveBeenCalledWith({ path: '/socket.io', withCredentials: true, autoConnect: false });
     expect(live.status.value).toBe('connecting');
+    stopFlags();
   });
 
-  it('hands whole boards and farm pushes to the callbacks', () => {
-    const { socket, onBoard, onFarm, live } = start();
-    const board = makeBoard([]);
-    const farm = makeFarmBoard(11, 'Creek site', [makeTile({ tankId: 1, code: 'CS-W1' })]);
+  it('hands the stream position and each delta to the callbacks', async () => {
+    const { socket, onStream, onDelta, live } = await start();
+    const delta = { ...position, seq: 5, generatedAt: '2026-03-02T10:00:00.000Z', totals: [], farms: [], removedFarmIds: [] };
 
     socket.fire('connect');
-    socket.fire('board', board);
-    socket.fire('board:farms', [farm]);
+    socket.fire('board:stream', position);
+    socket.fire('board:delta', delta);
 
     expect(live.status.value).toBe('live');
-    expect(onBoard).toHaveBeenCalledWith(board);
-    expect(onFarm).toHaveBeenCalledWith(farm);
+    expect(onStream).toHaveBeenCalledWith(position);
+    expect(onDelta).toHaveBeenCalledWith(delta);
     expect(live.lastMessageAt.value).toBeInstanceOf(Date);
   });
 
-  it('asks for the whole board again on every reconnect, not on the first connection', () => {
-    const { socket, live } = start();
-
+  it('reports reconnecting while the connection is lost and live once it is back', async () => {
+    const { socket, live } = await start();
     socket.fire('connect');
-    expect(socket.emitted).toEqual([]);
 
     socket.fire('disconnect', 'transport close');
     expect(live.status.value).toBe('reconnecting');
     socket.fire('connect');
-    socket.fire('disconnect', 'ping timeout');
-    socket.fire('connect');
 
-    expect(socket.emitted).toEqual([['board:resync'], ['board:resync']]);
     expect(live.status.value).toBe('live');
   });
 
-  it('connects again after the server closed the connection', () => {
-    const { socket, live } = start();
+  it('connects again after the server closed the connection', async () => {
+    const { socket, live } = await start();
     socket.fire('connect');
+    expect(socket.connect).toHaveBeenCalledTimes(1);
 
+    socket.active = false;
     socket.fire('disconnect', 'io server disconnect');
     expect(live.status.value).toBe('reconnecting');
-    expect(socket.connect).not.toHaveBeenCalled();
-    vi.advanceTimersByTime(50);
+    vi.advanceTimersByTime(1000);
 
-    expect(socket.connect).toHaveBeenCalledTimes(1);
+    expect(socket.connect).toHaveBeenCalledTimes(2);
   });
 
-  it('reports offline when the server refuses the connection', () => {
-    const { socket, live } = start();
+  it('reports offline when the server refuses the connection', async () => {
+    const { socket, live } = await start();
     socket.active = false;
 
     socket.fire('connect_error', new Error('unauthenticated'));
@@ -118,14 +127,19 @@ describe('useBoardSocket', () => {
     expect(live.lastError.value).toBe('unauthenticated');
   });
 
-  it('disconnects when its scope is disposed', () => {
-    const { socket, scope, live } = start();
+  it('stops listening when its scope is disposed, and the connection closes with its last listener', async () => {
+    const { socket, scope, live } = await start();
     socket.fire('connect');
+    const { onFlagsPush } = await import('@/api/flags');
+    const stopFlags = onFlagsPush(() => undefined);
 
     scope.stop();
+    expect(live.status.value).toBe('offline');
+    expect(socket.disconnect).not.toHaveBeenCalled();
+    stopFlags();
 
     expect(socket.disconnect).toHaveBeenCalledTimes(1);
-    expect(socket.handlers.size).toBe(0);
-    expect(live.status.value).toBe('offline');
+    // Only the shared socket's own reconnect handler is left.
+    expect(socket.listenerCount()).toBe(1);
   });
 });

@@ -4,7 +4,7 @@ import { randomUUID } from 'node:crypto';
 import { createServer, type Server } from 'node:http';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { io as connect, type Socket } from 'socket.io-client';
-import type { FarmBoard } from '@shared/schemas';
+import type { BoardDelta, FarmDelta } from '@shared/schemas';
 import { attachRealtime } from '../../server/realtime';
 import { useTestApp, type TestEnv } from '../support/db';
 import { makeOrganisation, PASSWORD, type OrgFixture } from '../support/fixtures';
@@ -18,7 +18,7 @@ interface Browser {
 
 interface Watch {
   socket: Socket;
-  farms: FarmBoard[];
+  farms: FarmDelta[];
   flags: unknown[];
   /** When the server closed the socket (ms since the epoch), once it has. */
   closedAt: () => number | null;
@@ -80,15 +80,15 @@ function useLiveServer(env: TestEnv) {
       if (opts.origin) headers.origin = opts.origin;
       const socket = connect(base, { transports: ['websocket'], extraHeaders: headers, reconnection: false, forceNew: true });
       sockets.push(socket);
-      const farms: FarmBoard[] = [];
+      const farms: FarmDelta[] = [];
       const flags: unknown[] = [];
       let closedAt: number | null = null;
-      socket.on('board:farms', (fs: FarmBoard[]) => farms.push(...fs));
+      socket.on('board:delta', (d: BoardDelta) => farms.push(...d.farms));
       socket.on('flags:farm', (f: unknown) => flags.push(f));
       socket.on('disconnect', (reason) => {
         if (reason === 'io server disconnect' || reason === 'transport close') closedAt ??= Date.now();
       });
-      socket.once('board', () => resolve({ socket, farms, flags, closedAt: () => closedAt }));
+      socket.once('board:stream', () => resolve({ socket, farms, flags, closedAt: () => closedAt }));
       socket.once('connect_error', reject);
     });
   }

@@ -2,8 +2,8 @@ import { randomUUID } from 'node:crypto';
 import { createServer, type Server } from 'node:http';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { io as connect, type Socket } from 'socket.io-client';
-import type { FarmBoard, StockBoard } from '@shared/schemas';
-import { attachRealtime } from '../../server/realtime';
+import { boardDeltaSchema, type BoardDelta, type BoardStreamPosition, type StockBoard } from '@shared/schemas';
+import { attachRealtime, THROTTLE_MS } from '../../server/realtime';
 import { useTestApp } from '../support/db';
 import { makeOrganisation, PASSWORD, type OrgFixture } from '../support/fixtures';
 import { makeTank } from '../support/tanks';
@@ -36,15 +36,25 @@ async function session(email: string) {
   return { cookie: res.headers.getSetCookie().map((c) => c.split(';')[0]).join('; '), csrf: body.csrfToken as string };
 }
 
-function open(cookie?: string): Promise<{ socket: Socket; board: StockBoard; farms: FarmBoard[] }> {
+interface Watch {
+  socket: Socket;
+  stream: BoardStreamPosition;
+  deltas: BoardDelta[];
+}
+
+function open(cookie?: string): Promise<Watch> {
   return new Promise((resolve, reject) => {
     const socket = connect(base, { transports: ['websocket'], extraHeaders: cookie ? { cookie } : {}, reconnection: false, forceNew: true });
     sockets.push(socket);
-    const farms: FarmBoard[] = [];
-    socket.on('board:farms', (fs: FarmBoard[]) => farms.push(...fs));
-    socket.once('board', (board: StockBoard) => resolve({ socket, board, farms }));
+    const deltas: BoardDelta[] = [];
+    socket.on('board:delta', (d: BoardDelta) => deltas.push(boardDeltaSchema.parse(d)));
+    socket.once('board:stream', (stream: BoardStreamPosition) => resolve({ socket, stream, deltas }));
     socket.once('connect_error', reject);
   });
+}
+
+async function board(who: { cookie: string }): Promise<StockBoard> {
+  return (await fetch(`${base}/api/board`, { headers: { cookie: who.cookie } })).json();
 }
 
 async function round(who: { cookie: string; csrf: string }, farmId: number, tankId: number, readingMm: number) {
@@ -64,13 +74,17 @@ const until = async (check: () => boolean, ms = 3000) => {
   }
 };
 
+const farmOf = (d: BoardDelta, farmId: number) => d.farms.find((f) => f.farmId === farmId);
+
 describe('realtime board', () => {
   let org: OrgFixture;
   let tankA: number;
+  let tankA2: number;
   let tankB: number;
   beforeAll(async () => {
     org = await makeOrganisation(env);
     tankA = (await makeTank(env, org, org.farmIds[0], { code: 'A' })).id;
+    tankA2 = (await makeTank(env, org, org.farmIds[0], { code: 'A2' })).id;
     tankB = (await makeTank(env, org, org.farmIds[1], { code: 'B' })).id;
   });
 
@@ -78,33 +92,64 @@ describe('realtime board', () => {
     await expect(open()).rejects.toThrow(/unauthenticated/);
   });
 
-  it('pushes a farm\'s new totals to its watchers and nothing of farm B to a worker of farm A', async () => {
+  it('sends a numbered delta with only the changed tank, its farm\'s totals and the totals across the farm set', async () => {
+    const manager = await session(org.users.manager.email);
+    await round(manager, org.farmIds[0], tankA2, 500);
+    await new Promise((r) => setTimeout(r, 300));
+    const watch = await open(manager.cookie);
+    const before = await board(manager);
+    expect(before.stream).toEqual(watch.stream);
+
+    await round(manager, org.farmIds[0], tankA, 600);
+    await until(() => watch.deltas.some((d) => farmOf(d, org.farmIds[0])?.tanks.some((t) => t.tankId === tankA)));
+    // Deltas are numbered on from the stream position the socket was told (A2's use rate, worked out meanwhile, may come first).
+    expect(watch.deltas.map((d) => d.seq)).toEqual(watch.deltas.map((_, i) => watch.stream.seq + 1 + i));
+    const delta = watch.deltas.find((d) => farmOf(d, org.farmIds[0])?.tanks.some((t) => t.tankId === tankA))!;
+    expect(delta.epoch).toBe(watch.stream.epoch);
+    expect(delta.farms.map((f) => f.farmId)).toEqual([org.farmIds[0]]);
+    const farm = farmOf(delta, org.farmIds[0])!;
+    // Only tank A: its neighbour A2 on the same farm, read before, did not change.
+    expect(farm.tanks.map((t) => t.tankId)).toEqual([tankA]);
+    expect(farm.tanks[0].grossL).toBeCloseTo(600 * (Math.PI / 4), 6);
+    // The totals are those of a board read now, for the farm and for every farm the manager sees.
+    const after = await board(manager);
+    expect(farm.totals).toEqual(after.farms.find((f) => f.farmId === org.farmIds[0])!.totals);
+    const water = (totals: StockBoard['totals']) => totals.find((t) => t.contents === 'water')!;
+    expect(water(delta.totals).grossL).toBeCloseTo(water(after.totals).grossL, 6);
+    expect(water(delta.totals).tanks).toBe(water(after.totals).tanks);
+    expect(after.stream.seq).toBeGreaterThanOrEqual(delta.seq);
+  });
+
+  it('sends a worker of farm A nothing of farm B', async () => {
     const manager = await session(org.users.manager.email);
     const worker = await session(org.users.worker.email);
     const watchAll = await open(manager.cookie);
     const watchA = await open(worker.cookie);
-    expect(watchA.board.farms.map((f) => f.farmId)).toEqual([org.farmIds[0]]);
 
     await round(manager, org.farmIds[1], tankB, 800);
-    await round(manager, org.farmIds[0], tankA, 600);
-    await until(() => watchAll.farms.some((f) => f.farmId === org.farmIds[0]) && watchAll.farms.some((f) => f.farmId === org.farmIds[1]));
-    await until(() => watchA.farms.length > 0);
+    await round(manager, org.farmIds[0], tankA, 650);
+    await until(() => watchAll.deltas.some((d) => farmOf(d, org.farmIds[0])) && watchAll.deltas.some((d) => farmOf(d, org.farmIds[1])));
+    await until(() => watchA.deltas.some((d) => farmOf(d, org.farmIds[0])));
     await new Promise((r) => setTimeout(r, 400));
-    expect(watchA.farms.every((f) => f.farmId === org.farmIds[0])).toBe(true);
-    const tile = watchA.farms.at(-1)!.tanks.find((t) => t.tankId === tankA)!;
-    expect(tile.grossL).toBeCloseTo(600 * (Math.PI / 4), 6);
+    expect(watchA.deltas.flatMap((d) => d.farms.map((f) => f.farmId)).every((id) => id === org.farmIds[0])).toBe(true);
+    const tile = watchA.deltas.flatMap((d) => d.farms.flatMap((f) => f.tanks)).filter((t) => t.tankId === tankA).at(-1)!;
+    expect(tile.grossL).toBeCloseTo(650 * (Math.PI / 4), 6);
   });
 
-  it('folds a burst of readings into a handful of pushes', async () => {
+  it('folds a burst of readings into a handful of deltas numbered one after another', async () => {
     const manager = await session(org.users.manager.email);
     const watch = await open(manager.cookie);
+    const startedAt = Date.now();
     for (let i = 0; i < 20; i++) await round(manager, org.farmIds[0], tankA, 300 + i * 10);
+    const windows = Math.ceil((Date.now() - startedAt) / THROTTLE_MS);
     await new Promise((r) => setTimeout(r, 600));
-    const pushes = watch.farms.filter((f) => f.farmId === org.farmIds[0]);
-    expect(pushes.length).toBeGreaterThan(0);
-    expect(pushes.length).toBeLessThan(20);
-    // The last push carries the last reading.
-    expect(pushes.at(-1)!.tanks.find((t) => t.tankId === tankA)!.grossL).toBeCloseTo(490 * (Math.PI / 4), 6);
+    expect(watch.deltas.length).toBeGreaterThan(0);
+    // At most one delta per gathering window (and one for the use rates worked out afterwards).
+    expect(watch.deltas.length).toBeLessThanOrEqual(Math.min(20, windows) + 2);
+    expect(watch.deltas.map((d) => d.seq)).toEqual(watch.deltas.map((_, i) => watch.stream.seq + 1 + i));
+    // The last delta carrying tank A has the last reading.
+    const last = watch.deltas.flatMap((d) => d.farms.flatMap((f) => f.tanks)).filter((t) => t.tankId === tankA).at(-1)!;
+    expect(last.grossL).toBeCloseTo(490 * (Math.PI / 4), 6);
   });
 
   it('cannot be made to join another farm\'s room by asking', async () => {
@@ -116,27 +161,18 @@ describe('realtime board', () => {
     await new Promise((r) => setTimeout(r, 100));
     await round(manager, org.farmIds[1], tankB, 700);
     await new Promise((r) => setTimeout(r, 500));
-    expect(watch.farms.filter((f) => f.farmId === org.farmIds[1])).toEqual([]);
+    expect(watch.deltas.filter((d) => farmOf(d, org.farmIds[1]))).toEqual([]);
   });
 
-  it('pushes a farm again once a new tank reading\'s use rate has been worked out in the background', async () => {
+  it('sends the tile again once a new reading\'s use rate has been worked out in the background', async () => {
     const tankC = (await makeTank(env, org, org.farmIds[0], { code: 'C' })).id;
     const manager = await session(org.users.manager.email);
     const watch = await open(manager.cookie);
     await round(manager, org.farmIds[0], tankC, 900);
-    const tileC = (f: FarmBoard) => f.tanks.find((t) => t.tankId === tankC);
-    await until(() => watch.farms.some((f) => tileC(f)?.grossL != null));
-    // The first push answers at once, before the rate exists; the refreshed rate follows in a later push.
-    expect(tileC(watch.farms.find((f) => tileC(f)?.grossL != null)!)!.useLPerDay).toBeNull();
-    await until(() => watch.farms.some((f) => tileC(f)?.useLPerDay != null));
-  });
-
-  it('sends the whole board again when a client asks to resync', async () => {
-    const manager = await session(org.users.manager.email);
-    const watch = await open(manager.cookie);
-    const again = new Promise<StockBoard>((r) => watch.socket.once('board', r));
-    watch.socket.emit('board:resync');
-    const board = await again;
-    expect(board.farms.map((f) => f.farmId).sort()).toEqual([...org.farmIds].sort());
+    const tilesC = () => watch.deltas.flatMap((d) => d.farms.flatMap((f) => f.tanks)).filter((t) => t.tankId === tankC);
+    await until(() => tilesC().some((t) => t.grossL != null));
+    // The first delta goes out at once, before the rate exists; the refreshed rate follows in a later one.
+    expect(tilesC().find((t) => t.grossL != null)!.useLPerDay).toBeNull();
+    await until(() => tilesC().some((t) => t.useLPerDay != null));
   });
 });

@@ -142,11 +142,11 @@ export class Client {
     return this.request('POST', '/api/imports', form);
   }
 
-  /** A socket.io connection with this client's session; resolves once the first board arrives. */
+  /** A socket.io connection with this client's session; resolves once it is in its rooms (told its board stream's position). */
   socket(opts: { reconnection?: boolean } = {}): Promise<Socket> {
     return new Promise((ok, fail) => {
       const s = connect(this.baseUrl, { transports: ['websocket'], extraHeaders: { cookie: this.cookie }, forceNew: true, reconnection: opts.reconnection ?? false });
-      s.once('board', () => ok(s));
+      s.once('board:stream', () => ok(s));
       s.once('connect_error', (err) => {
         s.close();
         fail(err);

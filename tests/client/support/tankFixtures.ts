@@ -1,6 +1,6 @@
 import { calibrationVersion, capacityL, heightMm, type TankGeometry } from '@shared/calibration';
 import { stockFigures, usableCapacityL } from '@shared/readings';
-import type { StockBoard, Tank, TankTile } from '@shared/schemas';
+import { BOARD_DELTA_VERSION, type StockBoard, type Tank, type TankTile } from '@shared/schemas';
 
 // Invented tanks of the Hollowbrook scenario the other client tests use.
 const CYLINDER: TankGeometry = { shape: 'vertical-cylinder', diameterMm: 1200, heightMm: 1500 };
@@ -63,5 +63,5 @@ export function makeTile(tank: Tank, grossL: number | null): TankTile {
 /** A board holding the given tiles, one farm per farmId. */
 export function boardOf(tiles: TankTile[]): StockBoard {
   const farmIds = [...new Set(tiles.map((t) => t.farmId))];
-  return { generatedAt: '2026-03-02T09:00:00.000Z', totals: [], farms: farmIds.map((farmId) => ({ farmId, name: `Farm ${farmId}`, totals: [], tanks: tiles.filter((t) => t.farmId === farmId) })) };
+  return { generatedAt: '2026-03-02T09:00:00.000Z', stream: { version: BOARD_DELTA_VERSION, epoch: 'test-epoch', seq: 0 }, totals: [], farms: farmIds.map((farmId) => ({ farmId, name: `Farm ${farmId}`, totals: [], tanks: tiles.filter((t) => t.farmId === farmId) })) };
 }

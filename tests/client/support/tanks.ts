@@ -1,4 +1,4 @@
-import type { FarmBoard, StockBoard, Tank, TankTile } from '@shared/schemas';
+import { BOARD_DELTA_VERSION, type FarmBoard, type StockBoard, type Tank, type TankTile } from '@shared/schemas';
 
 // Invented tanks of an invented site ("Creek site", farm 11): an upright water tank 3.2 m across,
 // 2.4 m tall, its sight-tube zero 60 mm above the floor; and a small cone-bottom culture tank.
@@ -80,6 +80,6 @@ export function makeFarmBoard(farmId: number, name: string, tanks: TankTile[]): 
   return { farmId, name, totals: [], tanks: tanks.map((t) => ({ ...t, farmId })) };
 }
 
-export function makeBoard(farms: FarmBoard[], generatedAt = '2026-03-02T09:00:00.000Z'): StockBoard {
-  return { generatedAt, totals: [], farms };
+export function makeBoard(farms: FarmBoard[], generatedAt = '2026-03-02T09:00:00.000Z', seq = 0): StockBoard {
+  return { generatedAt, stream: { version: BOARD_DELTA_VERSION, epoch: 'test-epoch', seq }, totals: [], farms };
 }
