@@ -6,6 +6,7 @@ import { calibrationVersion, type TankGeometry } from '../shared/calibration/ind
 import { readingToVolumes } from '../shared/readings/index';
 import { startServerProcess } from '../scripts/lib/server-process';
 import { hashPassword } from '../server/services/passwords';
+import type { TimingName, TimingSummary } from '../server/timings';
 
 export const FARMS = 50;
 export const TANKS_PER_FARM = 20;
@@ -80,7 +81,7 @@ export async function buildFixture(socketPath: string, dbName: string, perTank: 
     await conn.query("SET time_zone = '+00:00'");
     const now = new Date();
     const hash = await hashPassword(PASSWORD);
-    const org = await conn.query('INSERT INTO organisations (name, createdAt, updatedAt) VALUES (?, ?, ?)', ['Lowland growers bench co-op', now, now]);
+    const org = await conn.query('INSERT INTO organisations (name, code, createdAt, updatedAt) VALUES (?, ?, ?, ?)', ['Lowland growers bench co-op', 'LGB', now, now]);
     const organisationId = Number(org.insertId);
     const farmIds: number[] = [];
     for (let f = 0; f < FARMS; f++) {
@@ -177,7 +178,22 @@ export async function buildFixture(socketPath: string, dbName: string, perTank: 
 export async function startServer(env: Record<string, string>): Promise<ChildProcess> {
   // BENCH_BOARD_CPU_PROF=<folder> writes a V8 CPU profile of the server there when it stops.
   const nodeArgs = process.env.BENCH_BOARD_CPU_PROF ? ['--cpu-prof', `--cpu-prof-dir=${resolve(process.env.BENCH_BOARD_CPU_PROF)}`] : [];
-  return (await startServerProcess({ env, nodeArgs })).child;
+  return (await startServerProcess({ env, nodeArgs, ipc: true })).child;
+}
+
+/** The server's own timings so far (server/timings.ts, over the IPC channel), then emptied. */
+export function serverTimings(server: ChildProcess): Promise<Partial<Record<TimingName, TimingSummary>>> {
+  return new Promise((ok, fail) => {
+    const timer = setTimeout(() => fail(new Error('the server did not answer with its timings')), 10_000);
+    const onMessage = (m: { type?: string; summaries?: Partial<Record<TimingName, TimingSummary>> }) => {
+      if (m?.type !== 'timings') return;
+      clearTimeout(timer);
+      server.off('message', onMessage);
+      ok(m.summaries ?? {});
+    };
+    server.on('message', onMessage);
+    server.send({ type: 'timings', reset: true });
+  });
 }
 
 /** Waits until every tank's cached use rate is at least as new as its latest reading (bounded). */

@@ -3,7 +3,7 @@
 // each client, and afterwards matches those arrivals against the stored readings.
 // Driven over the IPC channel by bench/board.ts; never run on its own.
 import { io as connect, type Socket } from 'socket.io-client';
-import type { FarmBoard, StockBoard } from '@shared/schemas';
+import type { BoardDelta, ClientToServerEvents, ServerToClientEvents, StockBoard } from '@shared/schemas';
 
 type FromParent =
   | { type: 'open'; base: string; cookies: string[]; clients: number }
@@ -15,11 +15,12 @@ type FromParent =
 export type FromWatchers =
   | { type: 'ready'; clients: number; openMs: number }
   | { type: 'failed'; message: string }
-  | { type: 'stopped'; pushes: number; disconnects: number; errors: string[]; cpuMs: number }
+  /** bytes: socket.io frames of the deltas received by all clients (JSON text, one byte a character). */
+  | { type: 'stopped'; pushes: number; bytes: number; disconnects: number; errors: string[]; cpuMs: number }
   | { type: 'matched'; expected: number; delivered: number; p50Ms: number; p95Ms: number; p99Ms: number; maxMs: number };
 
 interface Client {
-  socket: Socket;
+  socket: Socket<ServerToClientEvents, ClientToServerEvents>;
   /** Per tank: the newest takenAt seen so far (ms). */
   seen: Map<number, number>;
   /** Per tank: arrivals of a newer takenAt, in order: [takenAt ms, received ms]. */
@@ -28,6 +29,10 @@ interface Client {
 
 const clients: Client[] = [];
 let pushes = 0;
+let bytes = 0;
+let counting = false;
+/** GET /api/board once per session cookie: the watchers of one session share its board. */
+const boards = new Map<string, Promise<StockBoard>>();
 let disconnects = 0;
 let stopping = false;
 const errors: string[] = [];
@@ -36,7 +41,7 @@ const send = (m: FromWatchers) => process.send!(m);
 
 function openClient(base: string, cookie: string): Promise<Client> {
   return new Promise((resolve, reject) => {
-    const socket = connect(base, { transports: ['websocket'], extraHeaders: { cookie }, reconnection: false, forceNew: true, timeout: 60_000 });
+    const socket: Client['socket'] = connect(base, { transports: ['websocket'], extraHeaders: { cookie }, reconnection: false, forceNew: true, timeout: 60_000 });
     const client: Client = { socket, seen: new Map(), arrivals: new Map() };
     const note = (tankId: number, takenAt: string | null, at: number, record: boolean) => {
       if (!takenAt) return;
@@ -48,14 +53,29 @@ function openClient(base: string, cookie: string): Promise<Client> {
       if (!list) client.arrivals.set(tankId, (list = []));
       list.push([t, at]);
     };
-    socket.once('board', (board: StockBoard) => {
-      for (const f of board.farms) for (const tile of f.tanks) note(tile.tankId, tile.takenAt, 0, false);
-      socket.on('board:farms', (farms: FarmBoard[]) => {
-        const at = Date.now();
-        pushes++;
-        for (const farm of farms) for (const tile of farm.tanks) note(tile.tankId, tile.takenAt, at, true);
+    socket.io.on('open', () => {
+      socket.io.engine.on('packet', (p: { type: string; data?: unknown }) => {
+        if (counting && p.type === 'message' && typeof p.data === 'string' && p.data.includes('"board:delta"')) bytes += p.data.length;
       });
-      resolve(client);
+    });
+    // In its rooms: the board (as the client would fetch it) is the baseline the deltas move on from.
+    socket.once('board:stream', () => {
+      let board = boards.get(cookie);
+      if (!board) {
+        board = fetch(`${base}/api/board`, { headers: { cookie } }).then((r) => r.json() as Promise<StockBoard>);
+        boards.set(cookie, board);
+      }
+      board
+        .then((b) => {
+          for (const f of b.farms) for (const tile of f.tanks) note(tile.tankId, tile.takenAt, 0, false);
+          socket.on('board:delta', (delta: BoardDelta) => {
+            const at = Date.now();
+            pushes++;
+            for (const farm of delta.farms) for (const tile of farm.tanks) note(tile.tankId, tile.takenAt, at, true);
+          });
+          resolve(client);
+        })
+        .catch(reject);
     });
     socket.on('disconnect', (reason) => {
       if (stopping) return;
@@ -68,7 +88,7 @@ function openClient(base: string, cookie: string): Promise<Client> {
 
 async function open(base: string, cookies: string[], count: number) {
   const started = Date.now();
-  // A few at a time: each new socket makes the server build the whole board once.
+  // A few at a time, as browsers opening the board would.
   for (let i = 0; i < count; i += 10) {
     const batch = Array.from({ length: Math.min(10, count - i) }, (_, j) => openClient(base, cookies[(i + j) % cookies.length]));
     clients.push(...(await Promise.all(batch)));
@@ -110,13 +130,15 @@ let cpuAtStart = process.cpuUsage();
 process.on('message', (m: FromParent) => {
   if (m.type === 'mark') {
     cpuAtStart = process.cpuUsage();
+    pushes = 0;
+    counting = true;
   } else if (m.type === 'open') {
     open(m.base, m.cookies, m.clients).catch((err: Error) => send({ type: 'failed', message: err.message }));
   } else if (m.type === 'stop') {
     stopping = true;
     for (const c of clients) c.socket.disconnect();
     const cpu = process.cpuUsage(cpuAtStart);
-    send({ type: 'stopped', pushes, disconnects, errors, cpuMs: (cpu.user + cpu.system) / 1000 });
+    send({ type: 'stopped', pushes, bytes, disconnects, errors, cpuMs: (cpu.user + cpu.system) / 1000 });
   } else if (m.type === 'match') {
     match(m.readings);
     process.disconnect();

@@ -3,8 +3,10 @@
 // 5,000,000 logger readings (BENCH_BOARD_READINGS shrinks it for a quick run):
 //  (a) autocannon on GET /api/board as a signed-in manager, 50 connections for 20 s;
 //  (b) 100 simulated workers posting rounds for 30 s while 200 socket.io clients watch the board:
-//      errors, acknowledged vs stored readings, and the time from a reading's insert to its push
-//      reaching each watching client.
+//      errors, acknowledged vs stored readings, the time from a reading's insert to its delta
+//      reaching each watching client (p50/p95/p99) beside the server's own share of it, and the
+//      bytes pushed per second. The board's p99 is also read inside the server (request in to answer
+//      written, server/timings.ts over the IPC channel) beside autocannon's.
 import type { ChildProcess } from 'node:child_process';
 import { randomBytes } from 'node:crypto';
 import { mkdirSync, mkdtempSync, rmSync } from 'node:fs';
@@ -92,13 +94,13 @@ export async function runBoardBench(): Promise<BenchFigure[]> {
     const q = counter.sequelize;
     const one = async (sql: string) => Number((await q.query<{ n: number | string }>(sql, { type: QueryTypes.SELECT, plain: true }))!.n);
     await warmForecasts(base, manager, () => one('SELECT COUNT(*) AS n FROM tank_latest WHERE forecastAt IS NULL OR forecastAt < takenAt'));
-    const figures = await boardLoad(base, manager, server.pid);
+    const figures = await boardLoad(base, manager, server);
     watchers = watchersProcess();
     const storedRounds = async () => {
       const rows = await q.query<{ tankId: number; takenAt: Date; createdAt: Date }>("SELECT tankId, takenAt, createdAt FROM readings WHERE source = 'round'", { type: QueryTypes.SELECT });
       return { count: rows.length, rows: rows.map((r) => [r.tankId, new Date(r.takenAt).getTime(), new Date(r.createdAt).getTime()] as [number, number, number]) };
     };
-    figures.push(...(await roundLoad(base, fx, storedRounds, watchers, server.pid)));
+    figures.push(...(await roundLoad(base, fx, storedRounds, watchers, server)));
     for (const f of figures) f.name = `${f.name} [${fx.readings.toLocaleString('en-US')} readings]`;
     return figures;
   } finally {

@@ -27,6 +27,8 @@ export interface ServerProcessOptions {
   onLine?: (line: string) => void;
   /** Keep standard error for `stderr()` instead of passing it through (default: pass through). */
   captureStderr?: boolean;
+  /** Open an IPC channel to the server (the board bench asks it for its own timings over it). */
+  ipc?: boolean;
   timeoutMs?: number;
 }
 
@@ -42,7 +44,7 @@ export function startServerProcess(opts: ServerProcessOptions): Promise<ServerPr
   const child = spawn(process.execPath, [...(opts.nodeArgs ?? []), '--import', 'tsx', join(root, 'server/index.ts')], {
     cwd: root,
     env: opts.env,
-    stdio: ['ignore', 'pipe', opts.captureStderr ? 'pipe' : 'inherit'],
+    stdio: ['ignore', 'pipe', opts.captureStderr ? 'pipe' : 'inherit', ...(opts.ipc ? (['ipc'] as const) : [])],
   });
   let errText = '';
   child.stderr?.on('data', (chunk: Buffer) => {
