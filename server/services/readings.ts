@@ -155,23 +155,24 @@ export async function listReadings(ctx: AppContext, actor: SessionUser, tankId: 
   return toReadingDto(ctx, rows);
 }
 
-const BUCKET_SQL: Record<'hour' | 'day' | 'week', string> = {
-  hour: "DATE_FORMAT(takenAt, '%Y-%m-%d %H:00:00')",
-  day: 'DATE(takenAt)',
-  week: 'YEARWEEK(takenAt, 3)',
+// Day and week points come from tank_days, each tank's last reading of each farm-local day, so a day
+// bucket ends at the farm's midnight, not UTC's. Hour buckets are clock hours, the same instant in
+// every zone whose offset is a whole number of hours (zones offset by 30 or 45 minutes see them shifted).
+const EFFECTIVE = 'r.tankId = ? AND r.correctedById IS NULL';
+const SERIES_COLUMNS = 'r.takenAt, r.levelMm, r.grossL, r.usableL, r.temperatureC';
+const SERIES_SQL: Record<'raw' | 'hour' | 'day' | 'week', string> = {
+  raw: `SELECT ${SERIES_COLUMNS} FROM readings r WHERE ${EFFECTIVE} AND r.takenAt BETWEEN ? AND ? ORDER BY r.takenAt LIMIT 20000`,
+  hour: `SELECT ${SERIES_COLUMNS} FROM readings r JOIN (SELECT MAX(takenAt) AS t FROM readings WHERE tankId = ? AND correctedById IS NULL AND takenAt BETWEEN ? AND ? GROUP BY DATE_FORMAT(takenAt, '%Y-%m-%d %H')) b ON r.takenAt = b.t WHERE ${EFFECTIVE} ORDER BY r.takenAt`,
+  day: `SELECT ${SERIES_COLUMNS} FROM tank_days d JOIN readings r ON r.takenAt = d.takenAt WHERE d.tankId = ? AND d.takenAt BETWEEN ? AND ? AND ${EFFECTIVE} ORDER BY r.takenAt`,
+  week: `SELECT ${SERIES_COLUMNS} FROM readings r JOIN (SELECT MAX(takenAt) AS t FROM tank_days WHERE tankId = ? AND takenAt BETWEEN ? AND ? GROUP BY YEARWEEK(day, 3)) b ON r.takenAt = b.t WHERE ${EFFECTIVE} ORDER BY r.takenAt`,
 };
 
-/** The tank's effective level and volume series; bucketed series keep each bucket's last reading (UTC buckets). */
+/** The tank's effective level and volume series; bucketed series keep each bucket's last reading (days and ISO weeks are the farm's own). */
 export async function tankSeries(ctx: AppContext, actor: SessionUser, tankId: number, q: { from?: string; to?: string; bucket: 'raw' | 'hour' | 'day' | 'week' }): Promise<SeriesPoint[]> {
   const tank = await tankFor(ctx, actor, tankId);
   const from = q.from ? new Date(q.from) : new Date(Date.now() - 90 * 86_400_000);
   const to = q.to ? new Date(q.to) : new Date();
-  const base = 'FROM readings WHERE tankId = ? AND correctedById IS NULL AND takenAt BETWEEN ? AND ?';
-  const sql =
-    q.bucket === 'raw'
-      ? `SELECT takenAt, levelMm, grossL, usableL, temperatureC ${base} ORDER BY takenAt LIMIT 20000`
-      : `SELECT r.takenAt, r.levelMm, r.grossL, r.usableL, r.temperatureC FROM readings r JOIN (SELECT MAX(takenAt) AS t ${base} GROUP BY ${BUCKET_SQL[q.bucket]}) b ON r.takenAt = b.t WHERE r.tankId = ? AND r.correctedById IS NULL ORDER BY r.takenAt`;
-  const rows = await ctx.db.sequelize.query<{ takenAt: Date; levelMm: number; grossL: number; usableL: number; temperatureC: number | null }>(sql, {
+  const rows = await ctx.db.sequelize.query<{ takenAt: Date; levelMm: number; grossL: number; usableL: number; temperatureC: number | null }>(SERIES_SQL[q.bucket], {
     replacements: q.bucket === 'raw' ? [tank.id, from, to] : [tank.id, from, to, tank.id],
     type: QueryTypes.SELECT,
   });
