@@ -4,6 +4,7 @@
 // board on a phone.
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
+import type { BoardDelta } from '@shared/schemas';
 import { readScenario } from '../../server/services/demo';
 import { launch, pickOption, screenshot, signInAs, type Browser } from '../support/browser';
 
@@ -32,6 +33,17 @@ describe('round and live stock board', () => {
     const manager = await open();
     await signIn(manager.page, 'manager');
     const board = manager.page;
+    // The board, its flags and any import progress share one socket.io connection per tab.
+    const sockets: string[] = [];
+    board.on('websocket', (ws) => {
+      if (ws.url().includes('/socket.io/')) sockets.push(ws.url());
+    });
+    const deltas: BoardDelta[] = [];
+    board.on('websocket', (ws) =>
+      ws.on('framereceived', (f) => {
+        if (typeof f.payload === 'string' && f.payload.startsWith('42["board:delta"')) deltas.push((JSON.parse(f.payload.slice(2)) as [string, BoardDelta])[1]);
+      }),
+    );
     await board.goto(`${baseUrl}/`);
     await expect.poll(() => board.getByTestId('board-live').getAttribute('data-status')).toBe('live');
     expect(await board.getByTestId('board-live').innerText()).toMatch(/^Live/);
@@ -91,6 +103,11 @@ describe('round and live stock board', () => {
     await expect.poll(() => waterTotal.innerText(), { timeout: 1000, interval: 50 }).not.toBe(before);
     expect(Date.now() - storedAt).toBeLessThan(1000);
     expect(reloads).toBe(0);
+    expect(sockets).toHaveLength(1);
+    // It came as a delta of Hollin Ridge alone, carrying only tiles of the round's four tanks.
+    const withRound = deltas.find((d) => d.farms.some((f) => f.tanks.some((t) => t.code === 'HR-W1')))!;
+    expect(withRound.farms).toHaveLength(1);
+    expect(withRound.farms[0].tanks.map((t) => t.code).every((c) => ['HR-W1', 'HR-P1', 'HR-C1', 'HR-C2'].includes(c))).toBe(true);
 
     for (const code of ['HR-C1', 'HR-C2', 'HR-P1']) expect(await phone.getByTestId(`round-result-${code}`).innerText()).toBe('Stored');
     expect(await phone.getByTestId('round-summary').innerText()).toContain('4 stored');
