@@ -100,3 +100,36 @@ export function useDialogForm<F extends object, S extends z.ZodType, R>(options:
 
   return { form, errors, formError, busy, submit, reset, cancel };
 }
+
+export interface UseEditDialogFormOptions<F extends object, Row, C extends z.ZodType, U extends z.ZodType, R>
+  extends Omit<UseDialogFormOptions<F, z.ZodType, readonly [R, boolean]>, 'initial' | 'refillOn' | 'schema' | 'submit' | 'saved'> {
+  /** The row being edited, or null to create one; a change while open refills the form. */
+  row: () => Row | null;
+  /** The form's values for the row (or for a new one). */
+  initial: (row: Row | null) => F;
+  createSchema: C;
+  updateSchema: U;
+  create: (values: z.output<C>) => Promise<R>;
+  update: (row: Row, values: z.output<U>) => Promise<R>;
+  /** Runs once the dialog has closed after a save, with whether a new row was made. */
+  saved?: (result: R, created: boolean) => void;
+}
+
+/** useDialogForm for a dialog that edits a row or makes a new one: the update schema and call for a row, the create ones without. */
+export function useEditDialogForm<F extends object, Row, C extends z.ZodType, U extends z.ZodType, R>(
+  options: UseEditDialogFormOptions<F, Row, C, U, R>,
+): UseDialogForm<F> {
+  const { row, initial, createSchema, updateSchema, create, update, saved, ...rest } = options;
+  // The schema and the call are chosen by the same row, so what `update` gets has passed `updateSchema`.
+  return useDialogForm<F, z.ZodType, readonly [R, boolean]>({
+    ...rest,
+    refillOn: row,
+    initial: () => initial(row()),
+    schema: () => (row() === null ? createSchema : updateSchema),
+    submit: async (values) => {
+      const editing = row();
+      return editing === null ? [await create(values as z.output<C>), true] : [await update(editing, values as z.output<U>), false];
+    },
+    saved: saved && (([result, created]) => saved(result, created)),
+  });
+}
