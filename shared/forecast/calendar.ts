@@ -1,5 +1,5 @@
 import { fixedOffsetCalendar, zoneCalendar, type DayCalendar } from '../time/index';
-import { finiteNumber } from './checks';
+import { finiteNumber } from '../checks';
 
 /**
  * The local-day calendar of a forecast's options: the farm's IANA `timeZone` when given (each day

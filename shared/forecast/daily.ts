@@ -1,5 +1,5 @@
 import { calendarOf } from './calendar';
-import { finiteNumber, nonNegative } from './checks';
+import { finiteNumber, nonNegative } from '../checks';
 import { deadBandMovements, MS_PER_DAY, prepareSeries, type LevelReading } from './series';
 
 /** Options of dailyUse. */

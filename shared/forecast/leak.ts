@@ -1,5 +1,5 @@
 import { calendarOf } from './calendar';
-import { finiteNumber, nonNegative } from './checks';
+import { finiteNumber, nonNegative } from '../checks';
 import { deadBandMovements, MS_PER_HOUR, prepareSeries, type LevelReading } from './series';
 
 /** Local hours when no draw is planned; endHour ≤ startHour wraps past midnight (22 → 5). */

@@ -1,4 +1,4 @@
-import { nonNegative } from './checks';
+import { nonNegative } from '../checks';
 import { deadBandMovements, prepareSeries, type LevelMovement, type LevelReading } from './series';
 
 /** Options of splitMovements. */

@@ -1,4 +1,4 @@
-import { finiteNumber, nonNegative } from './checks';
+import { finiteNumber, nonNegative } from '../checks';
 
 /** One reading of a tank's contents. */
 export interface LevelReading {

@@ -1,4 +1,5 @@
-import { finiteNumber, MS_PER_DAY, nonNegative, positive } from './checks';
+import { finiteNumber, nonNegative, positive } from '../checks';
+import { MS_PER_DAY } from '../forecast';
 import { economicOrderQuantity, reorderPoint, safetyStock } from './policy';
 
 /**

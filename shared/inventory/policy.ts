@@ -1,4 +1,4 @@
-import { finiteNumber, nonNegative, positive } from './checks';
+import { finiteNumber, nonNegative, positive } from '../checks';
 import { zForServiceLevel } from './normal';
 
 /**

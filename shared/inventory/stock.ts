@@ -1,4 +1,5 @@
-import { finiteNumber, MS_PER_DAY, nonNegative, wholeCount } from './checks';
+import { finiteNumber, nonNegative, wholeCount } from '../checks';
+import { MS_PER_DAY } from '../forecast';
 
 /** The kinds of stock movement a buyer or worker records. */
 export const STOCK_MOVEMENT_KINDS = ['receipt', 'use', 'count', 'adjustment'] as const;

@@ -6,7 +6,7 @@
 // customer's rule, issue #14: common practice, no published source).
 import { tankModel, type TankGeometry } from '../calibration/index';
 import { formatNumberTrimmed } from '../units/index';
-import { nonNegative } from './checks';
+import { nonNegative } from '../checks';
 
 /** Share of the free space (0–1) that a batch may leave unused before the fit check warns. */
 export const BATCH_FIT_WARN_SHARE = 0.1;

@@ -1,4 +1,4 @@
-import { finiteNumber, nonNegative, positive } from './checks';
+import { finiteNumber, nonNegative, positive } from '../checks';
 
 /**
  * Volume of concentrate V1 = C2·V2 / C1 (unit of finalVolume) that makes finalVolume at

@@ -3,7 +3,7 @@
 // is how injector settings are marked: "1:100" is the same setting as 1 %, and 1 unit of concentrate
 // makes 100 units of final solution (UMass Extension greenhouse fact sheets).
 
-import { positive } from './checks';
+import { positive } from '../checks';
 
 /** What injectionRatio needs: two strengths in one unit (%, g/L, ppm). */
 export interface InjectionRatioInput {

@@ -1,4 +1,4 @@
-import { nonNegative, positive } from './checks';
+import { nonNegative, positive } from '../checks';
 
 /** A tank that already holds some mix, and what it should hold after topping up. */
 export interface TopUpInput {

@@ -1,3 +1,6 @@
+// The number checks every shared computation starts with: a value that is not what the formula needs
+// is refused with a RangeError naming the field, never worked through into a wrong figure.
+
 /** Throws a RangeError naming `field` unless `value` is a finite number; returns the value (same unit). */
 export function finiteNumber(field: string, value: unknown): number {
   if (typeof value !== 'number' || !Number.isFinite(value)) {
@@ -26,6 +29,3 @@ export function wholeCount(field: string, value: unknown): number {
   if (!Number.isInteger(n) || n < 1) throw new RangeError(`${field} must be a whole number of at least 1 (got ${n})`);
   return n;
 }
-
-/** Milliseconds in one day (ms). */
-export const MS_PER_DAY = 86_400_000;
