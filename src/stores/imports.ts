@@ -1,5 +1,6 @@
 import { computed, ref, shallowRef } from 'vue';
 import { defineStore } from 'pinia';
+import { useLocalStorage } from '@vueuse/core';
 import type { ImportMapping, ImportPolicy } from '@shared/imports';
 import { tankSetupOf } from '@shared/readings';
 import type { SavedImportMapping, Tank, TankEditor } from '@shared/schemas';
@@ -27,6 +28,10 @@ export const useImportsStore = defineStore('imports', () => {
   const farms = useFarmsStore();
   const session = useSessionStore();
   let ownerId: number | null = null;
+  // The farm and tank each person used last, kept on this device (under their own key, so not shown to another).
+  // A full or blocked store just means the choice is not remembered.
+  const ownerKey = ref<string>(storageKey(0));
+  const lastTarget = useLocalStorage<{ farmId?: unknown; tankId?: unknown }>(ownerKey, {}, { flush: 'sync', writeDefaults: false, onError: () => undefined });
 
   // ---- farm and tank ----
   const farmId = ref<number | null>(null);
@@ -94,22 +99,14 @@ export const useImportsStore = defineStore('imports', () => {
   let savedToken = 0;
 
   function remember(): void {
-    if (ownerId === null || typeof localStorage === 'undefined') return;
-    try {
-      localStorage.setItem(storageKey(ownerId), JSON.stringify({ farmId: farmId.value, tankId: tankId.value }));
-    } catch {
-      // Private mode or a full store: the choice is just not remembered.
-    }
+    if (ownerId === null) return;
+    lastTarget.value = { farmId: farmId.value, tankId: tankId.value };
   }
 
   function remembered(): { farmId?: number; tankId?: number } {
-    if (ownerId === null || typeof localStorage === 'undefined') return {};
-    try {
-      const value = JSON.parse(localStorage.getItem(storageKey(ownerId)) ?? '{}') as { farmId?: unknown; tankId?: unknown };
-      return { farmId: typeof value.farmId === 'number' ? value.farmId : undefined, tankId: typeof value.tankId === 'number' ? value.tankId : undefined };
-    } catch {
-      return {};
-    }
+    if (ownerId === null) return {};
+    const value = lastTarget.value;
+    return { farmId: typeof value.farmId === 'number' ? value.farmId : undefined, tankId: typeof value.tankId === 'number' ? value.tankId : undefined };
   }
 
   /** A fresh draft for the chosen farm, guessed from the previewed file when there is one. */
@@ -135,6 +132,7 @@ export const useImportsStore = defineStore('imports', () => {
     if (userId !== ownerId) {
       reset();
       ownerId = userId;
+      ownerKey.value = storageKey(userId ?? 0);
     }
     await farms.ensureLoaded();
     const active = farms.activeFarms;
