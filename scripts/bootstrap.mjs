@@ -1,5 +1,5 @@
 // Plain Node on purpose: it runs before any npm package is installed. It installs what is
-// missing (npm packages, Debian's MariaDB server and Chromium when root), then hands over to
+// missing (npm packages, Debian's MariaDB server, Chromium and poppler-utils when root), then hands over to
 // the TypeScript task runner in scripts/tasks.ts.
 import { spawnSync } from 'node:child_process';
 import { existsSync, statSync } from 'node:fs';
@@ -36,7 +36,10 @@ if (npmPackagesStale()) {
 const needed = [];
 if (!has('mariadbd') && !existsSync('/usr/sbin/mariadbd')) needed.push('mariadb-server');
 if ((task === 'test' || task === 'bench') && !existsSync('/usr/bin/chromium')) needed.push('chromium');
-if (needed.length) aptInstall(needed, needed.includes('chromium') ? 'a database server and a browser for tests' : 'a MariaDB server');
+// The label tests render PDFs with pdftoppm and read them back with pdftotext.
+if (task === 'test' && !has('pdftoppm')) needed.push('poppler-utils');
+const WHY = { 'mariadb-server': 'a MariaDB server', chromium: 'a browser for tests', 'poppler-utils': 'PDF tools for tests' };
+if (needed.length) aptInstall(needed, needed.map((p) => WHY[p]).join(', '));
 
 const result = run(process.execPath, ['--import', 'tsx', join(root, 'scripts', 'tasks.ts'), task, ...process.argv.slice(3)]);
 process.exit(result.status ?? 1);

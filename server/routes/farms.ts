@@ -1,8 +1,9 @@
 import { Router } from 'express';
-import { farmCreateSchema, farmUpdateSchema } from '@shared/schemas';
+import { farmCreateSchema, farmLabelsQuerySchema, farmUpdateSchema } from '@shared/schemas';
 import type { AppContext } from '../context';
 import { actorOf, requireRole, requireSignIn } from '../middleware/access';
 import { createFarm, getFarm, listFarms, updateFarm } from '../services/farms';
+import { farmLabelsPdf } from '../services/tank-label-sheet';
 import { idParam, parse } from '../validate';
 
 export function farmsRouter(ctx: AppContext) {
@@ -12,6 +13,12 @@ export function farmsRouter(ctx: AppContext) {
   });
   router.get('/:id', requireSignIn, async (req, res) => {
     res.json(await getFarm(ctx, actorOf(req), idParam(req.params.id, 'Farm')));
+  });
+  router.get('/:id/labels.pdf', requireSignIn, async (req, res) => {
+    const q = parse(farmLabelsQuerySchema, req.query);
+    const { filename, pdf } = await farmLabelsPdf(ctx, actorOf(req), idParam(req.params.id, 'Farm'), q);
+    // The file name is made of ASCII letters, digits and "-" only (slug of the farm's name).
+    res.type('application/pdf').set('Content-Disposition', `attachment; filename="${filename}"`).send(Buffer.from(pdf));
   });
   router.post('/', requireRole('owner', 'manager'), async (req, res) => {
     res.status(201).json(await createFarm(ctx, actorOf(req), parse(farmCreateSchema, req.body)));

@@ -1,10 +1,11 @@
 import { Router } from 'express';
 import { z } from 'zod';
-import { calibrationQuerySchema, gaugeStripQuerySchema, idSchema, tankCreateSchema, tankUpdateSchema } from '@shared/schemas';
+import { calibrationQuerySchema, gaugeStripQuerySchema, idSchema, tankCreateSchema, tankLabelQuerySchema, tankUpdateSchema } from '@shared/schemas';
 import type { AppContext } from '../context';
 import { toCsv } from '../csv';
 import { actorOf, requireRole, requireSignIn } from '../middleware/access';
 import { gaugeStripPdf } from '../services/gauge-strip';
+import { tankLabelPdf } from '../services/tank-labels';
 import { calibrationTable, calibrationVersions } from '../services/tank-calibrations';
 import { contentsHistory, createTank, listTanks, tankFor, toTankDto, updateTank } from '../services/tanks';
 import { idParam, parse } from '../validate';
@@ -54,6 +55,11 @@ export function tanksRouter(ctx: AppContext) {
     const q = parse(gaugeStripQuerySchema, req.query);
     const { filename, pdf } = await gaugeStripPdf(ctx, actorOf(req), idParam(req.params.id, 'Tank'), q);
     // Tank codes are letters, digits and "-" only, so the name needs no escaping inside the quotes.
+    res.type('application/pdf').set('Content-Disposition', `attachment; filename="${filename}"`).send(Buffer.from(pdf));
+  });
+  router.get('/:id/label.pdf', requireSignIn, async (req, res) => {
+    const q = parse(tankLabelQuerySchema, req.query);
+    const { filename, pdf } = await tankLabelPdf(ctx, actorOf(req), idParam(req.params.id, 'Tank'), q);
     res.type('application/pdf').set('Content-Disposition', `attachment; filename="${filename}"`).send(Buffer.from(pdf));
   });
   return router;

@@ -3,17 +3,17 @@
 // PDF user space is 1/72 inch per unit (ISO 32000-1:2008, §8.3.2.3, default user space), and
 // 1 in = 25.4 mm exactly, so 1 mm = 72/25.4 pt ≈ 2.834646 pt. Every length below is in mm and goes
 // through `pt()` once; the origin is the bottom-left corner of the page, y upward.
-import { degrees, LineCapStyle, PDFDocument, rgb, StandardFonts, closePath, fill, lineTo, moveTo, popGraphicsState, pushGraphicsState, setFillingColor, type Color, type PDFFont, type PDFPage } from 'pdf-lib';
-import { GaugeStripError, gaugePage, gaugeStripLayout, suggestGaugeStep, type GaugePaper, type GaugeStripLayout, type GaugeStripPage } from '@shared/gauge';
+import { PDFDocument, closePath, fill, lineTo, moveTo, popGraphicsState, pushGraphicsState, setFillingColor, type PDFPage } from 'pdf-lib';
+import { GAUGE_HEADER_MM, GaugeStripError, gaugePage, gaugeStripLayout, suggestGaugeStep, type GaugePaper, type GaugeStripLayout, type GaugeStripPage } from '@shared/gauge';
 import type { GaugeStripQuery, SessionUser, TankContents } from '@shared/schemas';
 import { formatLength, formatNumberTrimmed, INCH_MM, UNIT_SYMBOLS, type UnitSystem } from '@shared/units';
 import type { AppContext } from '../context';
 import { AppError } from '../errors';
-import { tankFor } from './tanks';
+import { embedFonts, GREY, INK, line, printable, PT_PER_MM, pt, round2, text, type Fonts } from './pdf-text';
+import { drawLabelCutLines, drawTankLabel, LABEL_MM, tankLabelOf, type TankLabel } from './tank-labels';
+import { tankFor, toTankDto } from './tanks';
 
-/** Points per millimetre: 72 pt per inch over 25.4 mm per inch. */
-export const PT_PER_MM = 72 / INCH_MM;
-const pt = (mm: number) => mm * PT_PER_MM;
+export { PT_PER_MM } from './pdf-text';
 
 /** Where the drawing puts things, in mm (the strip's left edge is the page margin). */
 export const GAUGE_DRAWING = {
@@ -29,8 +29,6 @@ export const GAUGE_DRAWING = {
   checkBarMm: { metric: 100, us: 4 * INCH_MM },
 } as const;
 
-const INK = rgb(0, 0, 0);
-const GREY = rgb(0.45, 0.45, 0.45);
 const CAUTION = 'Read the tube from outside the tank — never enter a tank (confined space).';
 const CONTENTS_NAMES: Record<TankContents, string> = { water: 'Water', fertilizer: 'Fertilizer', 'pest-solution': 'Pest solution', culture: 'Microbial culture' };
 
@@ -42,13 +40,6 @@ export interface GaugeStripTank {
   contentsNote: string;
 }
 
-interface Fonts {
-  regular: PDFFont;
-  bold: PDFFont;
-  /** Code points Helvetica can encode (WinAnsi); anything else prints as "?". */
-  charset: Set<number>;
-}
-
 /** The gauge strip PDF of a tank the actor may see, with its download file name and the layout it draws. */
 export async function gaugeStripPdf(ctx: AppContext, actor: SessionUser, id: number, query: GaugeStripQuery): Promise<{ filename: string; pdf: Uint8Array; layout: GaugeStripLayout }> {
   const tank = await tankFor(ctx, actor, id);
@@ -58,8 +49,9 @@ export async function gaugeStripPdf(ctx: AppContext, actor: SessionUser, id: num
     const every = query.every === undefined ? suggestGaugeStep(tank.geometry, tank.datumOffsetMm, unitSystem) : { value: query.every, unit: unitSystem === 'us' ? ('usgal' as const) : ('L' as const) };
     return gaugeStripLayout({ geometry: tank.geometry, datumOffsetMm: tank.datumOffsetMm, everyVolume: every, unitSystem, page: gaugePage(paper) });
   });
-  const pdf = await renderGaugeStrip({ name: tank.name, code: tank.code, contents: tank.contents, contentsNote: tank.contentsNote }, layout);
-  return { filename: `${tank.code}-gauge-strip.pdf`, pdf, layout };
+  const label = query.label === 'true' ? tankLabelOf(ctx, toTankDto(tank), unitSystem) : undefined;
+  const pdf = await renderGaugeStrip({ name: tank.name, code: tank.code, contents: tank.contents, contentsNote: tank.contentsNote }, layout, label);
+  return { filename: `${tank.code}-gauge-strip${label ? '-and-label' : ''}.pdf`, pdf, layout };
 }
 
 /** Layout refusals as API errors: a bad step is the query's fault (400 every); a tank that cannot be printed is 422. */
@@ -80,11 +72,9 @@ function withFieldErrors<T>(work: () => T): T {
  * Draws a layout as a PDF at 1:1 (one page per layout page, Helvetica embedded by pdf-lib, no
  * network). Saved without object streams so each page's content is a plain stream object.
  */
-export async function renderGaugeStrip(tank: GaugeStripTank, layout: GaugeStripLayout): Promise<Uint8Array> {
+export async function renderGaugeStrip(tank: GaugeStripTank, layout: GaugeStripLayout, label?: TankLabel): Promise<Uint8Array> {
   const doc = await PDFDocument.create();
-  const regular = await doc.embedFont(StandardFonts.Helvetica);
-  const bold = await doc.embedFont(StandardFonts.HelveticaBold);
-  const fonts: Fonts = { regular, bold, charset: new Set(regular.getCharacterSet()) };
+  const fonts = await embedFonts(doc);
   doc.setTitle(`${tank.name} (${tank.code}) — gauge strip`);
   doc.setSubject('Sight-tube gauge strip, print at 100 % (actual size)');
   doc.setCreator('Brimstock');
@@ -92,8 +82,46 @@ export async function renderGaugeStrip(tank: GaugeStripTank, layout: GaugeStripL
   // Readers print at the sheet size in the file; 2 decimals of a point (< 0.002 mm) match the
   // usual A4 size in points (595.28 × 841.89) and leave Letter at exactly 612 × 792.
   const size: [number, number] = [round2(pt(layout.page.widthMm)), round2(pt(layout.page.heightMm))];
-  for (const p of layout.pages) drawPage(doc.addPage(size), fonts, tank, layout, p);
+  const pages = layout.pages.map((p) => {
+    const page = doc.addPage(size);
+    drawPage(page, fonts, tank, layout, p);
+    return page;
+  });
+  if (label) {
+    const spot = labelSpot(layout);
+    const at = spot ?? { xMm: layout.page.marginMm, yMm: layout.page.heightMm - layout.page.marginMm - LABEL_MM.heightMm };
+    const page = spot ? pages[0] : doc.addPage(size);
+    drawTankLabel(page, fonts, label, at.xMm, at.yMm);
+    drawLabelCutLines(page, at.xMm, at.yMm);
+  }
   return doc.save({ useObjectStreams: false });
+}
+
+/**
+ * Where the label fits on the first page, right of the strip and below the header, clear of the
+ * notes the strip writes there (zero line, floor, top, joins); null when it does not fit.
+ */
+function labelSpot(layout: GaugeStripLayout): { xMm: number; yMm: number } | null {
+  const { widthMm, heightMm, marginMm } = layout.page;
+  const p = layout.pages[0];
+  const xMm = marginMm + GAUGE_DRAWING.stripWidthMm + 6;
+  // The upright check bar and its words take the last 9 mm inside the right margin.
+  if (xMm + LABEL_MM.widthMm > widthMm - marginMm - 9) return null;
+  const y = (positionMm: number) => layout.stripBottomMm + (positionMm - p.fromMm);
+  const notes: number[] = p.joins.map((j) => y(j.positionMm));
+  if (p.index === 0) notes.push(y(0));
+  if (p.index === layout.totalPages - 1) notes.push(y(p.toMm));
+  if (layout.floorPositionMm !== null && layout.floorPositionMm >= p.fromMm && layout.floorPositionMm <= p.toMm) notes.push(y(layout.floorPositionMm));
+  // Each note's words sit within 5 mm below to 6 mm above its line.
+  const taken = notes.map((n) => [n - 6, n + 7] as const).sort((a, b) => a[0] - b[0]);
+  let from = marginMm;
+  const top = heightMm - marginMm - GAUGE_HEADER_MM;
+  for (const [low, high] of [...taken, [top, Infinity] as const]) {
+    const gapTop = Math.min(low, top);
+    if (gapTop - from >= LABEL_MM.heightMm) return { xMm, yMm: gapTop - LABEL_MM.heightMm };
+    from = Math.max(from, high);
+  }
+  return null;
 }
 
 function drawPage(page: PDFPage, fonts: Fonts, tank: GaugeStripTank, layout: GaugeStripLayout, p: GaugeStripPage) {
@@ -225,10 +253,6 @@ function drawUprightCheckBar(page: PDFPage, fonts: Fonts, layout: GaugeStripLayo
   text(page, fonts, `Check: ${unitSystem === 'us' ? '4 in' : '100 mm'}`, { x: x - 2.5, y: y0 + barMm / 2 - 10, size: 7, bold: true, rotate: 90 });
 }
 
-function line(page: PDFPage, x1: number, y1: number, x2: number, y2: number, thicknessMm: number, color: Color = INK, dashArray?: number[]) {
-  page.drawLine({ start: { x: pt(x1), y: pt(y1) }, end: { x: pt(x2), y: pt(y2) }, thickness: pt(thicknessMm), color, lineCap: LineCapStyle.Butt, dashArray });
-}
-
 /** A filled 4 mm wide, 2.5 mm tall triangle with its apex on (x, y), pointing up (dir −1, below) or down (dir 1, above). */
 function triangle(page: PDFPage, xMm: number, yMm: number, dir: number) {
   page.pushOperators(
@@ -243,36 +267,4 @@ function triangle(page: PDFPage, xMm: number, yMm: number, dir: number) {
   );
 }
 
-interface TextOptions {
-  x: number;
-  y: number;
-  size: number;
-  bold?: boolean;
-  align?: 'left' | 'right';
-  rotate?: number;
-  maxWidthPt?: number;
-}
-
-/** Draws text at (x, y) mm; too wide for `maxWidthPt`, it shrinks to 6 pt, then is cut short with "…". */
-function text(page: PDFPage, fonts: Fonts, raw: string, o: TextOptions) {
-  const font = o.bold ? fonts.bold : fonts.regular;
-  let value = printable(fonts, raw);
-  let size = o.size;
-  if (o.maxWidthPt !== undefined) {
-    while (size > 6 && font.widthOfTextAtSize(value, size) > o.maxWidthPt) size -= 0.25;
-    while (value.length > 1 && font.widthOfTextAtSize(value, size) > o.maxWidthPt) value = `${value.slice(0, -2).trimEnd()}…`;
-  }
-  const width = font.widthOfTextAtSize(value, size);
-  const x = o.align === 'right' ? pt(o.x) - width : pt(o.x);
-  page.drawText(value, { x, y: pt(o.y), size, font, color: INK, ...(o.rotate ? { rotate: degrees(o.rotate) } : {}) });
-}
-
-/** `s` with line breaks flattened and characters Helvetica cannot encode replaced by "?". */
-function printable(fonts: Fonts, s: string): string {
-  let out = '';
-  for (const ch of s.replace(/\s+/g, ' ')) out += fonts.charset.has(ch.codePointAt(0) ?? 0) ? ch : '?';
-  return out;
-}
-
-const round2 = (v: number) => Math.round(v * 100) / 100;
 const volumeText = (value: number, layout: GaugeStripLayout) => `${formatNumberTrimmed(value, 6)} ${UNIT_SYMBOLS[layout.step.unit]}`;

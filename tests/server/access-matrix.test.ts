@@ -79,6 +79,7 @@ const ROWS: Row[] = [
   },
   { route: 'GET /api/farms', url: () => '/api/farms', expect: signedInOnly(200) },
   { route: 'GET /api/farms/:id', url: (w, s) => `/api/farms/${farm(w, s)}`, expect: farmRead(200) },
+  { route: 'GET /api/farms/:id/labels.pdf', url: (w, s) => `/api/farms/${farm(w, s)}/labels.pdf`, expect: farmRead(200) },
   { route: 'POST /api/farms', url: () => '/api/farms', body: () => ({ name: `New farm ${++seq}`, timeZone: 'Europe/Dublin' }), expect: managersOnly(201) },
   { route: 'PATCH /api/farms/:id', url: (w, s) => `/api/farms/${farm(w, s)}`, body: () => ({ location: 'checked by the matrix' }), expect: managersOnly({ own: 200, 'other-farm': 200, 'other-org': 404 }) },
   { route: 'GET /api/people', url: () => '/api/people', expect: ownerOnly(200) },
@@ -109,6 +110,7 @@ const ROWS: Row[] = [
   { route: 'GET /api/tanks/:id/calibration', url: (w, s) => `/api/tanks/${tank(w, s)}/calibration?step=50`, expect: farmRead(200) },
   { route: 'GET /api/tanks/:id/calibrations', url: (w, s) => `/api/tanks/${tank(w, s)}/calibrations`, expect: farmRead(200) },
   { route: 'GET /api/tanks/:id/gauge-strip.pdf', url: (w, s) => `/api/tanks/${tank(w, s)}/gauge-strip.pdf?every=50&unit=metric&paper=a4`, expect: farmRead(200) },
+  { route: 'GET /api/tanks/:id/label.pdf', url: (w, s) => `/api/tanks/${tank(w, s)}/label.pdf`, expect: farmRead(200) },
   {
     route: 'POST /api/rounds',
     url: () => '/api/rounds',

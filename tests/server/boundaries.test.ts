@@ -23,6 +23,7 @@ import {
   flagAckSchema,
   flagClearSchema,
   flagListQuerySchema,
+  farmLabelsQuerySchema,
   gaugeStripQuerySchema,
   importListQuerySchema,
   inputCreateSchema,
@@ -47,6 +48,7 @@ import {
   supplierCreateSchema,
   supplierUpdateSchema,
   tankCreateSchema,
+  tankLabelQuerySchema,
   tankUpdateSchema,
 } from '@shared/schemas';
 import { useTestApp } from '../support/db';
@@ -313,6 +315,8 @@ describe('boundary values in query strings and route parameters', () => {
     { name: '/api/tanks/:id/series', url: () => `/api/tanks/${tankId}/series`, schema: seriesQuerySchema },
     { name: '/api/tanks/:id/calibration', url: () => `/api/tanks/${tankId}/calibration`, schema: calibrationQuerySchema },
     { name: '/api/tanks/:id/gauge-strip.pdf', url: () => `/api/tanks/${tankId}/gauge-strip.pdf`, schema: gaugeStripQuerySchema },
+    { name: '/api/tanks/:id/label.pdf', url: () => `/api/tanks/${tankId}/label.pdf`, schema: tankLabelQuerySchema },
+    { name: '/api/farms/:id/labels.pdf', url: () => `/api/farms/${farmId}/labels.pdf`, schema: farmLabelsQuerySchema },
     { name: '/api/flags', url: () => '/api/flags', schema: flagListQuerySchema },
     { name: '/api/brews', url: () => '/api/brews', schema: brewListQuerySchema },
     { name: '/api/inputs', url: () => '/api/inputs', schema: inputListQuerySchema },
