@@ -1,4 +1,5 @@
 import type { Farm, FarmCreateInput, FarmUpdateInput } from '@shared/schemas';
+import type { UnitSystem } from '@shared/units';
 import { http } from './http';
 
 /** The farms this user may see, archived ones too when asked. */
@@ -19,4 +20,9 @@ export function createFarm(input: FarmCreateInput): Promise<Farm> {
 /** Edits, archives (archived: true) or restores (archived: false) a farm. */
 export function updateFarm(farmId: number, input: FarmUpdateInput): Promise<Farm> {
   return http.patch<Farm>(`/api/farms/${farmId}`, input);
+}
+
+/** The address of the sheet of labels for every active tank of a farm (PDF, A4 or Letter). */
+export function farmLabelsUrl(farmId: number, options: { unit: UnitSystem; paper: 'a4' | 'letter' }): string {
+  return `/api/farms/${farmId}/labels.pdf?${new URLSearchParams({ unit: options.unit, paper: options.paper })}`;
 }

@@ -54,6 +54,13 @@ export function calibrationCsvUrl(tankId: number, step: number, unit: UnitSystem
 }
 
 /** The address of the tank's printable gauge strip PDF: a mark every `every` L (metric) or US gal (us). */
-export function gaugeStripUrl(tankId: number, options: { every: number; unit: UnitSystem; paper: 'a4' | 'letter' }): string {
-  return `/api/tanks/${tankId}/gauge-strip.pdf?${new URLSearchParams({ every: String(options.every), unit: options.unit, paper: options.paper })}`;
+export function gaugeStripUrl(tankId: number, options: { every: number; unit: UnitSystem; paper: 'a4' | 'letter'; label?: boolean }): string {
+  const query = new URLSearchParams({ every: String(options.every), unit: options.unit, paper: options.paper });
+  if (options.label) query.set('label', 'true');
+  return `/api/tanks/${tankId}/gauge-strip.pdf?${query}`;
+}
+
+/** The address of the tank's label PDF (QR code to the round at this tank), capacities in `unit`. */
+export function tankLabelUrl(tankId: number, unit: UnitSystem): string {
+  return `/api/tanks/${tankId}/label.pdf?${new URLSearchParams({ unit })}`;
 }
