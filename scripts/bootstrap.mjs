@@ -1,5 +1,6 @@
 // Plain Node on purpose: it runs before any npm package is installed. It installs what is
-// missing (npm packages, Debian's MariaDB server, Chromium and poppler-utils when root), then hands over to
+// missing (npm packages, Debian's MariaDB server, Chromium and poppler-utils when root; redis-server and
+// haproxy for several server processes and their tests), then hands over to
 // the TypeScript task runner in scripts/tasks.ts.
 import { spawnSync } from 'node:child_process';
 import { existsSync, statSync } from 'node:fs';
@@ -38,7 +39,12 @@ if (!has('mariadbd') && !existsSync('/usr/sbin/mariadbd')) needed.push('mariadb-
 if ((task === 'test' || task === 'bench') && !existsSync('/usr/bin/chromium')) needed.push('chromium');
 // The label tests render PDFs with pdftoppm and read them back with pdftotext.
 if (task === 'test' && !has('pdftoppm')) needed.push('poppler-utils');
-const WHY = { 'mariadb-server': 'a MariaDB server', chromium: 'a browser for tests', 'poppler-utils': 'PDF tools for tests' };
+// Several server processes (`npm run start:cluster`, SERVERS=N npm start) share a Redis behind haproxy; the tests start both.
+if (task === 'test' || task === 'start:cluster' || (task === 'start' && Number(process.env.SERVERS ?? 1) > 1)) {
+  if (!existsSync('/usr/bin/redis-server')) needed.push('redis-server');
+  if (!existsSync('/usr/sbin/haproxy')) needed.push('haproxy');
+}
+const WHY = { 'mariadb-server': 'a MariaDB server', chromium: 'a browser for tests', 'poppler-utils': 'PDF tools for tests', 'redis-server': 'Redis for several server processes', haproxy: 'a load balancer for several server processes' };
 if (needed.length) aptInstall(needed, needed.map((p) => WHY[p]).join(', '));
 
 const result = run(process.execPath, ['--import', 'tsx', join(root, 'scripts', 'tasks.ts'), task, ...process.argv.slice(3)]);

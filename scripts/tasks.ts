@@ -8,7 +8,9 @@ import { loadConfig } from '../server/config';
 import { createDatabase, migrate } from '../server/db';
 import { startMailCapture } from '../server/mail/capture';
 import { loadDemoScenario } from '../server/services/demo';
+import { startHaproxy } from './lib/haproxy';
 import { ensureDatabase, persistentSecret, startMariaDb } from './lib/mariadb';
+import { startRedis } from './lib/redis';
 import { supervise } from './lib/supervisor';
 
 const root = resolve(import.meta.dirname, '..');
@@ -52,7 +54,7 @@ async function prepare() {
   return { config, db, mail, env };
 }
 
-async function start() {
+async function start(servers: number) {
   const { config, db, mail, env } = await prepare();
   if (clientIsStale(config.clientDir)) {
     console.log('Building the client…');
@@ -62,6 +64,13 @@ async function start() {
       process.exit(1);
     }
   }
+  if (servers > 1) {
+    await startCluster(config, servers, env, async () => {
+      await mail.close();
+      await db.stop();
+    });
+    return;
+  }
   supervise({
     children: [{ name: 'server', start: () => spawn(process.execPath, ['--import', 'tsx', join(root, 'server', 'index.ts')], { stdio: 'inherit', cwd: root, env }) }],
     maxRestarts: config.serverRestarts,
@@ -70,6 +79,44 @@ async function start() {
       await db.stop();
       console.log('Stopped the server, the mail receiver and MariaDB.');
     },
+  });
+}
+
+/**
+ * `servers` server processes on 127.0.0.1, ports PORT+1…PORT+N, sharing a Redis (REDIS_URL, else our own
+ * redis-server on REDIS_PORT), behind haproxy on HOST:PORT; `stopRest` stops what `prepare` started.
+ */
+async function startCluster(config: ReturnType<typeof loadConfig>, servers: number, env: NodeJS.ProcessEnv, stopRest: () => Promise<void>) {
+  const redis = config.redisUrl ? null : await startRedis({ baseDir: config.dataDir, port: config.redisPort });
+  const ports = Array.from({ length: servers }, (_, i) => config.port + 1 + i);
+  const haproxy = await startHaproxy({ baseDir: config.dataDir, host: config.host, port: config.port, serverPorts: ports });
+  console.log(`${servers} server processes on ports ${ports.join(', ')} behind haproxy on ${config.host}:${config.port} (${haproxy.configFile}); Redis at ${config.redisUrl ?? redis!.url}.`);
+  const serverEnv: NodeJS.ProcessEnv = {
+    ...env,
+    HOST: '127.0.0.1',
+    // Links, the socket origin check and the ready line name the balancer's address, not a process's own.
+    PUBLIC_URL: config.publicUrl,
+    REDIS_URL: config.redisUrl ?? redis!.url,
+    // The balancer is one more proxy hop whose X-Forwarded-For names the client (sign-in limits per address).
+    PROXY_HOPS: String(config.proxyHops + 1),
+    SERVERS: '1',
+  };
+  const stop = supervise({
+    children: ports.map((port, i) => ({
+      name: `server ${i + 1} (port ${port})`,
+      start: () => spawn(process.execPath, ['--import', 'tsx', join(root, 'server', 'index.ts')], { stdio: 'inherit', cwd: root, env: { ...serverEnv, PORT: String(port) } }),
+    })),
+    maxRestarts: config.serverRestarts,
+    cleanup: async () => {
+      await haproxy.stop();
+      await redis?.stop();
+      await stopRest();
+      console.log(`Stopped the ${servers} server processes, haproxy, ${redis ? 'Redis, ' : ''}the mail receiver and MariaDB.`);
+    },
+  });
+  haproxy.child.once('exit', (code, signal) => {
+    console.log(`haproxy ${signal ? `was killed by ${signal}` : `exited with code ${code}`}; stopping everything.`);
+    void stop(1);
   });
 }
 
@@ -127,8 +174,13 @@ function bench() {
 
 switch (task) {
   case 'start':
-    await start();
+    await start(loadConfig().servers);
     break;
+  case 'start:cluster': {
+    const servers = loadConfig().servers;
+    await start(servers > 1 ? servers : 3);
+    break;
+  }
   case 'dev':
     await dev();
     break;
@@ -139,6 +191,6 @@ switch (task) {
     bench();
     break;
   default:
-    console.error(`Unknown task "${task}": use start, dev, test or bench`);
+    console.error(`Unknown task "${task}": use start, start:cluster, dev, test or bench`);
     process.exit(2);
 }

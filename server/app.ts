@@ -31,7 +31,7 @@ import { invalidateBoards } from './services/board';
 export function createApp(ctx: AppContext, opts: { staticDir?: string } = {}) {
   const app = express();
   app.disable('x-powered-by');
-  app.set('trust proxy', ctx.config.session.secureCookie ? 1 : false);
+  app.set('trust proxy', ctx.config.proxyHops || false);
   app.use(securityHeaders(ctx.config));
   app.use(compression());
   app.use(pinoHttp({ logger: ctx.logger, serializers: requestLogSerializers(ctx.logger), autoLogging: { ignore: (req) => req.url === '/api/health' } }));

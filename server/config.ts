@@ -43,6 +43,10 @@ const schema = z.object({
   FLAG_DIGEST_HOUR: z.coerce.number().int().min(0).max(23).default(7),
   DEMO: bool.optional(),
   SERVER_RESTARTS: z.coerce.number().int().min(0).max(100).default(5),
+  REDIS_URL: z.string().url().refine((u) => /^rediss?:$/.test(new URL(u).protocol), 'must be a redis:// or rediss:// address').optional(),
+  REDIS_PORT: z.coerce.number().int().min(1).max(65535).default(6391),
+  SERVERS: z.coerce.number().int().min(1).max(32).default(1),
+  PROXY_HOPS: z.coerce.number().int().min(0).max(10).optional(),
 });
 
 export type Config = ReturnType<typeof loadConfig>;
@@ -96,5 +100,13 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     demo: c.DEMO ?? c.NODE_ENV !== 'production',
     /** How many times `npm start` restarts a server process that died, before it stops everything. */
     serverRestarts: c.SERVER_RESTARTS,
+    /** The Redis that several server processes share (bus, job claims, sign-in limits); null: this process alone. */
+    redisUrl: c.REDIS_URL || null,
+    /** The port of the Redis that `npm start` runs for several server processes. */
+    redisPort: c.REDIS_PORT,
+    /** How many server processes `npm start` runs behind the load balancer on PORT (1: one process, no balancer). */
+    servers: c.SERVERS,
+    /** Proxies in front whose X-Forwarded-For is trusted (default: 1 with COOKIE_SECURE, else none). */
+    proxyHops: c.PROXY_HOPS ?? (c.COOKIE_SECURE ? 1 : 0),
   };
 }

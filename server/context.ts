@@ -1,5 +1,6 @@
 import type { EventEmitter } from 'node:events';
 import type { Logger } from 'pino';
+import type { Cluster } from './cluster';
 import type { Config } from './config';
 import type { Database } from './db';
 import type { Mailer } from './mail/mailer';
@@ -12,4 +13,6 @@ export interface AppContext {
   logger: Logger;
   /** In-process events: 'readings' { organisationId, farmIds } after each commit that changes stock. */
   events: EventEmitter;
+  /** What the server processes share (server/cluster); absent: this process alone, reached through `clusterOf`. */
+  cluster?: Cluster;
 }

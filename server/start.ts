@@ -6,6 +6,8 @@ import type { Server as SocketServer } from 'socket.io';
 import type { Config } from './config';
 import type { AppContext } from './context';
 import { createApp } from './app';
+import { openCluster } from './cluster';
+import { relayEvents } from './cluster/event-relay';
 import { createDatabase, migrate } from './db';
 import { settleDeferred } from './deferred';
 import { createLogger } from './logger';
@@ -34,6 +36,9 @@ export function createContext(config: Config): AppContext {
 /** Migrates, opens the first-owner set-up of an empty database, builds the app and listens on config.host:config.port (0 picks a free port). */
 export async function startServer(config: Config, opts: { staticDir?: string } = {}): Promise<RunningServer> {
   const ctx = createContext(config);
+  // Before the app: its sign-in limits and kept rows go through what the processes share (Redis, when set).
+  ctx.cluster = await openCluster(config, ctx.logger);
+  const stopRelay = relayEvents(ctx);
   await migrate(ctx.db.sequelize);
   // An import cut off by a crash rolled back with its transaction: mark it failed so it can be retried.
   const interrupted = await recoverInterruptedImports(ctx);
@@ -65,6 +70,8 @@ export async function startServer(config: Config, opts: { staticDir?: string } =
       // Mail queued by the last requests still goes out.
       await settleDeferred(ctx);
       ctx.mailer.close();
+      stopRelay();
+      await ctx.cluster?.close();
       await ctx.db.sequelize.close();
     },
   };

@@ -1,7 +1,8 @@
 // Limits on failed sign-ins and link requests (express-rate-limit). Each limiter is named; its
 // counts live in the store `storeFor(name)` gives, the library's in-memory store by default. To
-// count across several server processes, pass a shared store (one per name, e.g. a Redis store
-// with the name as its prefix) and nothing else changes.
+// count across several server processes the routes pass `clusterOf(ctx).limitStoreFor`
+// (server/cluster): with REDIS_URL set, a rate-limit-redis store per limiter, its keys prefixed
+// with the limiter's name, so every process counts the same failures.
 import type { Request, RequestHandler } from 'express';
 import rateLimit, { ipKeyGenerator, type Store } from 'express-rate-limit';
 import type { Config } from '../config';

@@ -1,5 +1,6 @@
 import { Router, type Request, type Response } from 'express';
 import { passwordResetSchema, profileSchema, setPasswordSchema, signInSchema, type SessionState } from '@shared/schemas';
+import { clusterOf } from '../cluster';
 import type { AppContext } from '../context';
 import { actorOf, requireSignIn } from '../middleware/access';
 import { describeToken, endSession, requestPasswordReset, sessionUserFor, setPasswordWithToken, verifySignIn } from '../services/auth';
@@ -22,7 +23,7 @@ export async function startSession(ctx: AppContext, req: Request, res: Response,
 
 export function authRouter(ctx: AppContext, csrf: CsrfTools) {
   const router = Router();
-  const limits = authLimits(ctx.config);
+  const limits = authLimits(ctx.config, clusterOf(ctx).limitStoreFor);
   const perIp = limits.perIp;
 
   router.get('/session', async (req, res) => {

@@ -1,5 +1,6 @@
 import { Router } from 'express';
 import { firstOwnerSchema } from '@shared/schemas';
+import { clusterOf } from '../cluster';
 import type { AppContext } from '../context';
 import { authLimits } from '../middleware/rate-limits';
 import type { CsrfTools } from '../middleware/security';
@@ -10,7 +11,7 @@ import { startSession } from './auth';
 /** The first-owner set-up of a server with no organisation; public, like sign-in. */
 export function setupRouter(ctx: AppContext, csrf: CsrfTools) {
   const router = Router();
-  const { perIp } = authLimits(ctx.config);
+  const { perIp } = authLimits(ctx.config, clusterOf(ctx).limitStoreFor);
 
   router.get('/', async (_req, res) => {
     res.json(await setupState(ctx));

@@ -3,6 +3,7 @@
 import { Op, QueryTypes, type WhereOptions } from 'sequelize';
 import { FLAG_LABELS, TANK_FLAG_KINDS, TEMPERATURE_FLAG_KINDS, clearableByHand, judgedTankKinds, tankFlagConditions, type FlagCondition } from '@shared/flags';
 import type { Flag as FlagDto, FlagKind, SessionUser } from '@shared/schemas';
+import { startPeriodicJob } from '../cluster/periodic-job';
 import type { AppContext } from '../context';
 import { AppError, forbidden, notFound } from '../errors';
 import type { Flag, Tank } from '../models';
@@ -240,20 +241,21 @@ export function attachFlagRules(ctx: AppContext, opts: { delayMs?: number; sweep
       onStock({ organisationId: f.organisationId, farmIds: [f.id] });
     }
   };
-  const sweep = setInterval(async () => {
-    await evaluateAll();
-    running = running.then(() => sendFlagDigests(ctx).then(() => undefined)).catch((err) => ctx.logger.error({ err }, 'flag digest failed'));
-  }, opts.sweepMs ?? 10 * 60_000);
-  sweep.unref();
-  // Shortly after start-up, every farm once: flags of data loaded while no server ran (the demo, a restore).
-  const first = opts.firstSweepMs === null ? null : setTimeout(() => void evaluateAll(), opts.firstSweepMs ?? 1000);
-  first?.unref();
+  // The sweep and the digest mail each run in one process of several per period (server/cluster/periodic-job.ts);
+  // shortly after start-up, every farm once: flags of data loaded while no server ran (the demo, a restore).
+  const sweepMs = opts.sweepMs ?? 10 * 60_000;
+  const stopSweep = startPeriodicJob(ctx, { name: 'flag-sweep', periodMs: sweepMs, firstAfterMs: opts.firstSweepMs === null ? undefined : (opts.firstSweepMs ?? 1000), work: evaluateAll });
+  const stopDigest = startPeriodicJob(ctx, {
+    name: 'flag-digest',
+    periodMs: sweepMs,
+    work: () => (running = running.then(() => sendFlagDigests(ctx).then(() => undefined)).catch((err) => ctx.logger.error({ err }, 'flag digest failed'))),
+  });
   return () => {
-    if (first) clearTimeout(first);
+    stopSweep();
+    stopDigest();
     ctx.events.off('readings', onReadings);
     ctx.events.off('brew-temperature', onReadings);
     ctx.events.off('stock', onStock);
-    clearInterval(sweep);
     for (const p of pending.values()) clearTimeout(p.timer);
   };
 }

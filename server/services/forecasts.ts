@@ -3,11 +3,14 @@
 import { col, Op } from 'sequelize';
 import { tankForecast } from '@shared/forecast';
 import type { SessionUser, TankForecastDto } from '@shared/schemas';
+import { clusterOf } from '../cluster';
 import type { AppContext } from '../context';
 import type { Tank } from '../models';
 import { tankFor } from './tanks';
 
 const WINDOW_DAYS = 14;
+/** How long a process's claim on refreshing one tank's rate after one reading holds (a refresh takes milliseconds). */
+const CLAIM_MS = 60_000;
 /** Quiet hours when no irrigation is planned: common practice, no published source; night draws are rare. */
 export const QUIET_HOURS = { startHour: 23, endHour: 5 };
 
@@ -71,18 +74,23 @@ export async function forecastFor(ctx: AppContext, actor: SessionUser, tankId: n
 
 /**
  * Refreshes cached rates that are older than the tank's latest reading (at most `limit` tanks).
- * Only the stale tanks are read. Returns the farms whose tanks got a new rate.
+ * Only the stale tanks are read; of several server processes, the one that claims a tank's latest
+ * reading refreshes it and the others leave it. Returns the farms whose tanks got a new rate.
  */
 export async function refreshStaleForecasts(ctx: AppContext, tankIds: number[], limit = 50): Promise<{ organisationId: number; farmIds: number[] }[]> {
   if (!tankIds.length) return [];
   const { TankLatest, Tank, Farm } = ctx.db.models;
   const stale = await TankLatest.findAll({
     where: { tankId: tankIds, [Op.or]: [{ forecastAt: null }, { forecastAt: { [Op.lt]: col('takenAt') } }] },
-    attributes: ['tankId'],
+    attributes: ['tankId', 'takenAt'],
     limit,
   });
   if (!stale.length) return [];
-  const tanks = await Tank.findAll({ where: { id: stale.map((s) => s.tankId) } });
+  const { locks } = clusterOf(ctx);
+  const claimed: number[] = [];
+  for (const s of stale) if (await locks.claim(`use-rate:${s.tankId}:${new Date(s.takenAt).getTime()}`, CLAIM_MS)) claimed.push(s.tankId);
+  if (!claimed.length) return [];
+  const tanks = await Tank.findAll({ where: { id: claimed } });
   const zones = new Map((await Farm.findAll({ where: { id: [...new Set(tanks.map((t) => t.farmId))] } })).map((f) => [f.id, f.timeZone]));
   const touched = new Map<number, Set<number>>();
   for (const t of tanks) {
