@@ -1,5 +1,4 @@
 import { createApp } from 'vue';
-import { createPinia } from 'pinia';
 import PrimeVue from 'primevue/config';
 import ToastService from 'primevue/toastservice';
 import ConfirmationService from 'primevue/confirmationservice';
@@ -13,9 +12,11 @@ import { createAppRouter } from './router';
 import { BrimstockPreset } from './theme/preset';
 import { onUnauthenticated } from './api/http';
 import { useSessionStore } from './stores/session';
+import { createAppPinia } from './stores/plugins/forgetOnUserChange';
 
 const app = createApp(App);
-const pinia = createPinia();
+// With the plugin that empties a person's stores when someone else signs in on the device.
+const pinia = createAppPinia();
 app.use(pinia);
 const router = createAppRouter();
 app.use(router);

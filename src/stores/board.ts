@@ -30,9 +30,6 @@ export const useBoardStore = defineStore('board', () => {
   const historyStatus = ref<LoadStatus>('idle');
   const historyError = ref<string | null>(null);
 
-  /** Whose board this is: a different person on the same device starts from nothing. */
-  const userId = ref<number | null>(null);
-
   /** The last board fetched and its entity tag: a 304 answer means it is still the server's. */
   let fetched: { board: StockBoard; etag: string } | null = null;
   /** The fetch under way; deltas that arrive meanwhile wait in `waiting`. */
@@ -156,13 +153,6 @@ export const useBoardStore = defineStore('board', () => {
     }
   }
 
-  /** Keeps the board only when it belongs to `id`. */
-  function claim(id: number): void {
-    if (userId.value === id) return;
-    reset();
-    userId.value = id;
-  }
-
   function reset(): void {
     owner++;
     fetched = null;
@@ -179,7 +169,6 @@ export const useBoardStore = defineStore('board', () => {
     history.value = null;
     historyStatus.value = 'idle';
     historyError.value = null;
-    userId.value = null;
   }
 
   return {
@@ -201,7 +190,6 @@ export const useBoardStore = defineStore('board', () => {
     connected,
     load,
     loadHistory,
-    claim,
     reset,
   };
 });

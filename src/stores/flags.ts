@@ -42,8 +42,6 @@ export const useFlagsStore = defineStore('flags', () => {
   const activeStatus = ref<LoadStatus>('idle');
   const activeError = ref<string | null>(null);
 
-  const userId = ref<number | null>(null);
-
   // A load started earlier than a newer load is dropped; one that returns after pushes or
   // acknowledgements that arrived while it was on its way gets them replayed over its rows.
   let listRevision = 0;
@@ -182,13 +180,6 @@ export const useFlagsStore = defineStore('flags', () => {
     });
   }
 
-  /** Keeps the flags only when they belong to `id`. */
-  function claim(id: number): void {
-    if (userId.value === id) return;
-    reset();
-    userId.value = id;
-  }
-
   function reset(): void {
     listRevision++;
     activeRevision++;
@@ -200,7 +191,6 @@ export const useFlagsStore = defineStore('flags', () => {
     active.value = [];
     activeStatus.value = 'idle';
     activeError.value = null;
-    userId.value = null;
   }
 
   return {
@@ -220,7 +210,6 @@ export const useFlagsStore = defineStore('flags', () => {
     acknowledge,
     clearByHand,
     listen,
-    claim,
     reset,
   };
 });

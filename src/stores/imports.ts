@@ -129,11 +129,9 @@ export const useImportsStore = defineStore('imports', () => {
    */
   async function start(wanted: { farmId?: number; tankId?: number } = {}): Promise<void> {
     const userId = session.user?.id ?? null;
-    if (userId !== ownerId) {
-      reset();
-      ownerId = userId;
-      ownerKey.value = storageKey(userId ?? 0);
-    }
+    // The lists of another person are already gone (src/stores/plugins/forgetOnUserChange.ts); this picks their remembered choice.
+    ownerId = userId;
+    ownerKey.value = storageKey(userId ?? 0);
     await farms.ensureLoaded();
     const active = farms.activeFarms;
     if (wanted.farmId === undefined && wanted.tankId === undefined && farmId.value !== null && active.some((f) => f.id === farmId.value)) {

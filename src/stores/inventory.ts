@@ -19,7 +19,6 @@ import * as api from '@/api/inventory';
 import { fetchOutbox } from '@/api/outbox';
 import { errorMessage, isApiError } from '@/api/http';
 import type { LoadStatus } from './farms';
-import { useSessionStore } from './session';
 
 function byName(a: Supplier, b: Supplier): number {
   return a.name.localeCompare(b.name);
@@ -51,16 +50,6 @@ export const useInventoryStore = defineStore('inventory', () => {
   /** null until asked: whether this server keeps mail in the development outbox. */
   const outboxAvailable = ref<boolean | null>(null);
 
-  // Lists cached for one person must not show to the next one signing in on this device.
-  let loadedForUserId: number | null = null;
-  function forgetIfAnotherUser(): void {
-    const id = useSessionStore().user?.id ?? null;
-    if (id !== loadedForUserId) {
-      reset();
-      loadedForUserId = id;
-    }
-  }
-
   const activeSuppliers = computed(() => suppliers.value.filter((s) => s.archivedAt === null));
   const supplierById = computed(() => new Map(suppliers.value.map((s) => [s.id, s])));
   const inputById = computed(() => new Map(inputs.value.map((i) => [i.id, i])));
@@ -72,7 +61,6 @@ export const useInventoryStore = defineStore('inventory', () => {
   // ---- suppliers ----
 
   async function loadSuppliers(): Promise<void> {
-    forgetIfAnotherUser();
     suppliersStatus.value = 'loading';
     suppliersError.value = null;
     try {
@@ -111,7 +99,6 @@ export const useInventoryStore = defineStore('inventory', () => {
 
   /** Loads the inputs for `filter` (or the current filter), showing the loading state. */
   async function loadInputs(filter: api.InputFilter = inputFilter.value): Promise<void> {
-    forgetIfAnotherUser();
     inputFilter.value = { ...filter };
     inputsStatus.value = 'loading';
     inputsError.value = null;
@@ -191,7 +178,6 @@ export const useInventoryStore = defineStore('inventory', () => {
   // ---- orders ----
 
   async function loadOrders(): Promise<void> {
-    forgetIfAnotherUser();
     ordersStatus.value = 'loading';
     ordersError.value = null;
     try {

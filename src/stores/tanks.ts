@@ -1,4 +1,4 @@
-import { computed, ref, shallowRef, watch } from 'vue';
+import { computed, ref, shallowRef } from 'vue';
 import { defineStore } from 'pinia';
 import type { Tank, TankCalibrationVersion, TankContentsPeriod, TankCreateInput, TankTile, TankUpdateInput } from '@shared/schemas';
 import * as tanksApi from '@/api/tanks';
@@ -6,7 +6,6 @@ import type { TankForecast } from '@/api/tanks';
 import * as boardApi from '@/api/board';
 import { errorMessage } from '@/api/http';
 import type { LoadStatus } from './farms';
-import { useSessionStore } from './session';
 
 /** Walking order as the server sorts it: walkOrder, then name. */
 function inWalkingOrder(a: Tank, b: Tank): number {
@@ -166,14 +165,6 @@ export const useTanksStore = defineStore('tanks', () => {
     calibrations.value = {};
     calibrationsStatus.value = {};
   }
-
-  // Tanks cached for one person must not show to the next one on this device.
-  watch(
-    () => useSessionStore().user?.id,
-    (now, before) => {
-      if (now !== before) reset();
-    },
-  );
 
   return {
     tanks,

@@ -188,16 +188,4 @@ describe('useBoardStore', () => {
     expect(store.status).toBe('error');
     expect(store.error).toBe('The server is not answering.');
   });
-
-  it('forgets the board when another person claims it', () => {
-    const store = useBoardStore();
-    store.claim(2);
-    store.applyBoard(makeBoard([creek()]));
-
-    store.claim(2);
-    expect(store.farms).toHaveLength(1);
-    store.claim(4);
-    expect(store.farms).toHaveLength(0);
-    expect(store.status).toBe('idle');
-  });
 });

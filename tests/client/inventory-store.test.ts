@@ -1,5 +1,5 @@
 import { beforeEach, describe, expect, it, vi } from 'vitest';
-import { createPinia, setActivePinia } from 'pinia';
+import { setActivePinia } from 'pinia';
 import * as authApi from '@/api/auth';
 import * as inventoryApi from '@/api/inventory';
 import * as outboxApi from '@/api/outbox';
@@ -8,6 +8,7 @@ import { useInventoryStore } from '@/stores/inventory';
 import { useSessionStore } from '@/stores/session';
 import { makeUser, sessionOf } from './support/fixtures';
 import { makeInput, makeMovement, makeOrder } from './support/inventoryFixtures';
+import { appPinia } from './support/appPinia';
 
 vi.mock('@/api/auth', () => ({
   fetchSession: vi.fn(),
@@ -54,7 +55,7 @@ async function signedInStore(role: 'buyer' | 'worker' = 'buyer', id?: number) {
 
 beforeEach(() => {
   vi.clearAllMocks();
-  setActivePinia(createPinia());
+  setActivePinia(appPinia());
 });
 
 describe('useInventoryStore', () => {
