@@ -26,7 +26,7 @@ beforeAll(async () => {
   ({ name: dbName, db } = await freshDatabase(dbServer, 'brimtest_cluster'));
   org = await makeOrganisation(fixtureEnv(db));
   redis = await testRedis();
-}, 60_000);
+}, 150_000);
 
 afterAll(async () => {
   await Promise.all(members.map((m) => m.stop()));
@@ -60,7 +60,7 @@ describe('several server processes', () => {
     expect(status).toBe(401);
     expect(Date.now() - signedOutAt).toBeLessThan(1_000);
     await Promise.all([a.stop(), b.stop()]);
-  }, 60_000);
+  }, 150_000);
 
   it('runs a periodic job once per period across three processes', async () => {
     const periodMs = 1_200; // SESSION_PURGE_MINUTES=0.02
@@ -84,7 +84,7 @@ describe('several server processes', () => {
     expect(whileAllUp.length).toBeGreaterThanOrEqual(4);
     for (const slot of whileAllUp) expect(runs.filter((r) => r.slot === slot), `runs in period ${slot}`).toHaveLength(1);
     await Promise.all(trio.map((m) => m.stop()));
-  }, 60_000);
+  }, 150_000);
 
   it('counts failed sign-ins to one account from one address across two processes', async () => {
     const env = { SIGN_IN_LIMIT_PER_ACCOUNT_AND_IP: '3', SIGN_IN_LIMIT_PER_IP: '100', SIGN_IN_LIMIT_PER_ACCOUNT: '100' };
@@ -104,5 +104,5 @@ describe('several server processes', () => {
     expect(await signInOn(b.baseUrl)).toBe(429);
     expect(await signInOn(a.baseUrl)).toBe(429);
     await Promise.all([a.stop(), b.stop()]);
-  }, 60_000);
+  }, 150_000);
 });

@@ -47,7 +47,7 @@ export async function clusterMember(db: DbServer, dbName: string, redisUrl: stri
       ...env,
     },
     captureStderr: true,
-    timeoutMs: 45_000,
+    timeoutMs: 90_000,
     onLine: (line) => lines.push(line),
   });
   const child = started.child;
