@@ -23,9 +23,10 @@ vi.mock('@/api/tanks', () => ({
   fetchCalibration: vi.fn(),
   calibrationCsvUrl: vi.fn(),
   gaugeStripUrl: vi.fn(),
+  tankLabelUrl: vi.fn(),
 }));
 vi.mock('@/api/board', () => ({ fetchBoard: vi.fn(), fetchBoardHistory: vi.fn() }));
-vi.mock('@/api/farms', () => ({ fetchFarms: vi.fn(), fetchFarm: vi.fn(), createFarm: vi.fn(), updateFarm: vi.fn() }));
+vi.mock('@/api/farms', () => ({ fetchFarms: vi.fn(), fetchFarm: vi.fn(), createFarm: vi.fn(), updateFarm: vi.fn(), farmLabelsUrl: vi.fn() }));
 
 const auth = vi.mocked(authApi);
 const board = vi.mocked(boardApi);

@@ -29,9 +29,10 @@ vi.mock('@/api/tanks', () => ({
   fetchCalibrations: vi.fn(),
   calibrationCsvUrl: vi.fn(),
   gaugeStripUrl: vi.fn(),
+  tankLabelUrl: vi.fn(),
 }));
 vi.mock('@/api/readings', () => ({ submitRound: vi.fn(), fetchReadings: vi.fn(), fetchSeries: vi.fn(), correctReading: vi.fn() }));
-vi.mock('@/api/farms', () => ({ fetchFarms: vi.fn(), fetchFarm: vi.fn(), createFarm: vi.fn(), updateFarm: vi.fn() }));
+vi.mock('@/api/farms', () => ({ fetchFarms: vi.fn(), fetchFarm: vi.fn(), createFarm: vi.fn(), updateFarm: vi.fn(), farmLabelsUrl: vi.fn() }));
 vi.mock('@/api/board', () => ({ fetchBoard: vi.fn(), fetchBoardHistory: vi.fn() }));
 
 const auth = vi.mocked(authApi);
