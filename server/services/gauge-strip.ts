@@ -7,6 +7,7 @@ import { PDFDocument, closePath, fill, lineTo, moveTo, popGraphicsState, pushGra
 import { GAUGE_HEADER_MM, GaugeStripError, gaugePage, gaugeStripLayout, suggestGaugeStep, type GaugePaper, type GaugeStripLayout, type GaugeStripPage } from '@shared/gauge';
 import type { GaugeStripQuery, SessionUser, TankContents } from '@shared/schemas';
 import { formatLength, formatNumberTrimmed, INCH_MM, UNIT_SYMBOLS, type UnitSystem } from '@shared/units';
+import { CAUTION_SENTENCES } from '@shared/cautions';
 import type { AppContext } from '../context';
 import { AppError } from '../errors';
 import { embedFonts, GREY, INK, line, printable, PT_PER_MM, pt, round2, text, type Fonts } from './pdf-text';
@@ -29,7 +30,11 @@ export const GAUGE_DRAWING = {
   checkBarMm: { metric: 100, us: 4 * INCH_MM },
 } as const;
 
-const CAUTION = 'Read the tube from outside the tank — never enter a tank (confined space).';
+// The confined-space caution in the shared words: the header carries its first three sentences, the text
+// along a cut strip (narrow) the first and the third.
+const CONFINED = CAUTION_SENTENCES['confined-space'];
+const CAUTION = CONFINED.slice(0, 3).join(' ');
+const CAUTION_ALONG = `${CONFINED[0]} ${CONFINED[2]}`;
 const CONTENTS_NAMES: Record<TankContents, string> = { water: 'Water', fertilizer: 'Fertilizer', 'pest-solution': 'Pest solution', culture: 'Microbial culture' };
 
 /** What the strip prints about its tank. */
@@ -206,7 +211,7 @@ function drawStrip(page: PDFPage, fonts: Fonts, tank: GaugeStripTank, layout: Ga
   // a short last piece that cannot hold them leaves them to the pages below and the header.
   const scaleWords = layout.scaleUnit === 'mm' ? 'edge scale in mm' : 'edge scale in inches';
   const along: [string, number, number, boolean][] = [
-    [CAUTION, 38, 6.5, true],
+    [CAUTION_ALONG, 38, 6.5, true],
     [`${tank.code} · page ${p.label} · a mark every ${volumeText(layout.step.value, layout)} · ${scaleWords}`, 44, 6, false],
   ];
   for (const [words, dx, size, isBold] of along) {

@@ -12,6 +12,7 @@ import { describe, expect, it } from 'vitest';
 import { decodePDFRawStream, PDFArray, PDFDocument, PDFRawStream, type PDFPage } from 'pdf-lib';
 import { gaugePage, gaugeStripLayout, suggestGaugeStep, type GaugeStripLayout } from '@shared/gauge';
 import type { TankGeometry } from '@shared/calibration';
+import { CAUTION_SENTENCES } from '@shared/cautions';
 import { GAUGE_DRAWING } from '../../server/services/gauge-strip';
 import { useTestApp } from '../support/db';
 import { call, makeOrganisation, signedIn, type Agent } from '../support/fixtures';
@@ -141,7 +142,8 @@ async function expectPdfMatchesLayout(body: Buffer, layout: GaugeStripLayout, si
     const all = text.join('\n');
     expect(all).toContain(`Page ${i + 1} of ${layout.totalPages}`);
     expect(all).toContain('Print at 100 % / actual size — do not scale to fit.');
-    expect(all).toContain('Read the tube from outside the tank — never enter a tank (confined space).');
+    // The caution in the words of shared/cautions: three sentences in the header, two along the strip.
+    expect(all).toContain(CAUTION_SENTENCES['confined-space'].slice(0, 3).join(' '));
     for (const t of lp.ticks.filter((x) => x.labelShown)) expect(text).toContain(t.label);
     if (i < layout.totalPages - 1) expect(all).toContain(`cut here — page ${i + 2} continues here`);
     if (i > 0) expect(all).toContain(`lay the cut top edge of page ${i} on this line`);
