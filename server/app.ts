@@ -1,6 +1,6 @@
 // Builds the Express app (no listening here: tests drive it with supertest).
 import { existsSync } from 'node:fs';
-import { join } from 'node:path';
+import { basename, join } from 'node:path';
 import compression from 'compression';
 import cookieParser from 'cookie-parser';
 import express, { type ErrorRequestHandler, type Router } from 'express';
@@ -26,6 +26,7 @@ import { brewsRouter } from './routes/brews';
 import { importsRouter, tankImportMappingRouter } from './routes/imports';
 import { setupRouter } from './routes/setup';
 import { organisationRouter } from './routes/organisation';
+import { textWebhooksRouter } from './routes/texts';
 import { invalidateBoards } from './services/board';
 
 export function createApp(ctx: AppContext, opts: { staticDir?: string } = {}) {
@@ -40,6 +41,9 @@ export function createApp(ctx: AppContext, opts: { staticDir?: string } = {}) {
   const csrf = csrfTools(ctx.config);
   api.use(noStore());
   api.use('/health', healthRouter(ctx));
+  // The SMS service's webhooks: form posts signed by the service, so before sessions and CSRF.
+  const webhookMounts: [string, Router][] = [['/texts', textWebhooksRouter(ctx)]];
+  for (const [prefix, router] of webhookMounts) api.use(prefix, router);
   api.use(express.json({ limit: '1mb', verify: rememberNotUtf8 }));
   // Text that could not be stored as sent (NUL, bytes that are not UTF-8) is refused here for every route.
   api.use(refuseUnstorableText());
@@ -77,14 +81,25 @@ export function createApp(ctx: AppContext, opts: { staticDir?: string } = {}) {
   ];
   if (ctx.config.devOutbox) mounts.push(['/dev', devRouter(ctx)]);
   for (const [prefix, router] of mounts) api.use(prefix, router);
-  app.locals.apiRoutes = listRoutes(mounts);
+  app.locals.apiRoutes = listRoutes([...webhookMounts, ...mounts]);
   api.use((_req, _res, next) => next(new AppError(404, 'not_found', 'No such API route')));
   app.use('/api', api);
 
   const staticDir = opts.staticDir ?? ctx.config.clientDir;
   if (existsSync(join(staticDir, 'index.html'))) {
-    app.use(express.static(staticDir, { index: false, maxAge: '1h' }));
-    app.get(/^\/(?!api\/|socket\.io\/).*/, (_req, res) => res.sendFile(join(staticDir, 'index.html')));
+    // The service worker, its Workbox runtime, the manifest and the page are checked on every load, so a new
+    // version is found at once (the browser then offers it; src/offline/app-update.ts); hashed assets keep 1 h.
+    const checkedEachLoad = /^(sw\.js|workbox-[\w-]+\.js|manifest\.webmanifest|index\.html)$/;
+    app.use(
+      express.static(staticDir, {
+        index: false,
+        maxAge: '1h',
+        setHeaders: (res, path) => {
+          if (checkedEachLoad.test(basename(path))) res.setHeader('Cache-Control', 'no-cache');
+        },
+      }),
+    );
+    app.get(/^\/(?!api\/|socket\.io\/).*/, (_req, res) => res.sendFile(join(staticDir, 'index.html'), { headers: { 'Cache-Control': 'no-cache' } }));
   }
 
   app.use(errorHandler(ctx));

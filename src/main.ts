@@ -1,3 +1,4 @@
+/// <reference types="vite-plugin-pwa/vanillajs" />
 import { createApp } from 'vue';
 import PrimeVue from 'primevue/config';
 import ToastService from 'primevue/toastservice';
@@ -13,6 +14,10 @@ import { BrimstockPreset } from './theme/preset';
 import { onUnauthenticated } from './api/http';
 import { useSessionStore } from './stores/session';
 import { createAppPinia } from './stores/plugins/forgetOnUserChange';
+import { useRoundStore } from './stores/round';
+import { useRoundOutboxStore } from './stores/round-outbox';
+import { registerSW } from 'virtual:pwa-register';
+import { offerUpdate } from './offline/app-update';
 
 const app = createApp(App);
 // With the plugin that empties a person's stores when someone else signs in on the device.
@@ -37,6 +42,18 @@ onUnauthenticated(() => {
   session.clear();
   const current = router.currentRoute.value;
   if (!current.meta.public) void router.replace({ name: 'sign-in', query: { redirect: current.fullPath } });
+});
+
+// Rounds waiting on this device go out from app start (the round store writes the answers into its drafts).
+useRoundStore(pinia);
+useRoundOutboxStore(pinia).start();
+
+// The service worker keeps the app for use without signal; a new version waits for the person to choose to reload.
+const updateSW = registerSW({
+  onNeedRefresh: () => offerUpdate(() => updateSW(true)),
+  onRegisteredSW: (_url, registration) => {
+    if (registration) setInterval(() => void registration.update().catch(() => undefined), 60 * 60_000);
+  },
 });
 
 app.mount('#app');

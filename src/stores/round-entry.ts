@@ -33,6 +33,8 @@ export interface RoundEntryDraft {
   confirmed?: boolean;
   editedAt: string | null;
   result: EntryResult | null;
+  /** The outbox round this entry waits in (sent as it stands, so it cannot change meanwhile); absent when not queued. */
+  outboxSeq?: number | null;
 }
 
 /** A farm's round in progress. */
@@ -72,6 +74,8 @@ export interface RoundRow {
   last: { takenAt: string; grossL: number | null; usableL: number | null } | null;
   /** Stored (or stored by an earlier try): the entry can no longer change. */
   locked: boolean;
+  /** In the outbox waiting for the network: it cannot change until the server answers. */
+  waiting: boolean;
   /** The entry as it would be sent now; null when there is nothing to send or it is refused here. */
   payload: RoundEntry | null;
   /** Why the entry cannot be sent as it stands (reading or temperature), or null. */
@@ -169,6 +173,7 @@ export function roundRow(tank: Tank, entry: RoundEntryDraft, tile: TankTile | un
   const reading = readingPreview(tank, entry, context.decimalMark);
   const temperature = temperaturePreview(entry, context.decimalMark);
   const locked = entry.result !== null && LOCKED.has(entry.result.status);
+  const waiting = !locked && entry.outboxSeq !== undefined && entry.outboxSeq !== null;
   const fromRound = entry.result?.takenAt ? { takenAt: entry.result.takenAt, grossL: entry.result.grossL ?? null, usableL: entry.result.usableL ?? null } : null;
   const fromBoard = tile?.takenAt ? { takenAt: tile.takenAt, grossL: tile.grossL, usableL: tile.usableL } : null;
   const last = fromRound && (!fromBoard || fromRound.takenAt >= fromBoard.takenAt) ? fromRound : fromBoard;
@@ -177,7 +182,7 @@ export function roundRow(tank: Tank, entry: RoundEntryDraft, tile: TankTile | un
   let payload: RoundEntry | null = null;
   if (reading.state === 'invalid') problem = reading.reason;
   else if (temperature.state === 'invalid') problem = temperature.reason;
-  else if (reading.state === 'ok' && entry.idempotencyKey && (!entry.result || entry.result.status === 'conflict')) {
+  else if (reading.state === 'ok' && !waiting && entry.idempotencyKey && (!entry.result || entry.result.status === 'conflict')) {
     const checked = roundEntrySchema.safeParse({
       tankId: tank.id,
       readingMm: reading.readingMm,
@@ -196,12 +201,13 @@ export function roundRow(tank: Tank, entry: RoundEntryDraft, tile: TankTile | un
     temperature,
     warning: checks.warning,
     // A stored entry has nothing left to answer.
-    questions: locked ? [] : checks.questions,
-    awaitingAnswer: !locked && problem === null && checks.questions.length > 0 && entry.confirmed !== true,
+    questions: locked || waiting ? [] : checks.questions,
+    awaitingAnswer: !locked && !waiting && problem === null && checks.questions.length > 0 && entry.confirmed !== true,
     // A stored entry keeps the field only when it holds a value; an empty locked field says nothing.
     showTemperature: entry.temperature.trim() !== '' || (!locked && (tank.contents === 'culture' || entry.temperatureOpen)),
     last,
     locked,
+    waiting,
     payload,
     problem,
   };

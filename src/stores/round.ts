@@ -4,12 +4,15 @@ import type { Tank, TankTile } from '@shared/schemas';
 import { COLD_CULTURE_C } from '@shared/flags';
 import { decimalMarkOf, type DecimalMark, type UnitSystem } from '@shared/units';
 import { fetchBoard } from '@/api/board';
-import { errorMessage, isApiError } from '@/api/http';
-import { submitRound } from '@/api/readings';
+import { errorMessage } from '@/api/http';
+import { isUnreachable as unreachable } from '@/offline/unreachable';
 import { fetchTanks } from '@/api/tanks';
+import type { OutboxRound } from '@/offline/db';
 import { useFarmsStore, type LoadStatus } from './farms';
+import { applyAnswered } from './round-answers';
 import { blankEntry, LOCKED, newEntryKey, roundRow, type RoundDraft, type RoundEntryDraft, type RoundRow } from './round-entry';
-import { emptySaved, readSaved, STORAGE_PREFIX, type Saved } from './round-saved';
+import { useRoundOutboxStore } from './round-outbox';
+import { emptySaved, keepCopies, readSaved, writeSaved, type SavedRounds } from './round-saved';
 import { roundProgress, summarizeRound, type RoundProgress, type RoundSummary } from './round-summary';
 import { useSessionStore } from './session';
 
@@ -22,13 +25,18 @@ export interface SubmitProblem {
   message: string;
 }
 
+/** What the round says while a sent round waits in the outbox for the network. */
+export const WAITING_MESSAGE = 'No connection: the round waits on this device and goes out by itself when there is signal.';
+
 /**
  * The reading round of one farm: the tanks in walking order, what was typed for each (kept on the
- * device until it is stored), the litres it gives, and sending it with retry-safe idempotency keys.
+ * device in IndexedDB until it is stored), the litres it gives, and sending it through the outbox with
+ * retry-safe idempotency keys.
  */
 export const useRoundStore = defineStore('round', () => {
   const session = useSessionStore();
   const farmsStore = useFarmsStore();
+  const outbox = useRoundOutboxStore();
 
   const farmId = ref<number | null>(null);
   const tanks = shallowRef<Tank[]>([]);
@@ -45,10 +53,12 @@ export const useRoundStore = defineStore('round', () => {
   /** Set when the device refused to keep the round (storage full or blocked). */
   const storageProblem = ref<string | null>(null);
 
-  let saved: Saved = emptySaved();
-  // `saved` is a plain object (it is what goes to localStorage); this counter tells computeds it changed.
+  let saved: SavedRounds = emptySaved(0);
+  // `saved` is a plain object (it is what goes to IndexedDB); this counter tells computeds it changed.
   const savedVersion = ref(0);
   let savedForUser: number | null = null;
+  let savedLoading: Promise<void> | null = null;
+  let writes: Promise<void> = Promise.resolve();
   let loadToken = 0;
 
   const unitSystem = computed<UnitSystem>(() => session.user?.unitSystem ?? 'metric');
@@ -61,14 +71,12 @@ export const useRoundStore = defineStore('round', () => {
     void savedVersion.value;
     return farmsStore.activeFarms.find((f) => f.id === id)?.coldCultureC ?? saved.copies[String(id)]?.coldCultureC ?? COLD_CULTURE_C;
   });
-  const storageKey = computed(() => (session.user ? `${STORAGE_PREFIX}${session.user.id}` : null));
-
   /** Reads this user's saved rounds once per user (another person on the device never sees them). */
-  function ensureSaved(): void {
+  function ensureSaved(): Promise<void> {
     const id = session.user?.id ?? null;
-    if (id === savedForUser) return;
+    if (id === savedForUser) return savedLoading ?? Promise.resolve();
     savedForUser = id;
-    saved = storageKey.value ? readSaved(storageKey.value) : emptySaved();
+    saved = emptySaved(id ?? 0);
     savedVersion.value++;
     farmId.value = null;
     tanks.value = [];
@@ -76,18 +84,52 @@ export const useRoundStore = defineStore('round', () => {
     draft.value = null;
     status.value = 'idle';
     submitProblem.value = null;
+    if (id === null) return (savedLoading = Promise.resolve());
+    savedLoading = readSaved(id).then(
+      (found) => {
+        if (savedForUser !== id) return;
+        saved = found;
+        savedVersion.value++;
+      },
+      (e: unknown) => {
+        storageProblem.value = `This device would not give back its kept rounds (${errorMessage(e)}).`;
+      },
+    );
+    return savedLoading;
   }
 
-  function persist(): void {
-    if (!storageKey.value) return;
+  /** Writes the user's rounds to IndexedDB, one write after another so an older state never lands last. */
+  function persist(): Promise<void> {
+    if (savedForUser === null) return writes;
     if (draft.value) saved.drafts[String(draft.value.farmId)] = draft.value;
     savedVersion.value++;
-    try {
-      localStorage.setItem(storageKey.value, JSON.stringify(saved));
-      storageProblem.value = null;
-    } catch (e) {
-      storageProblem.value = `This device would not keep the round (${errorMessage(e)}). Send it before closing the page.`;
+    const snapshot = JSON.parse(JSON.stringify(saved)) as SavedRounds;
+    writes = writes.then(
+      () =>
+        writeSaved(snapshot).then(
+          () => {
+            storageProblem.value = null;
+          },
+          (e: unknown) => {
+            storageProblem.value = `This device would not keep the round (${errorMessage(e)}). Send it before closing the page.`;
+          },
+        ),
+    );
+    return writes;
+  }
+
+  /** Writes answered outbox rounds into their farms' drafts (the cards show each entry's result). */
+  async function takeAnswers(answered: OutboxRound[]): Promise<void> {
+    await ensureSaved();
+    let changed = false;
+    for (const r of answered) {
+      if (r.userId !== savedForUser) continue;
+      const target = draft.value && draft.value.farmId === r.farmId ? draft.value : saved.drafts[String(r.farmId)];
+      if (target && applyAnswered(target, r)) changed = true;
     }
+    if (!changed) return;
+    if (!waitingRows.value.length && submitProblem.value?.kind === 'network') submitProblem.value = null;
+    await persist();
   }
 
   /** Farms offered: the user's active farms, or (without signal) the farms whose tanks are on the device. */
@@ -112,6 +154,8 @@ export const useRoundStore = defineStore('round', () => {
   const toSend = computed(() => rows.value.filter((r) => r.payload !== null));
   const withProblems = computed(() => rows.value.filter((r) => !r.locked && r.problem !== null));
   const awaitingAnswers = computed(() => rows.value.filter((r) => r.awaitingAnswer));
+  /** Entries of this farm waiting in the outbox. */
+  const waitingRows = computed(() => rows.value.filter((r) => r.waiting));
 
   function draftFor(id: number): RoundDraft {
     const found = saved.drafts[String(id)];
@@ -121,7 +165,7 @@ export const useRoundStore = defineStore('round', () => {
 
   /** Loads farms, picks the remembered one (or the first), and loads its tanks. */
   async function start(): Promise<void> {
-    ensureSaved();
+    await ensureSaved();
     await farmsStore.ensureLoaded();
     const options = farmOptions.value;
     const wanted = farmId.value ?? saved.lastFarmId;
@@ -138,15 +182,16 @@ export const useRoundStore = defineStore('round', () => {
 
   /** Switches to a farm's round (its typed entries come back) and remembers the choice. */
   async function selectFarm(id: number): Promise<void> {
-    ensureSaved();
+    await ensureSaved();
     if (farmId.value !== id || !draft.value) {
       farmId.value = id;
       draft.value = draftFor(id);
       submitProblem.value = null;
     }
     saved.lastFarmId = id;
-    persist();
+    void persist();
     await loadTanks();
+    await writes;
   }
 
   async function loadTanks(): Promise<void> {
@@ -156,28 +201,32 @@ export const useRoundStore = defineStore('round', () => {
     status.value = 'loading';
     error.value = null;
     lastReadingsError.value = null;
-    const [tankResult, boardResult] = await Promise.allSettled([fetchTanks({ farmId: id }), fetchBoard()]);
+    // Every farm's tanks in one request, so the device keeps a copy of each farm for a round without signal.
+    const [tankResult, boardResult] = await Promise.allSettled([fetchTanks(), fetchBoard()]);
     if (token !== loadToken) return;
+    const copy = saved.copies[String(id)];
 
+    let boardTiles: Map<number, TankTile[]> | null = null;
     if (boardResult.status === 'fulfilled') {
-      const farm = boardResult.value.farms.find((f) => f.farmId === id);
-      tiles.value = new Map((farm?.tanks ?? []).map((t) => [t.tankId, t]));
+      boardTiles = new Map(boardResult.value.farms.map((f) => [f.farmId, f.tanks]));
+      tiles.value = new Map((boardTiles.get(id) ?? []).map((t) => [t.tankId, t]));
     } else {
-      tiles.value = new Map();
-      lastReadingsError.value = errorMessage(boardResult.reason);
+      // Without signal the last readings are the ones kept with the tanks.
+      const kept = unreachable(boardResult.reason) ? copy?.tiles : undefined;
+      tiles.value = new Map((kept ?? []).map((t) => [t.tankId, t]));
+      if (!kept) lastReadingsError.value = errorMessage(boardResult.reason);
     }
 
     if (tankResult.status === 'fulfilled') {
-      tanks.value = tankResult.value.filter((t) => t.archivedAt === null);
+      const live = tankResult.value.filter((t) => t.archivedAt === null);
+      tanks.value = live.filter((t) => t.farmId === id);
       copySavedAt.value = null;
-      const name = farmOptions.value.find((f) => f.id === id)?.name ?? saved.copies[String(id)]?.farmName ?? '';
-      saved.copies[String(id)] = { savedAt: new Date().toISOString(), farmName: name, coldCultureC: coldCultureC.value, tanks: tanks.value };
-      persist();
+      keepCopies(saved, live, boardTiles, farmOptions.value.map((f) => f.id), farmsStore.activeFarms);
+      void persist();
       status.value = 'ready';
       return;
     }
-    const copy = saved.copies[String(id)];
-    if (copy && isApiError(tankResult.reason, { status: 0 })) {
+    if (copy && unreachable(tankResult.reason)) {
       tanks.value = copy.tanks;
       copySavedAt.value = copy.savedAt;
       status.value = 'ready';
@@ -194,6 +243,7 @@ export const useRoundStore = defineStore('round', () => {
     const key = String(tankId);
     d.entries[key] ??= blankEntry(tankId, unitSystem.value);
     const entry = d.entries[key];
+    if (entry.outboxSeq !== undefined && entry.outboxSeq !== null) return null;
     return entry.result && LOCKED.has(entry.result.status) ? null : entry;
   }
 
@@ -202,7 +252,7 @@ export const useRoundStore = defineStore('round', () => {
     // The server's refusal (or clash) was about what was there before.
     if (entry.result?.status === 'refused' || entry.result?.status === 'conflict') entry.result = null;
     submitProblem.value = null;
-    persist();
+    void persist();
   }
 
   function setReading(tankId: number, text: string): void {
@@ -256,7 +306,7 @@ export const useRoundStore = defineStore('round', () => {
     return last && last < now ? last : now;
   }
 
-  /** Sends every typed entry not stored yet; a retry sends the same keys and time, so nothing is stored twice. */
+  /** Sends every typed entry not stored yet through the outbox; a resend keeps the keys and time, so nothing is stored twice. */
   async function submit(): Promise<void> {
     const d = draft.value;
     if (submitting.value || !d) return;
@@ -272,39 +322,29 @@ export const useRoundStore = defineStore('round', () => {
       return;
     }
     const sending = toSend.value;
-    if (!sending.length) {
+    if (!sending.length && !waitingRows.value.length) {
       submitProblem.value = { kind: 'invalid', message: 'Type at least one sight-tube reading first.' };
       return;
     }
-    d.takenAt ??= takenAtFor(sending);
-    persist();
     submitting.value = true;
     try {
-      const { results } = await submitRound({ farmId: d.farmId, takenAt: d.takenAt, entries: sending.map((r) => r.payload!) });
-      for (const result of results) {
-        const entry = d.entries[String(result.tankId)];
-        if (!entry) continue;
-        entry.result = {
-          status: result.status,
-          reason: result.reason,
-          takenAt: result.reading?.takenAt,
-          grossL: result.reading?.grossL,
-          usableL: result.reading?.usableL,
-        };
-        // Another reading holds this moment: a new round time (every entry sent has its answer now)
-        // and this entry's answer as its last change, so sending it again stores it at a new time.
-        if (result.status === 'conflict') {
-          d.takenAt = null;
-          entry.editedAt = new Date().toISOString();
-        }
+      if (sending.length) {
+        d.takenAt ??= takenAtFor(sending);
+        const farmName = farmOptions.value.find((f) => f.id === d.farmId)?.name ?? '';
+        const seq = await outbox.add({ farmId: d.farmId, farmName, takenAt: d.takenAt, entries: sending.map((r) => r.payload!) });
+        for (const r of sending) d.entries[String(r.tank.id)].outboxSeq = seq;
+        await persist();
+      }
+      await outbox.flush(true);
+      const stuck = outbox.waiting.find((r) => r.farmId === d.farmId);
+      if (waitingRows.value.length && stuck) {
+        const away = stuck.lastErrorStatus === 0 || stuck.lastErrorStatus === null;
+        submitProblem.value = away ? { kind: 'network', message: WAITING_MESSAGE } : { kind: 'server', message: `${stuck.lastError ?? 'The server did not answer.'} The round waits on this device and is sent again by itself.` };
       }
     } catch (e) {
-      submitProblem.value = isApiError(e, { status: 0 })
-        ? { kind: 'network', message: 'No connection. Your readings are kept on this device; try again when you have signal.' }
-        : { kind: 'server', message: errorMessage(e) };
+      storageProblem.value = `This device would not keep the round (${errorMessage(e)}). Keep the page open and try again.`;
     } finally {
       submitting.value = false;
-      persist();
     }
   }
 
@@ -314,14 +354,15 @@ export const useRoundStore = defineStore('round', () => {
     delete saved.drafts[String(farmId.value)];
     draft.value = { farmId: farmId.value, takenAt: null, entries: {} };
     submitProblem.value = null;
-    persist();
+    void persist();
   }
 
   // A sign-out or a different person on the same device drops what was shown.
   watch(
     () => session.user?.id ?? null,
-    () => ensureSaved(),
+    () => void ensureSaved(),
   );
+  outbox.onAnswered(takeAnswers);
 
   return {
     farmId,
@@ -345,6 +386,7 @@ export const useRoundStore = defineStore('round', () => {
     toSend,
     withProblems,
     awaitingAnswers,
+    waitingRows,
     start,
     selectFarm,
     loadTanks,

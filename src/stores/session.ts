@@ -4,6 +4,8 @@ import type { FirstOwnerInput, ProfileInput, Role, SessionState, SetPasswordInpu
 import * as authApi from '@/api/auth';
 import * as setupApi from '@/api/setup';
 import { registerCsrfSource } from '@/api/http';
+import { keepSessionCopy, readSessionCopy } from '@/offline/session-copy';
+import { isUnreachable } from '@/offline/unreachable';
 import { useFarmsStore } from './farms';
 import { usePeopleStore } from './people';
 
@@ -15,6 +17,8 @@ export const useSessionStore = defineStore('session', () => {
   const loaded = ref(false);
   /** Why the last load failed (server unreachable…), or null. */
   const loadError = ref<string | null>(null);
+  /** Set while the user shown comes from the device's copy (the server could not be reached): when that copy was saved. */
+  const offlineSince = ref<string | null>(null);
   let pending: Promise<void> | null = null;
 
   const isSignedIn = computed(() => user.value !== null);
@@ -31,6 +35,19 @@ export const useSessionStore = defineStore('session', () => {
     csrfToken.value = state.csrfToken;
     loaded.value = true;
     loadError.value = null;
+    offlineSince.value = null;
+    void keepSessionCopy(state.user);
+  }
+
+  /** Without a way to the server, the person last signed in on this device stays signed in (the round works offline). */
+  async function adoptCopy(): Promise<boolean> {
+    const copy = await readSessionCopy();
+    if (!copy) return false;
+    user.value = copy.user;
+    csrfToken.value = '';
+    loaded.value = true;
+    offlineSince.value = copy.savedAt;
+    return true;
   }
 
   /** Fetches the session once; `force` fetches again (after sign-out, or for a fresh CSRF token). */
@@ -40,8 +57,9 @@ export const useSessionStore = defineStore('session', () => {
     pending ??= authApi
       .fetchSession()
       .then(adopt)
-      .catch((error: unknown) => {
+      .catch(async (error: unknown) => {
         loadError.value = error instanceof Error ? error.message : String(error);
+        if (isUnreachable(error) && (user.value !== null || !loaded.value) && (await adoptCopy())) return;
         throw error;
       })
       .finally(() => {
@@ -86,6 +104,8 @@ export const useSessionStore = defineStore('session', () => {
   function clear(): void {
     user.value = null;
     csrfToken.value = '';
+    offlineSince.value = null;
+    void keepSessionCopy(null);
     forgetUserData();
   }
 
@@ -102,5 +122,12 @@ export const useSessionStore = defineStore('session', () => {
 
   registerCsrfSource({ token: () => csrfToken.value, refresh: () => load(true) });
 
-  return { user, csrfToken, loaded, loadError, isSignedIn, role, hasRole, load, signIn, setPassword, createFirstOwner, signOut, clear, updateProfile };
+  // Back online after starting from the device's copy: ask the server who is signed in (and for a form token).
+  if (typeof window !== 'undefined') {
+    window.addEventListener('online', () => {
+      if (offlineSince.value) void load(true).catch(() => undefined);
+    });
+  }
+
+  return { user, csrfToken, loaded, loadError, offlineSince, isSignedIn, role, hasRole, load, signIn, setPassword, createFirstOwner, signOut, clear, updateProfile };
 });

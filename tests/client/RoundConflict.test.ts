@@ -1,7 +1,10 @@
+import 'fake-indexeddb/auto';
 // A round entry the server could not store because another reading of the tank holds the same
 // moment: the round page names the tank, says what to do, and sends it again on the next press.
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
-import { flushPromises } from '@vue/test-utils';
+import Dexie from 'dexie';
+import { closeDeviceDb } from '@/offline/db';
+import { settleDevice } from './support/device';
 import { createPinia, setActivePinia, type Pinia } from 'pinia';
 import * as authApi from '@/api/auth';
 import * as boardApi from '@/api/board';
@@ -32,7 +35,11 @@ const water = makeWaterTank();
 const culture = makeCultureTank();
 let pinia: Pinia;
 
-beforeEach(() => {
+beforeEach(async () => {
+  // The last case's writes land first, so none reaches this case's fresh database.
+  await settleDevice();
+  closeDeviceDb();
+  await Dexie.delete('brimstock');
   vi.clearAllMocks();
   localStorage.clear();
   document.body.innerHTML = '';
@@ -54,11 +61,12 @@ describe('RoundView with a reading that met another at the same moment', () => {
       .mockResolvedValueOnce({ results: [{ tankId: water.id, status: 'stored' }, { tankId: culture.id, status: 'conflict', reason }] })
       .mockResolvedValueOnce({ results: [{ tankId: culture.id, status: 'stored' }] });
     const { wrapper } = await mountWithApp(RoundView, { pinia, path: '/round' });
+    await settleDevice();
     await wrapper.get('[data-testid="round-input-CS-W1"]').setValue('1140');
     await wrapper.get('[data-testid="round-input-CS-C1"]').setValue('600');
 
     await wrapper.get('[data-testid="round-submit"]').trigger('click');
-    await flushPromises();
+    await settleDevice();
 
     expect(wrapper.get('[data-testid="round-result-CS-C1"]').text()).toBe('Not stored');
     expect(wrapper.get('[data-testid="round-error-CS-C1"]').text()).toBe(reason);
@@ -67,7 +75,7 @@ describe('RoundView with a reading that met another at the same moment', () => {
     expect((wrapper.get('[data-testid="round-input-CS-C1"]').element as HTMLInputElement).disabled).toBe(false);
 
     await wrapper.get('[data-testid="round-submit"]').trigger('click');
-    await flushPromises();
+    await settleDevice();
 
     expect(readings.submitRound).toHaveBeenCalledTimes(2);
     expect(readings.submitRound.mock.calls[1]![0].entries.map((e) => e.tankId)).toEqual([culture.id]);

@@ -1,5 +1,8 @@
+import 'fake-indexeddb/auto';
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
-import { flushPromises } from '@vue/test-utils';
+import Dexie from 'dexie';
+import { closeDeviceDb } from '@/offline/db';
+import { settleDevice } from './support/device';
 import { createPinia, setActivePinia, type Pinia } from 'pinia';
 import * as authApi from '@/api/auth';
 import * as boardApi from '@/api/board';
@@ -35,10 +38,16 @@ let pinia: Pinia;
 
 async function mountAs(unitSystem: 'metric' | 'us' = 'metric') {
   auth.fetchSession.mockResolvedValue(sessionOf(makeUser('worker', { unitSystem })));
-  return mountWithApp(RoundView, { pinia, path: '/round' });
+  const mounted = await mountWithApp(RoundView, { pinia, path: '/round' });
+  await settleDevice();
+  return mounted;
 }
 
-beforeEach(() => {
+beforeEach(async () => {
+  // The last case's writes land first, so none reaches this case's fresh database.
+  await settleDevice();
+  closeDeviceDb();
+  await Dexie.delete('brimstock');
   vi.clearAllMocks();
   localStorage.clear();
   document.body.innerHTML = '';
@@ -125,12 +134,12 @@ describe('RoundView', () => {
     await wrapper.get('[data-testid="round-input-CS-C1"]').setValue('600');
 
     await wrapper.get('[data-testid="round-submit"]').trigger('click');
-    await flushPromises();
+    await settleDevice();
     expect(wrapper.get('[data-testid="round-submit-problem"]').text()).toMatch(/No connection/);
     expect((wrapper.get('[data-testid="round-input-CS-W1"]').element as HTMLInputElement).value).toBe('1140');
 
     await wrapper.get('[data-testid="round-retry"]').trigger('click');
-    await flushPromises();
+    await settleDevice();
 
     expect(readings.submitRound).toHaveBeenCalledTimes(2);
     expect(wrapper.get('[data-testid="round-result-CS-W1"]').text()).toBe('Stored');
@@ -165,19 +174,19 @@ describe('RoundView', () => {
     expect(wrapper.get('[data-testid="round-progress"]').text()).toMatch(/0 of 2 tanks ready\s*To answer: CS-W1, CS-C1/);
 
     await wrapper.get('[data-testid="round-submit"]').trigger('click');
-    await flushPromises();
+    await settleDevice();
     expect(readings.submitRound).not.toHaveBeenCalled();
     expect(wrapper.get('[data-testid="round-submit-problem"]').text()).toBe('Answer the question on CS-W1, CS-C1 (or correct the reading) before sending.');
 
     await wrapper.get('#round-101-confirm').setValue(true);
     await wrapper.get('[data-testid="round-submit"]').trigger('click');
-    await flushPromises();
+    await settleDevice();
     expect(readings.submitRound).not.toHaveBeenCalled();
     expect(wrapper.get('[data-testid="round-progress"]').text()).toMatch(/1 of 2 tanks ready\s*To answer: CS-C1$/);
 
     await wrapper.get('#round-102-confirm').setValue(true);
     await wrapper.get('[data-testid="round-submit"]').trigger('click');
-    await flushPromises();
+    await settleDevice();
     expect(readings.submitRound).toHaveBeenCalledTimes(1);
     expect(readings.submitRound.mock.calls[0]![0].entries.map((e) => [e.tankId, e.readingMm, e.temperatureC])).toEqual([
       [water.id, 0, undefined],
@@ -216,7 +225,7 @@ describe('RoundView', () => {
 
     await wrapper.get('[data-testid="round-input-CS-W1"]').setValue('1140');
     await wrapper.get('[data-testid="round-submit"]').trigger('click');
-    await flushPromises();
+    await settleDevice();
 
     expect(live.text()).toBe('Round sent: 1 stored. Round stored.');
     expect(scrolled).toHaveBeenCalledTimes(1);

@@ -1,5 +1,8 @@
+import 'fake-indexeddb/auto';
 import { beforeEach, describe, expect, it, vi } from 'vitest';
+import { settleDevice } from './support/device';
 import { createPinia, setActivePinia } from 'pinia';
+import Dexie from 'dexie';
 import { readingToVolumes } from '@shared/readings';
 import type { RoundEntryResult, RoundSubmitInput } from '@shared/schemas';
 import * as authApi from '@/api/auth';
@@ -8,7 +11,9 @@ import * as farmsApi from '@/api/farms';
 import { ApiError } from '@/api/http';
 import * as readingsApi from '@/api/readings';
 import * as tanksApi from '@/api/tanks';
+import { closeDeviceDb } from '@/offline/db';
 import { setupOf, useRoundStore } from '@/stores/round';
+import { LEGACY_STORAGE_PREFIX } from '@/stores/round-saved';
 import { useSessionStore } from '@/stores/session';
 import { makeFarm, makeUser, sessionOf } from './support/fixtures';
 import { makeBoard, makeCultureTank, makeFarmBoard, makeTile, makeWaterTank } from './support/tanks';
@@ -59,7 +64,7 @@ const stored = (tankId: number, grossL = 1000): RoundEntryResult => ({
 });
 const sent = (call: number): RoundSubmitInput => readings.submitRound.mock.calls[call]![0];
 
-/** A fresh Pinia on the same device (localStorage survives), as after a reload. */
+/** A fresh Pinia on the same device (IndexedDB survives), as after a reload. */
 async function freshStore(unitSystem: 'metric' | 'us' = 'metric') {
   setActivePinia(createPinia());
   auth.fetchSession.mockResolvedValue(sessionOf(makeUser('worker', { unitSystem })));
@@ -69,11 +74,16 @@ async function freshStore(unitSystem: 'metric' | 'us' = 'metric') {
   return round;
 }
 
-beforeEach(() => {
+beforeEach(async () => {
   vi.clearAllMocks();
   localStorage.clear();
+  // The last case's writes land first, so none reaches this case's fresh database.
+  await settleDevice();
+  closeDeviceDb();
+  await Dexie.delete('brimstock');
   farms.fetchFarms.mockResolvedValue([makeFarm(11, 'Creek site'), makeFarm(12, 'Ridge block')]);
-  tanks.fetchTanks.mockImplementation(async ({ farmId } = {}) => (farmId === 11 ? [water, culture] : []));
+  // Every farm's tanks come in one list (both fixtures are on farm 11).
+  tanks.fetchTanks.mockImplementation(async ({ farmId } = {}) => [water, culture].filter((t) => farmId === undefined || t.farmId === farmId));
   board.fetchBoard.mockResolvedValue(
     makeBoard([makeFarmBoard(11, 'Creek site', [makeTile({ tankId: water.id, code: water.code, grossL: 12_000, usableL: 10_800, takenAt: '2026-03-01T07:00:00.000Z' })])]),
   );
@@ -84,7 +94,7 @@ describe('useRoundStore', () => {
     const round = await freshStore();
 
     expect(round.farmId).toBe(11);
-    expect(tanks.fetchTanks).toHaveBeenCalledWith({ farmId: 11 });
+    expect(tanks.fetchTanks).toHaveBeenCalledWith();
     expect(round.rows.map((r) => r.tank.code)).toEqual(['CS-W1', 'CS-C1']);
     expect(round.rows[0]!.last).toEqual({ takenAt: '2026-03-01T07:00:00.000Z', grossL: 12_000, usableL: 10_800 });
     expect(round.rows[1]!.last).toBeNull();
@@ -255,16 +265,47 @@ describe('useRoundStore', () => {
     expect(round.summary.text).toBe('1 already stored');
   });
 
-  it('shows a server error without losing the entries', async () => {
+  it('marks each entry refused with the server’s reason when the whole round is refused, keeping what was typed', async () => {
     readings.submitRound.mockRejectedValueOnce(new ApiError(409, 'farm_archived', 'This farm is archived; restore it before entering readings'));
     const round = await freshStore();
     round.setReading(water.id, '1140');
 
     await round.submit();
 
-    expect(round.submitProblem).toEqual({ kind: 'server', message: 'This farm is archived; restore it before entering readings' });
+    expect(round.rows[0]!.entry.result).toEqual({ status: 'refused', reason: 'This farm is archived; restore it before entering readings' });
     expect(round.rows[0]!.entry.reading).toBe('1140');
-    expect(round.rows[0]!.payload).not.toBeNull();
+    expect(round.rows[0]!.waiting).toBe(false);
+    expect(round.summary.text).toBe('1 refused');
+  });
+
+  it('keeps a sent round waiting while the server is away (503) and sends it with the same keys when it answers', async () => {
+    readings.submitRound.mockRejectedValueOnce(new ApiError(503, 'database_down', 'The database is not reachable right now; try again shortly')).mockResolvedValueOnce({ results: [stored(water.id)] });
+    const round = await freshStore();
+    round.setReading(water.id, '1140');
+
+    await round.submit();
+    expect(round.rows[0]!.waiting).toBe(true);
+    expect(round.submitProblem?.kind).toBe('server');
+    round.setReading(water.id, '999');
+    expect(round.rows[0]!.entry.reading).toBe('1140');
+
+    await round.submit();
+    expect(sent(1)).toEqual(sent(0));
+    expect(round.rows[0]!.locked).toBe(true);
+    expect(round.submitProblem).toBeNull();
+  });
+
+  it('moves a round an earlier version kept in localStorage into the device database once', async () => {
+    const user = makeUser('worker');
+    const draft = { farmId: 11, takenAt: null, entries: { [water.id]: { tankId: water.id, reading: '1140', readingUnit: 'mm', temperature: '', temperatureUnit: 'C', temperatureOpen: false, note: '', idempotencyKey: 'a'.repeat(32), confirmed: false, editedAt: '2026-03-02T09:00:00.000Z', result: null } } };
+    localStorage.setItem(`${LEGACY_STORAGE_PREFIX}${user.id}`, JSON.stringify({ v: 1, lastFarmId: 11, drafts: { 11: draft }, copies: {} }));
+
+    const round = await freshStore();
+    expect(round.rows[0]!.entry).toMatchObject({ reading: '1140', idempotencyKey: 'a'.repeat(32) });
+    expect(localStorage.getItem(`${LEGACY_STORAGE_PREFIX}${user.id}`)).toBeNull();
+
+    const again = await freshStore();
+    expect(again.rows[0]!.entry.reading).toBe('1140');
   });
 
   it('shows the temperature of culture tanks by default and sends it in °C', async () => {
