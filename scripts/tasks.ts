@@ -7,6 +7,7 @@ import { randomBytes } from 'node:crypto';
 import { loadConfig } from '../server/config';
 import { createDatabase, migrate } from '../server/db';
 import { startMailCapture } from '../server/mail/capture';
+import { startFakeWeather } from '../server/weather/fake';
 import { loadDemoScenario } from '../server/services/demo';
 import { startHaproxy } from './lib/haproxy';
 import { ensureDatabase, persistentSecret, startMariaDb } from './lib/mariadb';
@@ -44,13 +45,18 @@ async function prepare() {
   const db = await startMariaDb({ baseDir: config.dataDir, port: config.db.port });
   await ensureDatabase(db.socketPath, config.db);
   const mail = await startMailCapture({ port: config.mail.port, outboxDir: config.outboxDir });
+  // The local stand-in for the forecast service (the demo farm's frost tomorrow night) unless WEATHER_URL
+  // names a real one; it stops with the mail receiver.
+  const weather = process.env.WEATHER_URL ? null : await startFakeWeather({ port: 0 });
+  const closeMail = mail.close;
+  if (weather) mail.close = async () => void (await Promise.all([weather.close(), closeMail()]));
   const database = createDatabase(config);
   const applied = await migrate(database.sequelize);
   if (applied.length) console.log(`Migrations applied: ${applied.join(', ')}`);
   if (config.demo && (await loadDemoScenario(database, { onlyIfEmpty: true }))) console.log('Demo scenario loaded (sign-ins are in README.md).');
   await database.sequelize.close();
   // The server talks to its own MariaDB over the Unix socket: half the cost of TCP per query.
-  const env: NodeJS.ProcessEnv = { ...process.env, SESSION_SECRET: process.env.SESSION_SECRET ?? secret, DB_SOCKET: process.env.DB_SOCKET ?? db.socketPath };
+  const env: NodeJS.ProcessEnv = { ...process.env, SESSION_SECRET: process.env.SESSION_SECRET ?? secret, DB_SOCKET: process.env.DB_SOCKET ?? db.socketPath, ...(weather ? { WEATHER_URL: weather.url } : {}) };
   return { config, db, mail, env };
 }
 

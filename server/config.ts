@@ -43,6 +43,9 @@ const schema = z.object({
   FLAG_DIGEST_HOUR: z.coerce.number().int().min(0).max(23).default(7),
   DEMO: bool.optional(),
   SERVER_RESTARTS: z.coerce.number().int().min(0).max(100).default(5),
+  WEATHER_URL: z.string().url().default('https://api.open-meteo.com'),
+  WEATHER_TIMEOUT_SECONDS: z.coerce.number().positive().max(120).default(10),
+  WEATHER_EVERY_MINUTES: z.coerce.number().positive().max(24 * 60).default(180),
   REDIS_URL: z.string().url().refine((u) => /^rediss?:$/.test(new URL(u).protocol), 'must be a redis:// or rediss:// address').optional(),
   REDIS_PORT: z.coerce.number().int().min(1).max(65535).default(6391),
   SERVERS: z.coerce.number().int().min(1).max(32).default(1),
@@ -100,6 +103,8 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     demo: c.DEMO ?? c.NODE_ENV !== 'production',
     /** How many times `npm start` restarts a server process that died, before it stops everything. */
     serverRestarts: c.SERVER_RESTARTS,
+    /** The hourly forecast service (Open-Meteo's API; npm start and the tests point it at the local fake), its time limit and how often each farm is fetched. */
+    weather: { url: c.WEATHER_URL.replace(/\/$/, ''), timeoutMs: c.WEATHER_TIMEOUT_SECONDS * 1000, everyMs: c.WEATHER_EVERY_MINUTES * 60_000 },
     /** The Redis that several server processes share (bus, job claims, sign-in limits); null: this process alone. */
     redisUrl: c.REDIS_URL || null,
     /** The port of the Redis that `npm start` runs for several server processes. */

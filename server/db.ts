@@ -21,6 +21,7 @@ import * as m0013 from './migrations/0013-email-per-organisation';
 import * as m0014 from './migrations/0014-import-repeats-and-notices';
 import * as m0015 from './migrations/0015-first-owner-setup';
 import * as m0016 from './migrations/0016-order-numbers-currency-close-short';
+import * as m0017 from './migrations/0017-frost-ahead';
 
 /** Migrations in order; add a new numbered file and list it here. */
 const MIGRATIONS = [
@@ -40,6 +41,7 @@ const MIGRATIONS = [
   { name: '0014-import-repeats-and-notices', module: m0014 },
   { name: '0015-first-owner-setup', module: m0015 },
   { name: '0016-order-numbers-currency-close-short', module: m0016 },
+  { name: '0017-frost-ahead', module: m0017 },
 ];
 
 export interface Database {

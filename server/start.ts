@@ -16,6 +16,7 @@ import { attachRealtime } from './realtime';
 import { recoverInterruptedImports } from './services/imports';
 import { openFirstOwnerSetup } from './services/first-owner';
 import { attachFlagRules } from './services/flags';
+import { attachFrostWatch } from './services/frost';
 import { startSessionPurge } from './services/sessions';
 
 export interface RunningServer {
@@ -48,6 +49,7 @@ export async function startServer(config: Config, opts: { staticDir?: string } =
   const http = createServer(app);
   const io = attachRealtime(ctx, http, app.locals.sessionMiddleware);
   const stopFlagRules = attachFlagRules(ctx);
+  const stopFrostWatch = attachFrostWatch(ctx);
   const stopSessionPurge = startSessionPurge(ctx);
   await new Promise<void>((resolve, reject) => {
     http.once('error', reject);
@@ -63,6 +65,7 @@ export async function startServer(config: Config, opts: { staticDir?: string } =
     firstOwnerLink,
     async close() {
       stopFlagRules();
+      stopFrostWatch();
       stopSessionPurge();
       await io.close();
       http.closeAllConnections();

@@ -10,6 +10,9 @@ export class Farm extends Model<InferAttributes<Farm>, InferCreationAttributes<F
   declare staleAfterDays: CreationOptional<number>;
   declare coldCultureC: CreationOptional<number>;
   declare frostRiskC: CreationOptional<number>;
+  declare latitude: CreationOptional<number | null>;
+  declare longitude: CreationOptional<number | null>;
+  declare frostAheadC: CreationOptional<number>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 
@@ -25,6 +28,9 @@ export class Farm extends Model<InferAttributes<Farm>, InferCreationAttributes<F
         staleAfterDays: { type: DataTypes.DOUBLE, allowNull: false, defaultValue: 3 },
         coldCultureC: { type: DataTypes.DOUBLE, allowNull: false, defaultValue: 18 },
         frostRiskC: { type: DataTypes.DOUBLE, allowNull: false, defaultValue: 2 },
+        latitude: { type: DataTypes.DOUBLE, allowNull: true, defaultValue: null },
+        longitude: { type: DataTypes.DOUBLE, allowNull: true, defaultValue: null },
+        frostAheadC: { type: DataTypes.DOUBLE, allowNull: false, defaultValue: 2 },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },

@@ -18,6 +18,7 @@ export class Tank extends Model<InferAttributes<Tank>, InferCreationAttributes<T
   declare specificGravity: number;
   declare sensorHeightMm: number | null;
   declare walkOrder: number;
+  declare exposedToFrost: CreationOptional<boolean>;
   declare calibrationVersion: string;
   declare archivedAt: Date | null;
   declare createdAt: CreationOptional<Date>;
@@ -41,6 +42,7 @@ export class Tank extends Model<InferAttributes<Tank>, InferCreationAttributes<T
         specificGravity: { type: DataTypes.DOUBLE, allowNull: false },
         sensorHeightMm: { type: DataTypes.DOUBLE, allowNull: true },
         walkOrder: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
+        exposedToFrost: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
         calibrationVersion: { type: DataTypes.STRING(32), allowNull: false },
         archivedAt: { type: DataTypes.DATE, allowNull: true },
         createdAt: DataTypes.DATE,

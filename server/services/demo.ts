@@ -2,6 +2,7 @@
 import { readFileSync } from 'node:fs';
 import { resolve } from 'node:path';
 import { calibrationVersion, type TankGeometry } from '@shared/calibration';
+import { defaultExposedToFrost } from '@shared/flags';
 import type { InputCategory, Role, TankContents } from '@shared/schemas';
 import type { Database } from '../db';
 import { hashPassword } from './passwords';
@@ -13,7 +14,7 @@ import { QUIET_HOURS } from './forecasts';
 
 interface Scenario {
   organisation: { name: string; code: string; currency: string };
-  farms: { key: string; name: string; timeZone: string; location: string }[];
+  farms: { key: string; name: string; timeZone: string; location: string; latitude?: number; longitude?: number }[];
   people: { email: string; name: string; role: Role; password: string; farms: string[] }[];
   tanks: {
     farm: string;
@@ -193,7 +194,7 @@ export async function loadDemoScenario(db: Database, opts: { onlyIfEmpty?: boole
     const org = await Organisation.create({ name: scenario.organisation.name, code: scenario.organisation.code, currency: scenario.organisation.currency }, { transaction });
     const farmIds = new Map<string, number>();
     for (const f of scenario.farms) {
-      const farm = await Farm.create({ organisationId: org.id, name: f.name, timeZone: f.timeZone, location: f.location, archivedAt: null }, { transaction });
+      const farm = await Farm.create({ organisationId: org.id, name: f.name, timeZone: f.timeZone, location: f.location, latitude: f.latitude ?? null, longitude: f.longitude ?? null, archivedAt: null }, { transaction });
       farmIds.set(f.key, farm.id);
     }
     for (const [i, p] of scenario.people.entries()) {
@@ -217,7 +218,7 @@ export async function loadDemoScenario(db: Database, opts: { onlyIfEmpty?: boole
     const timeZoneOf = (id: number) => zones.get(id) ?? 'UTC';
     for (const { farm, ...t } of scenario.tanks) {
       const version = calibrationVersion(t.geometry, t.datumOffsetMm);
-      const tank = await Tank.create({ ...t, organisationId: org.id, farmId: farmIds.get(farm)!, sensorHeightMm: null, calibrationVersion: version, archivedAt: null }, { transaction });
+      const tank = await Tank.create({ ...t, organisationId: org.id, farmId: farmIds.get(farm)!, exposedToFrost: defaultExposedToFrost(t.contents), sensorHeightMm: null, calibrationVersion: version, archivedAt: null }, { transaction });
       // Measured when the tank was set up, before any of its readings (the tank page dates the calibration).
       await TankCalibration.create({ organisationId: org.id, tankId: tank.id, version, geometry: t.geometry, datumOffsetMm: t.datumOffsetMm, createdAt: since }, { transaction });
       await TankContentsPeriod.create({ organisationId: org.id, tankId: tank.id, contents: t.contents, contentsNote: t.contentsNote, specificGravity: t.specificGravity, fromAt: since, toAt: null, changedById: null }, { transaction });

@@ -13,6 +13,9 @@ export const toFarmDto = (f: Farm): FarmDto => ({
   staleAfterDays: f.staleAfterDays,
   coldCultureC: f.coldCultureC,
   frostRiskC: f.frostRiskC,
+  latitude: f.latitude ?? null,
+  longitude: f.longitude ?? null,
+  frostAheadC: f.frostAheadC,
 });
 
 /** Farms the actor may see, by name; archived ones only when asked. */

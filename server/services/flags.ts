@@ -16,7 +16,7 @@ import { mailRaisedFlags, sendFlagDigests } from './flag-mail';
  * the conditions that hold now; active flags of other kinds are left as they are. Returns true when
  * anything changed. New flags go into `raised`.
  */
-async function reconcile(ctx: AppContext, subject: { organisationId: number; farmId: number; type: 'tank' | 'input'; id: number }, kinds: readonly FlagKind[], holding: FlagCondition[], raised: Flag[]): Promise<boolean> {
+export async function reconcile(ctx: AppContext, subject: { organisationId: number; farmId: number; type: 'tank' | 'input'; id: number }, kinds: readonly FlagKind[], holding: FlagCondition[], raised: Flag[]): Promise<boolean> {
   const { Flag } = ctx.db.models;
   const now = new Date();
   const active = await Flag.findAll({ where: { subjectType: subject.type, subjectId: subject.id, activeKey: 1, kind: [...kinds] } });

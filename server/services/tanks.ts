@@ -2,6 +2,7 @@
 // versions and the calibration table are in tank-calibrations.ts).
 import type { Transaction } from 'sequelize';
 import { calibrationVersion, capacityL, heightMm } from '@shared/calibration';
+import { defaultExposedToFrost } from '@shared/flags';
 import type { SessionUser, Tank as TankDto, TankContentsPeriod as PeriodDto, TankCreateInput, TankUpdateInput } from '@shared/schemas';
 import type { AppContext } from '../context';
 import { AppError, forbidden, notFound } from '../errors';
@@ -24,6 +25,7 @@ export function toTankDto(t: Tank): TankDto {
     specificGravity: t.specificGravity,
     sensorHeightMm: t.sensorHeightMm,
     walkOrder: t.walkOrder,
+    exposedToFrost: Boolean(t.exposedToFrost),
     calibrationVersion: t.calibrationVersion,
     heightMm: heightMm(t.geometry),
     capacityL: capacityL(t.geometry),
@@ -74,6 +76,7 @@ export async function createTank(ctx: AppContext, actor: SessionUser, input: Tan
     const t = await Tank.create(
       {
         ...input,
+        exposedToFrost: input.exposedToFrost ?? defaultExposedToFrost(input.contents),
         organisationId: actor.organisationId,
         safeFillLevelMm: input.safeFillLevelMm ?? heightMm(input.geometry),
         calibrationVersion: calibrationVersion(input.geometry, input.datumOffsetMm),

@@ -2,7 +2,7 @@
 // Short plain sentences; each caution ends by deferring to local codes, the label or licensed practice.
 
 /** The kinds of caution the product shows. */
-export const CAUTION_TOPICS = ['confined-space', 'electrical', 'backflow', 'pest-solution', 'pest-control-storage'] as const;
+export const CAUTION_TOPICS = ['confined-space', 'electrical', 'backflow', 'pest-solution', 'pest-control-storage', 'frost'] as const;
 /** A kind of caution. */
 export type CautionTopic = (typeof CAUTION_TOPICS)[number];
 
@@ -35,6 +35,12 @@ export const CAUTION_SENTENCES: Readonly<Record<CautionTopic, readonly string[]>
     'Wear the protective equipment the product label lists.',
     'Follow the label and your local rules.',
   ],
+  frost: [
+    'Before the frost, drain exposed lines, hoses and pumps, or cover and lag them.',
+    'Cover small tanks, or keep them warm with a heater made for the job.',
+    'Check that heaters run on a circuit with residual-current protection (RCD or GFCI) and that it trips when tested.',
+    'Follow local practice and your local electrical code.',
+  ],
 };
 
 /** A short heading for each caution. */
@@ -44,6 +50,7 @@ export const CAUTION_TITLES: Readonly<Record<CautionTopic, string>> = {
   backflow: 'Backflow',
   'pest-solution': 'Pest solution',
   'pest-control-storage': 'Pest-control products',
+  frost: 'Frost on the way',
 };
 
 /** The caution of a topic as one paragraph. */

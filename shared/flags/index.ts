@@ -35,6 +35,7 @@ export const FLAG_LABELS: Record<FlagKind, string> = {
   'stale-tank': 'Not read lately',
   'cold-culture': 'Culture too cold',
   'frost-risk': 'Frost risk',
+  'frost-ahead': 'Frost forecast',
   overfill: 'Above the fill line',
 };
 
@@ -56,6 +57,7 @@ export const FLAG_CAUTION_SENTENCES: Record<FlagKind, readonly string[]> = {
     'Switch pumps off at their residual-current protected supply before you drain them.',
     'Follow your local codes.',
   ],
+  'frost-ahead': CAUTION_SENTENCES.frost,
   overfill: [
     'Stop filling.',
     'If the tank holds fertilizer or pest solution, nothing may flow back into the water supply.',
@@ -129,3 +131,5 @@ export function tankFlagConditions(t: TankFlagInput): FlagCondition[] {
   if (worst) out.push({ kind: 'suspected-leak', value: worst.rateLPerHour, message: `${t.name} lost ${n(worst.lossL, 0)} L during quiet hours (${n(worst.rateLPerHour)} L/h) with no draw planned` });
   return out;
 }
+
+export { FROST_AHEAD_C, FROST_AHEAD_HOURS, defaultExposedToFrost, frostAheadMessage, frostAheadOf, watchedForFrost } from './frost-ahead';

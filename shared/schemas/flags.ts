@@ -2,7 +2,7 @@ import { z } from 'zod';
 import { idSchema } from './common';
 
 /** Kinds of flag, in our own words: things that need a person. */
-export const FLAG_KINDS = ['low-stock', 'reorder-due', 'suspected-leak', 'stale-tank', 'cold-culture', 'frost-risk', 'overfill'] as const;
+export const FLAG_KINDS = ['low-stock', 'reorder-due', 'suspected-leak', 'stale-tank', 'cold-culture', 'frost-risk', 'frost-ahead', 'overfill'] as const;
 /** A flag kind. */
 export type FlagKind = (typeof FLAG_KINDS)[number];
 

@@ -14,3 +14,4 @@ export * from './flags';
 export * from './brews';
 export * from './outbox';
 export * from './organisation';
+export * from './weather';

@@ -27,6 +27,8 @@ const tankFields = z.object({
   /** Ultrasonic logger: height of the sensor face above the tank floor. */
   sensorHeightMm: mmField('Sensor height').nullable().default(null),
   walkOrder: z.number().int().min(0).max(10_000).default(0),
+  /** Frost ahead flags this tank (its lines stand outdoors); left out on a new tank, water and fertilizer are, the rest not. */
+  exposedToFrost: z.boolean({ error: 'must be true or false' }).optional(),
 });
 
 function checkHeights(t: { geometry?: TankGeometry; outletHeightMm?: number; safeFillLevelMm?: number; sensorHeightMm?: number | null }, ctx: z.RefinementCtx) {
@@ -62,6 +64,7 @@ export interface Tank {
   specificGravity: number;
   sensorHeightMm: number | null;
   walkOrder: number;
+  exposedToFrost: boolean;
   calibrationVersion: string;
   heightMm: number;
   capacityL: number;

@@ -64,6 +64,7 @@ const tank: Tank = {
   specificGravity: 1,
   sensorHeightMm: 1400,
   walkOrder: 1,
+  exposedToFrost: true,
   calibrationVersion: 'v1',
   heightMm: 1200,
   capacityL: 1357,

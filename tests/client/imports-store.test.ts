@@ -64,6 +64,7 @@ function makeTank(id: number, farmId: number, overrides: Partial<Tank> = {}): Ta
     specificGravity: 1,
     sensorHeightMm: null,
     walkOrder: 1,
+    exposedToFrost: true,
     calibrationVersion: 'v1',
     heightMm: 1000,
     capacityL: 1000,

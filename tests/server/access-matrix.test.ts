@@ -80,6 +80,7 @@ const ROWS: Row[] = [
   { route: 'GET /api/farms', url: () => '/api/farms', expect: signedInOnly(200) },
   { route: 'GET /api/farms/:id', url: (w, s) => `/api/farms/${farm(w, s)}`, expect: farmRead(200) },
   { route: 'GET /api/farms/:id/labels.pdf', url: (w, s) => `/api/farms/${farm(w, s)}/labels.pdf`, expect: farmRead(200) },
+  { route: 'GET /api/farms/:id/frost', url: (w, s) => `/api/farms/${farm(w, s)}/frost`, expect: farmRead(200) },
   { route: 'POST /api/farms', url: () => '/api/farms', body: () => ({ name: `New farm ${++seq}`, timeZone: 'Europe/Dublin' }), expect: managersOnly(201) },
   { route: 'PATCH /api/farms/:id', url: (w, s) => `/api/farms/${farm(w, s)}`, body: () => ({ location: 'checked by the matrix' }), expect: managersOnly({ own: 200, 'other-farm': 200, 'other-org': 404 }) },
   { route: 'GET /api/people', url: () => '/api/people', expect: ownerOnly(200) },

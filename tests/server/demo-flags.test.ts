@@ -3,7 +3,7 @@
 // rules of thumb (18 °C cold culture, 2 °C frost, quiet hours 23:00–05:00): common practice, no
 // published source.
 import { randomUUID } from 'node:crypto';
-import { describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { FLAG_KINDS } from '@shared/schemas';
 import { useTestApp } from '../support/db';
 import { call, signedIn } from '../support/fixtures';
@@ -12,8 +12,13 @@ import { evaluateInputFlags, evaluateTankFlags } from '../../server/services/fla
 import { sendFlagDigests } from '../../server/services/flag-mail';
 import { readOutbox } from '../../server/mail/outbox';
 import { waitForMail } from '../support/mail';
+import { startFakeWeather } from '../../server/weather/fake';
+import { checkAllFarmsFrost } from '../../server/services/frost';
 
-const env = useTestApp();
+// The fake forecast service answers with the demo's frost tomorrow night.
+const weather = await startFakeWeather({ port: 0 });
+const env = useTestApp({ WEATHER_URL: weather.url });
+afterAll(() => weather.close());
 const scenario = readScenario();
 const person = (role: string) => scenario.people.find((p) => p.role === role)!;
 
@@ -24,6 +29,7 @@ describe('flags of the demo scenario', () => {
     const farms = await env.ctx.db.models.Farm.findAll({ where: { organisationId: org.id } });
     await evaluateTankFlags(env.ctx, org.id, farms.map((f) => f.id));
     await evaluateInputFlags(env.ctx, org.id, farms.map((f) => f.id));
+    await checkAllFarmsFrost(env.ctx);
 
     const manager = await signedIn(env, person('manager').email, person('manager').password);
     const flags = (await manager.get('/api/flags').expect(200)).body as { id: number; kind: string; subjectName: string; message: string }[];
@@ -38,6 +44,8 @@ describe('flags of the demo scenario', () => {
     expect(rate).toBeGreaterThan(15);
     expect(rate).toBeLessThan(120);
     expect(bySubject('overfill')).toEqual(['Orchard cistern (SO-W1)']);
+    // Hollin Ridge is the one located farm: its water tank and both cultures; the pest-solution tank stands indoors.
+    expect(bySubject('frost-ahead').sort()).toEqual(['Culture cone A (HR-C1)', 'Culture cone B (HR-C2)', 'Ridge water tank (HR-W1)'].sort());
     expect(bySubject('stale-tank')).toEqual(['Ball tank by the gate (SO-W2)']);
     expect(bySubject('reorder-due')).toContain('Blackstrap molasses');
     expect(bySubject('low-stock').length).toBeGreaterThan(0);

@@ -11,6 +11,7 @@ import { startServerProcess } from '../../scripts/lib/server-process';
 import { loadConfig } from '../../server/config';
 import { createDatabase, migrate } from '../../server/db';
 import { startMailCapture } from '../../server/mail/capture';
+import { startFakeWeather } from '../../server/weather/fake';
 import { loadDemoScenario } from '../../server/services/demo';
 
 declare module 'vitest' {
@@ -32,6 +33,8 @@ export default async function setup(project: TestProject) {
   const db = await startMariaDb({ baseDir: dataDir, port: await freePort() });
   const port = process.env.PORT && process.env.E2E_USE_PORT ? Number(process.env.PORT) : await freePort();
   const smtpPort = await freePort();
+  // The fake forecast service with the demo farm's frost tomorrow night.
+  const weather = await startFakeWeather({ port: 0 });
   const env: Record<string, string> = {
     ...(process.env as Record<string, string>),
     NODE_ENV: 'test',
@@ -44,6 +47,7 @@ export default async function setup(project: TestProject) {
     SMTP_PORT: String(smtpPort),
     LOG_LEVEL: 'warn',
     SESSION_SECRET: 'e2e-secret-e2e-secret-e2e-secret',
+    WEATHER_URL: weather.url,
   };
   const config = loadConfig(env);
   await ensureDatabase(db.socketPath, config.db);
@@ -60,6 +64,7 @@ export default async function setup(project: TestProject) {
     server.kill('SIGTERM');
     await new Promise((r) => (server.exitCode === null ? server.once('exit', r) : r(null)));
     await mail.close();
+    await weather.close();
     await db.stop();
     rmSync(dataDir, { recursive: true, force: true });
   };

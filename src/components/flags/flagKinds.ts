@@ -21,6 +21,7 @@ export const FLAG_KIND_LOOKS: Readonly<Record<FlagKind, FlagKindLook>> = {
   'stale-tank': { icon: 'pi pi-clock', label: FLAG_LABELS['stale-tank'], meaning: 'No reading for longer than the farm allows.' },
   'cold-culture': { icon: 'pi pi-moon', label: FLAG_LABELS['cold-culture'], meaning: 'Too cold for the culture to stay active.' },
   'frost-risk': { icon: 'pi pi-asterisk', label: FLAG_LABELS['frost-risk'], meaning: 'Cold enough to freeze lines and pumps.' },
+  'frost-ahead': { icon: 'pi pi-cloud', label: FLAG_LABELS['frost-ahead'], meaning: 'The weather forecast shows a frost in the next two days.' },
   overfill: { icon: 'pi pi-arrow-circle-up', label: FLAG_LABELS.overfill, meaning: 'Filled above its safe fill line.' },
 };
 

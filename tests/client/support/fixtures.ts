@@ -23,7 +23,7 @@ export function sessionOf(user: SessionUser | null, csrfToken = 'token-anon-0001
 }
 
 export function makeFarm(id: number, name: string, overrides: Partial<Farm> = {}): Farm {
-  return { id, name, timeZone: 'Europe/Lisbon', location: 'Lower valley', archivedAt: null, staleAfterDays: 3, coldCultureC: 18, frostRiskC: 2, ...overrides };
+  return { id, name, timeZone: 'Europe/Lisbon', location: 'Lower valley', archivedAt: null, staleAfterDays: 3, coldCultureC: 18, frostRiskC: 2, latitude: null, longitude: null, frostAheadC: 2, ...overrides };
 }
 
 export function makePerson(id: number, name: string, role: Role, overrides: Partial<Person> = {}): Person {

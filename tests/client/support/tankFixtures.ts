@@ -24,6 +24,7 @@ export function makeTank(id: number, overrides: Partial<Tank> = {}): Tank {
     specificGravity: 1,
     sensorHeightMm: null,
     walkOrder: id,
+    exposedToFrost: true,
     calibrationVersion: calibrationVersion(geometry, datumOffsetMm),
     heightMm: heightMm(geometry),
     capacityL: capacityL(geometry),
