@@ -7,6 +7,7 @@ import { randomBytes } from 'node:crypto';
 import { loadConfig } from '../server/config';
 import { createDatabase, migrate } from '../server/db';
 import { startMailCapture } from '../server/mail/capture';
+import { startSmsFakeFor } from '../server/sms/fake';
 import { startFakeWeather } from '../server/weather/fake';
 import { loadDemoScenario } from '../server/services/demo';
 import { startHaproxy } from './lib/haproxy';
@@ -44,7 +45,10 @@ async function prepare() {
   console.log(`Data folder: ${config.dataDir}`);
   const db = await startMariaDb({ baseDir: config.dataDir, port: config.db.port });
   await ensureDatabase(db.socketPath, config.db);
-  const mail = await startMailCapture({ port: config.mail.port, outboxDir: config.outboxDir });
+  const mailCapture = await startMailCapture({ port: config.mail.port, outboxDir: config.outboxDir });
+  // The SMS fake closes with the mail receiver, so every path that stops one stops both.
+  const smsFake = await startSmsFakeFor(config);
+  const mail = { close: () => Promise.all([mailCapture.close(), smsFake.close()]).then(() => undefined) };
   // The local stand-in for the forecast service (the demo farm's frost tomorrow night) unless WEATHER_URL
   // names a real one; it stops with the mail receiver.
   const weather = process.env.WEATHER_URL ? null : await startFakeWeather({ port: 0 });

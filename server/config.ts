@@ -41,6 +41,13 @@ const schema = z.object({
   RESET_TTL_HOURS: z.coerce.number().positive().default(2),
   UPLOAD_MAX_MB: z.coerce.number().positive().max(1024).default(200),
   FLAG_DIGEST_HOUR: z.coerce.number().int().min(0).max(23).default(7),
+  SMS_ACCOUNT_SID: z.string().regex(/^AC[0-9a-fA-F]{32}$/, 'an account id: AC and 32 hex digits').optional(),
+  SMS_AUTH_TOKEN: z.string().min(8).optional(),
+  SMS_FROM: z.string().regex(/^\+[1-9][0-9]{6,14}$/, 'an E.164 number such as +61491570110').default('+61491570110'),
+  SMS_API_URL: z.string().url().optional(),
+  SMS_DAILY_CAP: z.coerce.number().int().min(1).max(1000).default(10),
+  SMS_MAX_ATTEMPTS: z.coerce.number().int().min(1).max(20).default(5),
+  SMS_RETRY_SECONDS: z.coerce.number().positive().default(60),
   DEMO: bool.optional(),
   SERVER_RESTARTS: z.coerce.number().int().min(0).max(100).default(5),
   WEATHER_URL: z.string().url().default('https://api.open-meteo.com'),
@@ -53,6 +60,25 @@ const schema = z.object({
 });
 
 export type Config = ReturnType<typeof loadConfig>;
+
+// Outside production the texts go to the local fake of the SMS service (server/sms/fake.ts) with made-up credentials.
+const DEV_SMS = { accountSid: `AC${'0'.repeat(31)}1`, authToken: 'development-only-sms-token', apiUrl: 'http://127.0.0.1:2526' };
+
+function smsSettings(c: z.infer<typeof schema>) {
+  const dev = c.NODE_ENV !== 'production';
+  const accountSid = c.SMS_ACCOUNT_SID ?? (dev ? DEV_SMS.accountSid : null);
+  const authToken = c.SMS_AUTH_TOKEN ?? (dev ? DEV_SMS.authToken : null);
+  return {
+    /** Null when texts cannot be sent (production without SMS_ACCOUNT_SID and SMS_AUTH_TOKEN). */
+    credentials: accountSid && authToken ? { accountSid, authToken } : null,
+    from: c.SMS_FROM,
+    /** Base URL of the SMS service's API; null: the SDK's own host. */
+    apiUrl: c.SMS_API_URL ?? (dev ? DEV_SMS.apiUrl : null),
+    dailyCap: c.SMS_DAILY_CAP,
+    maxAttempts: c.SMS_MAX_ATTEMPTS,
+    retryMs: c.SMS_RETRY_SECONDS * 1000,
+  };
+}
 
 /** Parses the environment once; throws with every bad key named. */
 export function loadConfig(env: Record<string, string | undefined> = process.env) {
@@ -99,6 +125,7 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     tokenTtlMs: { invite: c.INVITE_TTL_HOURS * 3_600_000, reset: c.RESET_TTL_HOURS * 3_600_000 },
     uploadMaxBytes: Math.round(c.UPLOAD_MAX_MB * 1024 * 1024),
     flagDigestHour: c.FLAG_DIGEST_HOUR,
+    sms: smsSettings(c),
     /** Load the invented demo scenario into an empty database: development and test, or when asked. */
     demo: c.DEMO ?? c.NODE_ENV !== 'production',
     /** How many times `npm start` restarts a server process that died, before it stops everything. */

@@ -22,6 +22,7 @@ import * as m0014 from './migrations/0014-import-repeats-and-notices';
 import * as m0015 from './migrations/0015-first-owner-setup';
 import * as m0016 from './migrations/0016-order-numbers-currency-close-short';
 import * as m0017 from './migrations/0017-frost-ahead';
+import * as m0018 from './migrations/0018-text-messages';
 
 /** Migrations in order; add a new numbered file and list it here. */
 const MIGRATIONS = [
@@ -42,6 +43,7 @@ const MIGRATIONS = [
   { name: '0015-first-owner-setup', module: m0015 },
   { name: '0016-order-numbers-currency-close-short', module: m0016 },
   { name: '0017-frost-ahead', module: m0017 },
+  { name: '0018-text-messages', module: m0018 },
 ];
 
 export interface Database {

@@ -12,10 +12,12 @@ import { createDatabase, migrate } from './db';
 import { settleDeferred } from './deferred';
 import { createLogger } from './logger';
 import { createMailer } from './mail/mailer';
+import { createTextSender } from './sms/sender';
 import { attachRealtime } from './realtime';
 import { recoverInterruptedImports } from './services/imports';
 import { openFirstOwnerSetup } from './services/first-owner';
 import { attachFlagRules } from './services/flags';
+import { attachTextQueue } from './services/flag-texts';
 import { attachFrostWatch } from './services/frost';
 import { startSessionPurge } from './services/sessions';
 
@@ -31,7 +33,7 @@ export interface RunningServer {
 
 export function createContext(config: Config): AppContext {
   const logger = createLogger(config);
-  return { config, logger, db: createDatabase(config), mailer: createMailer(config), events: new EventEmitter() };
+  return { config, logger, db: createDatabase(config), mailer: createMailer(config), texts: createTextSender(config), events: new EventEmitter() };
 }
 
 /** Migrates, opens the first-owner set-up of an empty database, builds the app and listens on config.host:config.port (0 picks a free port). */
@@ -49,6 +51,7 @@ export async function startServer(config: Config, opts: { staticDir?: string } =
   const http = createServer(app);
   const io = attachRealtime(ctx, http, app.locals.sessionMiddleware);
   const stopFlagRules = attachFlagRules(ctx);
+  const stopTextQueue = attachTextQueue(ctx);
   const stopFrostWatch = attachFrostWatch(ctx);
   const stopSessionPurge = startSessionPurge(ctx);
   await new Promise<void>((resolve, reject) => {
@@ -65,6 +68,7 @@ export async function startServer(config: Config, opts: { staticDir?: string } =
     firstOwnerLink,
     async close() {
       stopFlagRules();
+      stopTextQueue();
       stopFrostWatch();
       stopSessionPurge();
       await io.close();

@@ -13,15 +13,16 @@ import { Flag } from './flag';
 import { Brew, BrewTemperature } from './brew';
 import { SetupToken } from './setup-token';
 import { FarmForecast } from './farm-forecast';
+import { FlagText } from './flag-text';
 
-export { Organisation, User, Farm, FarmAccess, Session, AuthToken, Tank, TankCalibration, TankContentsPeriod, Reading, TankLatest, TankDay, LoggerImport, LoggerImportRejection, TankImportMapping, Supplier, Input, StockMovement, PurchaseOrder, PurchaseOrderLine, Flag, Brew, BrewTemperature, SetupToken, FarmForecast };
+export { Organisation, User, Farm, FarmAccess, Session, AuthToken, Tank, TankCalibration, TankContentsPeriod, Reading, TankLatest, TankDay, LoggerImport, LoggerImportRejection, TankImportMapping, Supplier, Input, StockMovement, PurchaseOrder, PurchaseOrderLine, Flag, Brew, BrewTemperature, SetupToken, FarmForecast, FlagText };
 
 /** Every model, initialised on one Sequelize instance. */
 export function initModels(sequelize: Sequelize) {
-  for (const m of [Organisation, User, Farm, FarmAccess, Session, AuthToken, Tank, TankCalibration, TankContentsPeriod, Reading, TankLatest, TankDay, LoggerImport, LoggerImportRejection, TankImportMapping, Supplier, Input, StockMovement, PurchaseOrder, PurchaseOrderLine, Flag, Brew, BrewTemperature, SetupToken, FarmForecast]) m.initModel(sequelize);
+  for (const m of [Organisation, User, Farm, FarmAccess, Session, AuthToken, Tank, TankCalibration, TankContentsPeriod, Reading, TankLatest, TankDay, LoggerImport, LoggerImportRejection, TankImportMapping, Supplier, Input, StockMovement, PurchaseOrder, PurchaseOrderLine, Flag, Brew, BrewTemperature, SetupToken, FarmForecast, FlagText]) m.initModel(sequelize);
   User.belongsTo(Organisation, { foreignKey: 'organisationId' });
   User.hasMany(FarmAccess, { foreignKey: 'userId', as: 'farmAccess' });
   Farm.belongsTo(Organisation, { foreignKey: 'organisationId' });
-  return { Organisation, User, Farm, FarmAccess, Session, AuthToken, Tank, TankCalibration, TankContentsPeriod, Reading, TankLatest, TankDay, LoggerImport, LoggerImportRejection, TankImportMapping, Supplier, Input, StockMovement, PurchaseOrder, PurchaseOrderLine, Flag, Brew, BrewTemperature, SetupToken, FarmForecast };
+  return { Organisation, User, Farm, FarmAccess, Session, AuthToken, Tank, TankCalibration, TankContentsPeriod, Reading, TankLatest, TankDay, LoggerImport, LoggerImportRejection, TankImportMapping, Supplier, Input, StockMovement, PurchaseOrder, PurchaseOrderLine, Flag, Brew, BrewTemperature, SetupToken, FarmForecast, FlagText };
 }
 export type Models = ReturnType<typeof initModels>;

@@ -14,6 +14,12 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
   declare lastSignInAt: Date | null;
   declare flagMail: CreationOptional<'immediate' | 'digest' | 'off'>;
   declare lastDigestAt: CreationOptional<Date | null>;
+  /** Mobile number in E.164 (+447700900123), or null (migration 0018). */
+  declare phone: CreationOptional<string | null>;
+  declare flagTexts: CreationOptional<'immediate' | 'digest' | 'off'>;
+  /** When a STOP reply from the number turned texts off (null: not since the number was set). */
+  declare textsStoppedAt: CreationOptional<Date | null>;
+  declare lastTextDigestAt: CreationOptional<Date | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 
@@ -31,6 +37,10 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
         lastSignInAt: { type: DataTypes.DATE, allowNull: true },
         flagMail: { type: DataTypes.ENUM('immediate', 'digest', 'off'), allowNull: false, defaultValue: 'digest' },
         lastDigestAt: { type: DataTypes.DATE, allowNull: true },
+        phone: { type: DataTypes.STRING(16), allowNull: true },
+        flagTexts: { type: DataTypes.ENUM('immediate', 'digest', 'off'), allowNull: false, defaultValue: 'off' },
+        textsStoppedAt: { type: DataTypes.DATE, allowNull: true },
+        lastTextDigestAt: { type: DataTypes.DATE, allowNull: true },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },

@@ -5,6 +5,7 @@ import type { AppContext } from '../context';
 import { actorOf, requireSignIn } from '../middleware/access';
 import { describeToken, endSession, requestPasswordReset, sessionUserFor, setPasswordWithToken, verifySignIn } from '../services/auth';
 import { updateProfile } from '../services/profile';
+import { textFailuresOf } from '../services/flag-text-replies';
 import { parse } from '../validate';
 import { authLimits } from '../middleware/rate-limits';
 import type { CsrfTools } from '../middleware/security';
@@ -53,6 +54,10 @@ export function authRouter(ctx: AppContext, csrf: CsrfTools) {
   router.patch('/me', requireSignIn, async (req, res) => {
     const actor = actorOf(req);
     res.json(await updateProfile(ctx, actor, parse(profileSchema, req.body)));
+  });
+
+  router.get('/me/text-failures', requireSignIn, async (req, res) => {
+    res.json({ failures: await textFailuresOf(ctx, actorOf(req)) });
   });
 
   router.post('/password-reset', perIp, async (req, res) => {

@@ -31,6 +31,9 @@ export async function sessionUserFor(ctx: AppContext, userId: number): Promise<S
     currency: org?.currency ?? 'EUR',
     unitSystem: user.unitSystem,
     flagMail: user.flagMail,
+    phone: user.phone,
+    flagTexts: user.flagTexts,
+    textsStoppedAt: user.textsStoppedAt?.toISOString() ?? null,
     farmIds: farmIds.sort((a, b) => a - b),
   };
 }

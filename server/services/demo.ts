@@ -15,7 +15,7 @@ import { QUIET_HOURS } from './forecasts';
 interface Scenario {
   organisation: { name: string; code: string; currency: string };
   farms: { key: string; name: string; timeZone: string; location: string; latitude?: number; longitude?: number }[];
-  people: { email: string; name: string; role: Role; password: string; farms: string[] }[];
+  people: { email: string; name: string; role: Role; password: string; farms: string[]; phone?: string; flagTexts?: 'immediate' | 'digest' }[];
   tanks: {
     farm: string;
     code: string;
@@ -199,7 +199,7 @@ export async function loadDemoScenario(db: Database, opts: { onlyIfEmpty?: boole
     }
     for (const [i, p] of scenario.people.entries()) {
       const user = await User.create(
-        { organisationId: org.id, email: p.email, name: p.name, role: p.role, passwordHash: hashes[i], lastSignInAt: null },
+        { organisationId: org.id, email: p.email, name: p.name, role: p.role, passwordHash: hashes[i], lastSignInAt: null, phone: p.phone ?? null, flagTexts: p.flagTexts ?? 'off' },
         { transaction },
       );
       for (const key of p.farms) {

@@ -10,6 +10,7 @@ import type { Flag, Tank } from '../models';
 import { computeForecast } from './forecasts';
 import { listInputs } from './inventory';
 import { mailRaisedFlags, sendFlagDigests } from './flag-mail';
+import { queueRaisedFlagTexts } from './flag-texts';
 
 /**
  * Brings one subject's active flags of `kinds` (the kinds what is known now can decide) in line with
@@ -115,6 +116,7 @@ export async function evaluateTankFlags(ctx: AppContext, organisationId: number,
     }
   }
   await mailRaisedFlags(ctx, organisationId, raised);
+  await queueRaisedFlagTexts(ctx, organisationId, raised);
   return [...changedFarms];
 }
 
@@ -132,6 +134,7 @@ export async function evaluateInputFlags(ctx: AppContext, organisationId: number
     }
   }
   await mailRaisedFlags(ctx, organisationId, raised);
+  await queueRaisedFlagTexts(ctx, organisationId, raised);
   return [...changed];
 }
 

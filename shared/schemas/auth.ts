@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { UNIT_SYSTEMS, type Role, type UnitSystem } from './common';
+import { mobilePhoneSchema } from './phone';
 
 /** Minimum password length the product accepts. */
 export const PASSWORD_MIN_LENGTH = 8;
@@ -56,8 +57,11 @@ export const profileSchema = z
     name: z.string().trim().min(1, 'Required').max(120),
     unitSystem: z.enum(UNIT_SYSTEMS),
     flagMail: z.enum(FLAG_MAIL_CHOICES),
+    phone: mobilePhoneSchema,
+    flagTexts: z.enum(FLAG_MAIL_CHOICES),
   })
-  .partial();
+  .partial()
+  .refine((p) => p.phone !== null || !p.flagTexts || p.flagTexts === 'off', { message: 'Texts need a mobile number', path: ['phone'] });
 export type ProfileInput = z.infer<typeof profileSchema>;
 
 /** The signed-in user as the API returns it. */
@@ -74,8 +78,26 @@ export interface SessionUser {
   currency: string;
   unitSystem: UnitSystem;
   flagMail: FlagMailChoice;
+  /** Mobile number in E.164, or null. */
+  phone: string | null;
+  /** How flags reach this person by text: the same choices as by mail. */
+  flagTexts: FlagMailChoice;
+  /** ISO 8601 instant a STOP reply from the number turned texts off, or null. */
+  textsStoppedAt: string | null;
   /** Farms this user may see (all of the organisation's for owners and managers). */
   farmIds: number[];
+}
+
+/** A text about flags that could not be delivered after every attempt (GET /api/auth/me/text-failures). */
+export interface TextFailure {
+  id: number;
+  to: string;
+  body: string;
+  attempts: number;
+  /** The service's last refusal, in its words. */
+  reason: string;
+  /** ISO 8601 instant of the last attempt. */
+  at: string;
 }
 
 /** GET /api/auth/session: who is signed in (or null) and the CSRF token for writes. */

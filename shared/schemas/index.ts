@@ -1,5 +1,6 @@
 export * from './common';
 export * from './auth';
+export * from './phone';
 export * from './people';
 export * from './farms';
 export * from './tanks';

@@ -34,7 +34,21 @@ export const OUTBOX_KINDS_BY_ROLE = {
   worker: [],
 } as const satisfies Record<Role, readonly MailKind[]>;
 
-/** GET /api/dev/outbox: the captured mails the caller may read, newest first. */
+/** A flag text the development SMS fake received, with the person it was for. */
+export interface OutboxText {
+  /** The message id the fake answered with. */
+  id: string;
+  to: string;
+  /** Name of the person the text was for. */
+  toName: string;
+  from: string;
+  body: string;
+  /** ISO 8601 instant the fake received it. */
+  date: string;
+}
+
+/** GET /api/dev/outbox: the captured mails and texts the caller may read, newest first (texts are flag texts: for roles that read flag mail). */
 export interface OutboxList {
   messages: OutboxMessage[];
+  texts: OutboxText[];
 }

@@ -1,4 +1,4 @@
-import type { ProfileInput, SessionState, SessionUser, SetPasswordInput, SignInInput, TokenInfo } from '@shared/schemas';
+import type { ProfileInput, SessionState, SessionUser, SetPasswordInput, SignInInput, TextFailure, TokenInfo } from '@shared/schemas';
 import { http } from './http';
 
 /** Who is signed in (or null) and the CSRF token for writes. */
@@ -19,6 +19,11 @@ export function signOut(): Promise<void> {
 /** Saves the signed-in user's own name and unit system. */
 export function updateProfile(input: ProfileInput): Promise<SessionUser> {
   return http.patch<SessionUser>('/api/auth/me', input);
+}
+
+/** The signed-in person's flag texts of the last 7 days that failed after every attempt, newest first. */
+export async function fetchTextFailures(): Promise<TextFailure[]> {
+  return (await http.get<{ failures: TextFailure[] }>('/api/auth/me/text-failures')).failures;
 }
 
 /** Asks for a reset link; the server answers the same whether the address exists or not. */

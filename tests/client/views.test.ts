@@ -23,10 +23,11 @@ vi.mock('@/api/auth', () => ({
   setPassword: vi.fn(),
   requestPasswordReset: vi.fn(),
   fetchTokenInfo: vi.fn(),
+  fetchTextFailures: vi.fn(async () => []),
 }));
 vi.mock('@/api/farms', () => ({ fetchFarms: vi.fn(), fetchFarm: vi.fn(), createFarm: vi.fn(), updateFarm: vi.fn() }));
 vi.mock('@/api/people', () => ({ fetchPeople: vi.fn(), invitePerson: vi.fn(), resendInvitation: vi.fn(), updatePerson: vi.fn() }));
-vi.mock('@/api/outbox', async (original) => ({ ...(await original<typeof import('@/api/outbox')>()), fetchOutbox: vi.fn(), clearOutbox: vi.fn() }));
+vi.mock('@/api/outbox', async (original) => ({ ...(await original<typeof import('@/api/outbox')>()), fetchOutboxList: vi.fn(), clearOutbox: vi.fn() }));
 
 const auth = vi.mocked(authApi);
 const farms = vi.mocked(farmsApi);
@@ -117,7 +118,7 @@ describe('OutboxView', () => {
   });
 
   it('lists mails newest first with clickable links', async () => {
-    outbox.fetchOutbox.mockResolvedValue([
+    outbox.fetchOutboxList.mockResolvedValue({ texts: [], messages: [
       {
         id: 'a',
         to: 'orders@millrace.test',
@@ -140,7 +141,7 @@ describe('OutboxView', () => {
         html: '',
         attachments: [],
       },
-    ]);
+    ] });
     const { wrapper } = await mountWithApp(OutboxView, { pinia, path: '/outbox' });
 
     const items = wrapper.findAll('[data-testid="outbox-message"]');
@@ -154,8 +155,22 @@ describe('OutboxView', () => {
     expect(file.text()).toBe('TB-26-001.csv');
   });
 
+  it('lists texts beside the mails with the person they went to and a link to the tank', async () => {
+    outbox.fetchOutboxList.mockResolvedValue({
+      messages: [],
+      texts: [{ id: 'SM1', to: '+61491570156', toName: 'Marek Danso', from: '+61491570110', body: 'Brimstock Culture too cold, North: cone 12 °C http://127.0.0.1:5180/tanks/4', date: '2026-03-02T09:00:00.000Z' }],
+    });
+    const { wrapper } = await mountWithApp(OutboxView, { pinia, path: '/outbox' });
+
+    const text = wrapper.get('[data-testid="outbox-text"]');
+    expect(text.text()).toContain('Marek Danso');
+    expect(text.text()).toContain('+61491570156');
+    expect(text.get('[data-testid="outbox-link"]').attributes('href')).toBe('http://127.0.0.1:5180/tanks/4');
+    expect(wrapper.find('[data-testid="empty-state"]').exists()).toBe(false);
+  });
+
   it('says the outbox is not enabled when the API answers 404', async () => {
-    outbox.fetchOutbox.mockRejectedValue(new ApiError(404, 'not_found', 'Not found'));
+    outbox.fetchOutboxList.mockRejectedValue(new ApiError(404, 'not_found', 'Not found'));
     const { wrapper } = await mountWithApp(OutboxView, { pinia, path: '/outbox' });
 
     expect(wrapper.get('[data-testid="outbox-disabled"]').text()).toContain('not enabled');
@@ -163,7 +178,7 @@ describe('OutboxView', () => {
   });
 
   it('shows other failures with a retry', async () => {
-    outbox.fetchOutbox.mockRejectedValueOnce(new ApiError(0, 'network', 'Cannot reach the server.')).mockResolvedValueOnce([]);
+    outbox.fetchOutboxList.mockRejectedValueOnce(new ApiError(0, 'network', 'Cannot reach the server.')).mockResolvedValueOnce({ messages: [], texts: [] });
     const { wrapper } = await mountWithApp(OutboxView, { pinia, path: '/outbox' });
 
     expect(wrapper.get('[data-testid="load-error"]').text()).toContain('Cannot reach the server.');
@@ -236,7 +251,25 @@ describe('ProfileView', () => {
     await wrapper.get('form').trigger('submit');
     await flushPromises();
 
-    expect(auth.updateProfile).toHaveBeenCalledWith({ name: 'Priya Nand', unitSystem: 'us', flagMail: 'digest' });
+    expect(auth.updateProfile).toHaveBeenCalledWith({ name: 'Priya Nand', unitSystem: 'us', flagMail: 'digest', phone: null, flagTexts: 'off' });
+  });
+
+  it('sends a typed mobile number in E.164 with texts on, and refuses texts without a number under the number field', async () => {
+    auth.fetchSession.mockResolvedValue(sessionOf(makeUser('manager')));
+    auth.updateProfile.mockResolvedValue(makeUser('manager', { phone: '+61491570156', flagTexts: 'immediate' }));
+    const { wrapper } = await mountWithApp(ProfileView, { pinia, path: '/profile' });
+    const eachFlag = () => wrapper.findAll('[data-testid="profile-flagtexts"] button').find((b) => b.text().includes('Each new flag'))!;
+
+    await eachFlag().trigger('click');
+    await wrapper.get('form').trigger('submit');
+    await flushPromises();
+    expect(auth.updateProfile).not.toHaveBeenCalled();
+    expect(wrapper.text()).toContain('Texts need a mobile number');
+
+    await wrapper.get('[data-testid="profile-phone"]').setValue('+61 491 570 156');
+    await wrapper.get('form').trigger('submit');
+    await flushPromises();
+    expect(auth.updateProfile).toHaveBeenCalledWith(expect.objectContaining({ phone: '+61491570156', flagTexts: 'immediate' }));
   });
 });
 

@@ -58,6 +58,10 @@ const ROWS: Row[] = [
   { route: 'GET /api/auth/session', url: () => '/api/auth/session', expect: same(200) },
   { route: 'GET /api/auth/me', url: () => '/api/auth/me', expect: signedInOnly(200) },
   { route: 'PATCH /api/auth/me', url: () => '/api/auth/me', body: () => ({ unitSystem: 'metric' }), expect: signedInOnly(200) },
+  { route: 'GET /api/auth/me/text-failures', url: () => '/api/auth/me/text-failures', expect: signedInOnly(200) },
+  // The SMS service's webhooks take no session: without the service's signature everyone is refused.
+  { route: 'POST /api/texts/inbound', url: () => '/api/texts/inbound', body: () => ({ From: '+61491570156', Body: 'STOP' }), expect: same(403) },
+  { route: 'POST /api/texts/status', url: () => '/api/texts/status', body: () => ({ MessageSid: 'SM0', MessageStatus: 'failed' }), expect: same(403) },
   {
     route: 'POST /api/auth/sign-in',
     url: () => '/api/auth/sign-in',

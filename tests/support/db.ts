@@ -15,12 +15,16 @@ import { settleDeferred } from '../../server/deferred';
 import { createLogger } from '../../server/logger';
 import { createMailer } from '../../server/mail/mailer';
 import { startMailCapture } from '../../server/mail/capture';
+import { startSmsFake, type SmsFake } from '../../server/sms/fake';
+import { createTextSender } from '../../server/sms/sender';
 import { freePort } from '../../scripts/lib/ports';
 
 export interface TestEnv {
   ctx: AppContext;
   app: ReturnType<typeof createApp>;
   config: Config;
+  /** The file's fake of the SMS service (its texts land in config.outboxDir). */
+  sms: SmsFake;
 }
 
 export function testConfig(overrides: Record<string, string> = {}): Config {
@@ -49,11 +53,13 @@ export function useTestApp(overrides: Record<string, string> = {}): TestEnv {
     await admin.end();
     dataDir = mkdtempSync(join(tmpdir(), 'brimstock-file-'));
     const smtpPort = await freePort();
-    const config = testConfig({ DB_NAME: name, DATA_DIR: dataDir, SMTP_PORT: String(smtpPort), ...overrides });
+    const smsPort = await freePort();
+    const config = testConfig({ DB_NAME: name, DATA_DIR: dataDir, SMTP_PORT: String(smtpPort), SMS_API_URL: `http://127.0.0.1:${smsPort}`, ...overrides });
     closeMail = (await startMailCapture({ port: smtpPort, outboxDir: config.outboxDir })).close;
+    env.sms = await startSmsFake({ port: smsPort, outboxDir: config.outboxDir, ...config.sms.credentials!, inboundUrl: `${config.publicUrl}/api/texts/inbound` });
     const db = createDatabase(config);
     await migrate(db.sequelize);
-    const ctx: AppContext = { config, db, logger: createLogger(config), mailer: createMailer(config), events: new EventEmitter() };
+    const ctx: AppContext = { config, db, logger: createLogger(config), mailer: createMailer(config), texts: createTextSender(config), events: new EventEmitter() };
     Object.assign(env, { ctx, config, app: createApp(ctx, { staticDir: join(dataDir, 'no-client') }) });
   });
   afterAll(async () => {
@@ -61,6 +67,7 @@ export function useTestApp(overrides: Record<string, string> = {}): TestEnv {
     env.ctx?.mailer.close();
     await env.ctx?.db.sequelize.close();
     await closeMail?.();
+    await env.sms?.close();
     if (dataDir) rmSync(dataDir, { recursive: true, force: true });
   });
   return env;

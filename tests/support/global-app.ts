@@ -11,6 +11,7 @@ import { startServerProcess } from '../../scripts/lib/server-process';
 import { loadConfig } from '../../server/config';
 import { createDatabase, migrate } from '../../server/db';
 import { startMailCapture } from '../../server/mail/capture';
+import { startSmsFakeFor } from '../../server/sms/fake';
 import { startFakeWeather } from '../../server/weather/fake';
 import { loadDemoScenario } from '../../server/services/demo';
 
@@ -45,6 +46,7 @@ export default async function setup(project: TestProject) {
     DB_SOCKET: db.socketPath,
     DB_NAME: 'brimstock_e2e',
     SMTP_PORT: String(smtpPort),
+    SMS_API_URL: `http://127.0.0.1:${await freePort()}`,
     LOG_LEVEL: 'warn',
     SESSION_SECRET: 'e2e-secret-e2e-secret-e2e-secret',
     WEATHER_URL: weather.url,
@@ -52,6 +54,7 @@ export default async function setup(project: TestProject) {
   const config = loadConfig(env);
   await ensureDatabase(db.socketPath, config.db);
   const mail = await startMailCapture({ port: smtpPort, outboxDir: config.outboxDir });
+  const sms = await startSmsFakeFor(config);
   const database = createDatabase(config);
   await migrate(database.sequelize);
   await loadDemoScenario(database);
@@ -64,6 +67,7 @@ export default async function setup(project: TestProject) {
     server.kill('SIGTERM');
     await new Promise((r) => (server.exitCode === null ? server.once('exit', r) : r(null)));
     await mail.close();
+    await sms.close();
     await weather.close();
     await db.stop();
     rmSync(dataDir, { recursive: true, force: true });

@@ -13,6 +13,9 @@ export function makeUser(role: Role, overrides: Partial<SessionUser> = {}): Sess
     currency: 'EUR',
     unitSystem: 'metric',
     flagMail: 'digest',
+    phone: null,
+    flagTexts: 'off',
+    textsStoppedAt: null,
     farmIds: [11, 12],
     ...overrides,
   };
