@@ -11,6 +11,7 @@ import { AppError, notFound } from '../errors';
 import { assertFarmAccess } from './access';
 import type { Reading, Tank } from '../models';
 import { insertReadings, type NewReading } from './readings-insert';
+import { calibrationsAt } from './tank-calibrations';
 import { tankFor } from './tanks';
 
 export { insertReadings, type NewReading } from './readings-insert';
@@ -67,6 +68,8 @@ export async function submitRound(ctx: AppContext, actor: SessionUser, input: Ro
   const tanks = new Map((await Tank.findAll({ where: { farmId: farm.id, organisationId: actor.organisationId } })).map((t) => [t.id, t]));
   const keys = input.entries.map((e) => e.idempotencyKey);
   const earlier = new Map((await Reading.findAll({ where: { idempotencyKey: keys, enteredById: actor.id } })).map((r) => [r.idempotencyKey!, r]));
+  // A round typed without signal may arrive after the tank was changed: it is worked out with the calibration of its own time.
+  const calibrations = await calibrationsAt(ctx, [...tanks.values()], takenAt);
 
   const results: RoundEntryResult[] = [];
   const rows: NewReading[] = [];
@@ -101,7 +104,8 @@ export async function submitRound(ctx: AppContext, actor: SessionUser, input: Ro
       results.push({ tankId: e.tankId, status: 'refused', reason: `${tankLabel(tank)}: this entry's key is used by another entry of the round` });
       continue;
     }
-    const v = readingToVolumes(tankSetupOf(tank), { kind: 'sight-tube', readingMm: e.readingMm } satisfies ReadingInput);
+    const calibration = calibrations.get(tank.id)!;
+    const v = readingToVolumes(calibration.setup, { kind: 'sight-tube', readingMm: e.readingMm } satisfies ReadingInput);
     if (!v.ok) {
       results.push({ tankId: e.tankId, status: 'refused', reason: v.reason });
       continue;
@@ -110,7 +114,7 @@ export async function submitRound(ctx: AppContext, actor: SessionUser, input: Ro
     seenKeys.add(e.idempotencyKey);
     rows.push({
       organisationId: actor.organisationId, farmId: farm.id, tankId: tank.id, takenAt, source: 'round', levelMm: v.levelMm, grossL: v.grossL, usableL: v.usableL,
-      temperatureC: e.temperatureC ?? null, calibrationVersion: tank.calibrationVersion, enteredById: actor.id, importId: null, note: e.note, idempotencyKey: e.idempotencyKey,
+      temperatureC: e.temperatureC ?? null, calibrationVersion: calibration.version, enteredById: actor.id, importId: null, note: e.note, idempotencyKey: e.idempotencyKey,
     });
     const result: RoundEntryResult = { tankId: e.tankId, status: 'stored' };
     results.push(result);

@@ -1,6 +1,7 @@
 // A tank's calibrations, numbered 1, 2, 3… in the order they were made, and its calibration table
 // by sight-tube reading. Readings keep the key of the calibration they were stored with.
 import { buildTubeReadingTable, heightMm, MAX_TABLE_ROWS } from '@shared/calibration';
+import { tankSetupOf, type TankSetup } from '@shared/readings';
 import type { CalibrationTableDto, SessionUser, TankCalibrationVersion } from '@shared/schemas';
 import { convert } from '@shared/units';
 import type { AppContext } from '../context';
@@ -60,4 +61,23 @@ export async function calibrationTable(ctx: AppContext, actor: SessionUser, id: 
     datumOffset: convert(tank.datumOffsetMm, 'mm', lengthUnit),
     rows: rows.map((r) => ({ reading: convert(r.readingMm, 'mm', lengthUnit), level: convert(r.levelMm, 'mm', lengthUnit), volume: convert(r.volumeL, 'L', volumeUnit) })),
   };
+}
+
+/**
+ * The calibration each tank had at `at`: its current one, unless that was made after `at` (a round typed
+ * without signal and sent after someone changed the tank), then the newest one made at or before `at`.
+ */
+export async function calibrationsAt(ctx: AppContext, tanks: Tank[], at: Date): Promise<Map<number, { setup: TankSetup; version: string }>> {
+  const rows = tanks.length ? await ctx.db.models.TankCalibration.findAll({ where: { tankId: tanks.map((t) => t.id) }, order: [['createdAt', 'ASC'], ['id', 'ASC']] }) : [];
+  const out = new Map<number, { setup: TankSetup; version: string }>();
+  for (const tank of tanks) {
+    const own = rows.filter((r) => r.tankId === tank.id);
+    const current = own.find((r) => r.version === tank.calibrationVersion);
+    const then = current && current.createdAt > at ? own.filter((r) => r.createdAt <= at).at(-1) : undefined;
+    out.set(
+      tank.id,
+      then ? { setup: { ...tankSetupOf(tank), geometry: then.geometry, datumOffsetMm: then.datumOffsetMm }, version: then.version } : { setup: tankSetupOf(tank), version: tank.calibrationVersion },
+    );
+  }
+  return out;
 }

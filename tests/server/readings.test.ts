@@ -41,6 +41,24 @@ describe('POST /api/rounds', () => {
     expect(await env.ctx.db.models.Reading.count({ where: { tankId: a.id } })).toBe(1);
   });
 
+  it('works out a round taken before the tank\'s calibration changed with the calibration of its own time, and a later one with the new', async () => {
+    const { org, a, worker } = await setup();
+    const before = await env.ctx.db.models.TankCalibration.findOne({ where: { tankId: a.id } });
+    // Made two hours ago (Sequelize never writes createdAt on update, so straight SQL).
+    await env.ctx.db.sequelize.query('UPDATE tank_calibrations SET createdAt = ? WHERE id = ?', { replacements: [new Date(Date.now() - 2 * 3_600_000), before!.id] });
+    const manager = await signedIn(env, org.users.manager.email);
+    await call(manager, 'patch', `/api/tanks/${a.id}`, { datumOffsetMm: 120 }).expect(200);
+
+    // Typed an hour ago without signal (datum 20 mm then), sent now: tube 480 mm + 20 mm = level 500 mm.
+    const late = await call(worker, 'post', '/api/rounds', { farmId: org.farmIds[0], takenAt: new Date(Date.now() - 3_600_000).toISOString(), entries: [{ tankId: a.id, readingMm: 480, idempotencyKey: key() }] }).expect(201);
+    expect(late.body.results[0].reading).toMatchObject({ levelMm: 500, calibrationVersion: before!.version });
+    expect(late.body.results[0].reading.grossL).toBeCloseTo(500 * L_PER_MM, 6);
+    // Taken now, after the change: 480 mm + 120 mm = 600 mm with the new calibration.
+    const now = await call(worker, 'post', '/api/rounds', { farmId: org.farmIds[0], entries: [{ tankId: a.id, readingMm: 480, idempotencyKey: key() }] }).expect(201);
+    expect(now.body.results[0].reading.levelMm).toBe(600);
+    expect(now.body.results[0].reading.calibrationVersion).not.toBe(before!.version);
+  });
+
   it('refuses a reading above the top of the tank with a reason and stores the rest', async () => {
     const { org, a, b, worker } = await setup();
     const res = await call(worker, 'post', '/api/rounds', { farmId: org.farmIds[0], entries: [{ tankId: a.id, readingMm: 1600, idempotencyKey: key() }, { tankId: b.id, readingMm: 300, idempotencyKey: key() }] }).expect(201);
