@@ -2,7 +2,9 @@
 // change of stock or a culture outside its safe range raise before the round sends, and the counter.
 // Limits: 50 % of the last stock and cultures safe from 18 °C to 40 °C (common practice, no published
 // source; shared/readings/checks.ts).
+import 'fake-indexeddb/auto';
 import { beforeEach, describe, expect, it, vi } from 'vitest';
+import Dexie from 'dexie';
 import { createPinia, setActivePinia } from 'pinia';
 import type { RoundSubmitInput } from '@shared/schemas';
 import * as authApi from '@/api/auth';
@@ -10,8 +12,10 @@ import * as boardApi from '@/api/board';
 import * as farmsApi from '@/api/farms';
 import * as readingsApi from '@/api/readings';
 import * as tanksApi from '@/api/tanks';
+import { closeDeviceDb } from '@/offline/db';
 import { useRoundStore } from '@/stores/round';
 import { useSessionStore } from '@/stores/session';
+import { settleDevice } from './support/device';
 import { makeFarm, makeUser, sessionOf } from './support/fixtures';
 import { makeBoard, makeCultureTank, makeFarmBoard, makeTile, makeWaterTank } from './support/tanks';
 
@@ -43,7 +47,11 @@ async function freshStore(unitSystem: 'metric' | 'us' = 'metric') {
   return round;
 }
 
-beforeEach(() => {
+beforeEach(async () => {
+  // The last case's writes land first, so none reaches this case's fresh database.
+  await settleDevice();
+  closeDeviceDb();
+  await Dexie.delete('brimstock');
   vi.clearAllMocks();
   localStorage.clear();
   vi.mocked(farmsApi).fetchFarms.mockResolvedValue([makeFarm(11, 'Creek site')]);
@@ -143,6 +151,7 @@ describe('round questions before sending', () => {
     const first = await freshStore();
     first.setReading(water.id, '0');
     first.confirmEntry(water.id, true);
+    await settleDevice();
 
     const again = await freshStore();
     expect(again.rows[0]!.entry.confirmed).toBe(true);
