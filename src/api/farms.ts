@@ -1,4 +1,4 @@
-import type { Farm, FarmCreateInput, FarmUpdateInput } from '@shared/schemas';
+import type { Farm, FarmCreateInput, FarmFrost, FarmUpdateInput } from '@shared/schemas';
 import type { UnitSystem } from '@shared/units';
 import { http } from './http';
 
@@ -25,4 +25,9 @@ export function updateFarm(farmId: number, input: FarmUpdateInput): Promise<Farm
 /** The address of the sheet of labels for every active tank of a farm (PDF, A4 or Letter). */
 export function farmLabelsUrl(farmId: number, options: { unit: UnitSystem; paper: 'a4' | 'letter' }): string {
   return `/api/farms/${farmId}/labels.pdf?${new URLSearchParams({ unit: options.unit, paper: options.paper })}`;
+}
+
+/** The farm's stored 48-hour air forecast, its frost threshold and whether the forecast is old. */
+export function fetchFarmFrost(farmId: number): Promise<FarmFrost> {
+  return http.get<FarmFrost>(`/api/farms/${farmId}/frost`);
 }

@@ -26,7 +26,7 @@ vi.mock('@/api/tanks', () => ({
   tankLabelUrl: vi.fn(),
 }));
 vi.mock('@/api/board', () => ({ fetchBoard: vi.fn(), fetchBoardHistory: vi.fn() }));
-vi.mock('@/api/farms', () => ({ fetchFarms: vi.fn(), fetchFarm: vi.fn(), createFarm: vi.fn(), updateFarm: vi.fn(), farmLabelsUrl: vi.fn() }));
+vi.mock('@/api/farms', () => ({ fetchFarms: vi.fn(), fetchFarm: vi.fn(), createFarm: vi.fn(), updateFarm: vi.fn(), farmLabelsUrl: vi.fn(), fetchFarmFrost: vi.fn() }));
 
 const auth = vi.mocked(authApi);
 const board = vi.mocked(boardApi);
@@ -40,6 +40,7 @@ beforeEach(() => {
   pinia = createPinia();
   setActivePinia(pinia);
   farms.fetchFarms.mockResolvedValue([makeFarm(11, 'Creek site')]);
+  farms.fetchFarmFrost.mockResolvedValue({ farmId: 11, located: false, thresholdC: 2, fetchedAt: null, stale: false, problem: null, triedAt: null, hours: [], frost: null });
   board.fetchBoard.mockResolvedValue(boardOf([]));
 });
 

@@ -1,5 +1,6 @@
 // The tank editor's form state, in the user's units, and its conversion to the API's mm and litres.
 import type { HorizontalEnds, TankShape } from '@shared/calibration';
+import { defaultExposedToFrost } from '@shared/flags';
 import type { Tank, TankContents, TankUpdateInput } from '@shared/schemas';
 import { convert, displayUnits, type UnitSystem } from '@shared/units';
 import { SHAPE_SPECS, SIZE_FIELDS, type SizeField } from './tankShapes';
@@ -29,6 +30,8 @@ export interface TankForm {
   lowStock: number | null;
   specificGravity: number | null;
   sensorHeight: number | null;
+  /** A frost forecast flags the tank (its lines stand outdoors). */
+  exposedToFrost: boolean;
 }
 
 /** Decimals the editor shows and keeps: about a hundredth of a millimetre in inches, a tenth in mm. */
@@ -76,6 +79,7 @@ export function emptyForm(): TankForm {
     lowStock: 0,
     specificGravity: 1,
     sensorHeight: null,
+    exposedToFrost: defaultExposedToFrost('water'),
   };
 }
 
@@ -107,6 +111,7 @@ export function formFromTank(tank: Tank, system: UnitSystem): TankForm {
   form.lowStock = vol(tank.lowStockL);
   form.specificGravity = tank.specificGravity;
   form.sensorHeight = tank.sensorHeightMm === null ? null : len(tank.sensorHeightMm);
+  form.exposedToFrost = tank.exposedToFrost;
   return form;
 }
 
@@ -149,6 +154,7 @@ export function inputFromForm(form: TankForm, system: UnitSystem, extra: { farmI
     lowStockL: toLitres(form.lowStock, system),
     specificGravity: form.specificGravity ?? undefined,
     sensorHeightMm: form.sensorHeight === null ? null : toMm(form.sensorHeight, system),
+    exposedToFrost: form.exposedToFrost,
   };
 }
 
@@ -175,6 +181,7 @@ export function changedFields(initial: TankForm, current: TankForm): Set<keyof T
     ['lowStock', 'lowStockL'],
     ['specificGravity', 'specificGravity'],
     ['sensorHeight', 'sensorHeightMm'],
+    ['exposedToFrost', 'exposedToFrost'],
   ];
   for (const [formKey, apiKey] of simple) {
     const a = initial[formKey];
