@@ -54,7 +54,7 @@ describe('useFormErrors', () => {
 
     const data = form.validate(farmCreateSchema, { name: ' Creek site ', timeZone: 'Europe/Lisbon' });
 
-    expect(data).toEqual({ name: 'Creek site', timeZone: 'Europe/Lisbon', location: '', staleAfterDays: 3, coldCultureC: 18, frostRiskC: 2 });
+    expect(data).toEqual({ name: 'Creek site', timeZone: 'Europe/Lisbon', location: '', staleAfterDays: 3, coldCultureC: 18, frostRiskC: 2, latitude: null, longitude: null, frostAheadC: 2 });
     expect(form.errors.value).toEqual({});
   });
 
