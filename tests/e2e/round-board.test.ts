@@ -104,10 +104,11 @@ describe('round and live stock board', () => {
     expect(Date.now() - storedAt).toBeLessThan(1000);
     expect(reloads).toBe(0);
     expect(sockets).toHaveLength(1);
-    // It came as a delta of Hollin Ridge alone, carrying only tiles of the round's four tanks.
+    // It came as a delta whose Hollin Ridge part carries only tiles of the round's four tanks (a background
+    // job such as the frost forecast may change another farm in the same 100 ms window and share the delta).
     const withRound = deltas.find((d) => d.farms.some((f) => f.tanks.some((t) => t.code === 'HR-W1')))!;
-    expect(withRound.farms).toHaveLength(1);
-    expect(withRound.farms[0].tanks.map((t) => t.code).every((c) => ['HR-W1', 'HR-P1', 'HR-C1', 'HR-C2'].includes(c))).toBe(true);
+    const hollin = withRound.farms.find((f) => f.tanks.some((t) => t.code === 'HR-W1'))!;
+    expect(hollin.tanks.map((t) => t.code).every((c) => ['HR-W1', 'HR-P1', 'HR-C1', 'HR-C2'].includes(c))).toBe(true);
 
     for (const code of ['HR-C1', 'HR-C2', 'HR-P1']) expect(await phone.getByTestId(`round-result-${code}`).innerText()).toBe('Stored');
     expect(await phone.getByTestId('round-summary').innerText()).toContain('4 stored');
