@@ -50,7 +50,7 @@ export const routes: RouteRecordRaw[] = [
   { path: '/flags', name: 'flags', component: () => import('@/views/FlagsView.vue'), meta: { title: 'Flags' } },
   { path: '/people', name: 'people', component: () => import('@/views/PeopleView.vue'), meta: { title: 'People', roles: ['owner'] } },
   // The server answers 404 where the outbox is off and shows each person their organisation's mail only.
-  { path: '/outbox', name: 'outbox', component: () => import('@/views/OutboxView.vue'), meta: { title: 'Mail outbox', roles: ['owner', 'manager', 'buyer'] } },
+  { path: '/outbox', name: 'outbox', component: () => import('@/views/OutboxView.vue'), meta: { title: 'Outbox', roles: ['owner', 'manager', 'buyer'] } },
   { path: '/profile', name: 'profile', component: () => import('@/views/ProfileView.vue'), meta: { title: 'Profile' } },
   { path: '/:pathMatch(.*)*', name: 'not-found', component: () => import('@/views/NotFoundView.vue'), meta: { title: 'Not found', public: true } },
 ];

@@ -41,7 +41,7 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { name: 'suppliers', to: '/suppliers', label: 'Suppliers', icon: 'pi pi-truck', roles: ['owner', 'manager', 'buyer'], group: 'buying', description: 'Who you buy from, their contacts and lead times.' },
   { name: 'farms', to: '/farms', label: 'Farms', icon: 'pi pi-map-marker', roles: EVERYONE, group: 'setup', description: 'The farms and sites you work on.' },
   { name: 'people', to: '/people', label: 'People', icon: 'pi pi-users', roles: ['owner'], group: 'setup', description: 'Invite people, set roles and farm access.' },
-  { name: 'outbox', to: '/outbox', label: 'Outbox (dev)', icon: 'pi pi-envelope', roles: ['owner', 'manager', 'buyer'], group: 'setup', description: 'Mail the development server captured for your organisation.' },
+  { name: 'outbox', to: '/outbox', label: 'Outbox (dev)', icon: 'pi pi-envelope', roles: ['owner', 'manager', 'buyer'], group: 'setup', description: 'Mail and text messages the development server captured for your organisation.' },
   { name: 'profile', to: '/profile', label: 'Profile', icon: 'pi pi-user', roles: EVERYONE, account: true, description: 'Your name and the units you see.' },
 ];
 
