@@ -65,3 +65,12 @@ export function roundProgress(rows: RoundRow[]): RoundProgress {
   }
   return { total: rows.length, ready, toFix, toAnswer };
 }
+
+/** Why a round could not be sent: no network, a server refusal, or entries still to fix. */
+export interface SubmitProblem {
+  kind: 'network' | 'server' | 'invalid';
+  message: string;
+}
+
+/** What the round says while a sent round waits in the outbox for the network. */
+export const WAITING_MESSAGE = 'No connection: the round waits on this device and goes out by itself when there is signal.';

@@ -13,20 +13,13 @@ import { applyAnswered } from './round-answers';
 import { blankEntry, LOCKED, newEntryKey, roundRow, type RoundDraft, type RoundEntryDraft, type RoundRow } from './round-entry';
 import { useRoundOutboxStore } from './round-outbox';
 import { emptySaved, keepCopies, readSaved, writeSaved, type SavedRounds } from './round-saved';
-import { roundProgress, summarizeRound, type RoundProgress, type RoundSummary } from './round-summary';
+import { roundProgress, summarizeRound, WAITING_MESSAGE, type RoundProgress, type RoundSummary, type SubmitProblem } from './round-summary';
 import { useSessionStore } from './session';
 
 export { CULTURE_INACTIVE_BELOW_C, exampleNumber, newEntryKey, setupOf } from './round-entry';
 export type { EntryOutcome, EntryResult, ReadingPreview, RoundDraft, RoundEntryDraft, RoundRow, RowContext, TemperaturePreview } from './round-entry';
-export type { RoundProgress, RoundSummary } from './round-summary';
-
-export interface SubmitProblem {
-  kind: 'network' | 'server' | 'invalid';
-  message: string;
-}
-
-/** What the round says while a sent round waits in the outbox for the network. */
-export const WAITING_MESSAGE = 'No connection: the round waits on this device and goes out by itself when there is signal.';
+export type { RoundProgress, RoundSummary, SubmitProblem } from './round-summary';
+export { WAITING_MESSAGE } from './round-summary';
 
 /**
  * The reading round of one farm: the tanks in walking order, what was typed for each (kept on the
