@@ -38,7 +38,8 @@ export const CAUTION_SENTENCES: Readonly<Record<CautionTopic, readonly string[]>
   frost: [
     'Before the frost, drain exposed lines, hoses and pumps, or cover and lag them.',
     'Cover small tanks, or keep them warm with a heater made for the job.',
-    'Check that heaters run on a circuit with residual-current protection (RCD or GFCI) and that it trips when tested.',
+    'Heaters must run on a circuit with residual-current protection (RCD or GFCI).',
+    'Press its test button to check that it trips.',
     'Follow local practice and your local electrical code.',
   ],
 };
