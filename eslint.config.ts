@@ -2,6 +2,7 @@ import { builtinModules } from 'node:module';
 import type { Linter } from 'eslint';
 import { defineConfigWithVueTs, vueTsConfigs } from '@vue/eslint-config-typescript';
 import pluginVue from 'eslint-plugin-vue';
+import vueI18n from '@intlify/eslint-plugin-vue-i18n';
 
 // The layer rules of shared/README.md, server/README.md and src/README.md, enforced on every import.
 // Each message says the rule it breaks and names the README it comes from.
@@ -54,6 +55,15 @@ export default defineConfigWithVueTs(
       'vue/multiline-html-element-content-newline': 'off',
       '@typescript-eslint/no-unused-vars': ['error', { argsIgnorePattern: '^_', varsIgnorePattern: '^_' }],
       '@typescript-eslint/no-non-null-assertion': 'off',
+    },
+  },
+  // Every word a person sees goes through vue-i18n (shared/i18n/messages); marks, digits and units-free symbols may stay.
+  {
+    files: ['src/**/*.vue'],
+    plugins: { '@intlify/vue-i18n': vueI18n },
+    settings: { 'vue-i18n': { messageSyntaxVersion: '^11.0.0' } },
+    rules: {
+      '@intlify/vue-i18n/no-raw-text': ['error', { ignorePattern: '^[\\s\\d.,:;·•–—/%×+#()*?!’\'"…-]+$', ignoreText: ['L', 'mm', 'm³', 'gal', 'in', 'ft', '°C', '°F'], attributes: { '/.+/': ['title', 'aria-label', 'aria-description', 'placeholder', 'label', 'header', 'alt', 'empty-message', 'emptyMessage', 'on-label', 'off-label', 'summary', 'detail', 'legend'] } }],
     },
   },
   restrict(['shared/**/*.ts'], sharedImports),

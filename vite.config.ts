@@ -61,7 +61,7 @@ export default defineConfig({
   test: {
     projects: [
       { extends: true, test: { name: 'shared', include: ['tests/shared/**/*.test.ts'], environment: 'node' } },
-      { extends: true, test: { name: 'client', include: ['tests/client/**/*.test.ts'], environment: 'happy-dom' } },
+      { extends: true, test: { name: 'client', include: ['tests/client/**/*.test.ts'], environment: 'happy-dom', setupFiles: ['tests/client/support/setup.ts'] } },
       {
         extends: true,
         test: {

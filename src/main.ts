@@ -18,6 +18,7 @@ import { useRoundStore } from './stores/round';
 import { useRoundOutboxStore } from './stores/round-outbox';
 import { registerSW } from 'virtual:pwa-register';
 import { offerUpdate } from './offline/app-update';
+import { i18n } from './i18n';
 
 const app = createApp(App);
 // With the plugin that empties a person's stores when someone else signs in on the device.
@@ -25,6 +26,7 @@ const pinia = createAppPinia();
 app.use(pinia);
 const router = createAppRouter();
 app.use(router);
+app.use(i18n);
 app.use(PrimeVue, {
   theme: {
     preset: BrimstockPreset,
