@@ -1,5 +1,8 @@
 // Days of cover and use rates as people read them on the board, the farm cards and the tank page.
 import { displayUnits, formatNumber, formatVolume, fromSI, type UnitSystem } from '@shared/units';
+import { i18n } from '@/i18n';
+
+const t = (key: string, named: Record<string, unknown> = {}) => i18n.global.t(`board.cover.${key}`, named);
 
 /**
  * Under this many days of cover a tank is shown amber. Our own choice, no published source: about
@@ -17,13 +20,13 @@ export function isShortCover(daysOfCover: number | null): boolean {
 
 /** The days as text: one decimal under two days ("1.4 days"), whole days above ("9 days"). */
 export function formatCoverDays(daysOfCover: number): string {
-  if (daysOfCover >= LONG_COVER_DAYS) return 'over a year';
+  if (daysOfCover >= LONG_COVER_DAYS) return t('overAYear');
   // A tenth of a day is the finest step shown; a day is too coarse when less than two are left.
   if (daysOfCover < 2) {
-    if (daysOfCover > 0 && daysOfCover < 0.05) return 'under 0.1 days';
-    return `${formatNumber(daysOfCover, 1)} days`;
+    if (daysOfCover > 0 && daysOfCover < 0.05) return t('underATenth');
+    return t('daysFraction', { n: formatNumber(daysOfCover, 1) });
   }
-  return `${formatNumber(daysOfCover, 0)} days`;
+  return t('daysWhole', { n: formatNumber(daysOfCover, 0) });
 }
 
 /**
@@ -40,9 +43,9 @@ export function isLikelyRunDown(daysOfCover: number | null, usableAtReadingL: nu
  * them is "Likely run down by now": its litres are shown small, with the reading's age.
  */
 export function coverText(daysOfCover: number | null, usableAtReadingL: number | null = null): string {
-  if (daysOfCover === null) return 'No use seen';
-  if (daysOfCover <= 0) return isLikelyRunDown(daysOfCover, usableAtReadingL) ? 'Likely run down by now' : 'Nothing usable left';
-  return `≈ ${formatCoverDays(daysOfCover)} left`;
+  if (daysOfCover === null) return t('noUse');
+  if (daysOfCover <= 0) return isLikelyRunDown(daysOfCover, usableAtReadingL) ? t('runDown') : t('nothingLeft');
+  return t('left', { days: formatCoverDays(daysOfCover) });
 }
 
 /** A volume with enough decimals to be read: one below 10 of the shown unit ("3.4 L", "120 L"). */
@@ -53,5 +56,5 @@ export function formatSmallVolume(volumeL: number, system: UnitSystem): string {
 
 /** A use rate given in L/day in the user's units ("120 L/day", "3.4 gal/day"). */
 export function formatUseRate(lPerDay: number, system: UnitSystem): string {
-  return `${formatSmallVolume(lPerDay, system)}/day`;
+  return t('perDay', { volume: formatSmallVolume(lPerDay, system) });
 }

@@ -1,4 +1,5 @@
 import type { BoardHistoryFarm } from '@shared/schemas';
+import { i18n } from '@/i18n';
 
 /**
  * The line under the board history saying whose clock its days follow: one zone for every farm, or
@@ -7,8 +8,9 @@ import type { BoardHistoryFarm } from '@shared/schemas';
 export function historyZoneNote(farms: readonly BoardHistoryFarm[] | undefined, lastDay: string | undefined): string | null {
   if (!farms?.length) return null;
   const zones = [...new Set(farms.map((f) => f.timeZone))];
-  if (zones.length === 1) return `Days run from midnight to midnight in ${zones[0]}.`;
-  const each = farms.map((f) => `${f.name} (${f.timeZone})`).join(', ');
+  const { t } = i18n.global;
+  if (zones.length === 1) return t('board.chart.oneZone', { zone: zones[0] });
+  const each = farms.map((f) => t('board.chart.farmZone', { farm: f.name, zone: f.timeZone })).join(', ');
   const behind = lastDay !== undefined && farms.some((f) => f.today < lastDay);
-  return `Each farm's days run from its own midnight: ${each}.${behind ? ' A farm whose clock has not reached the last day yet counts its latest reading there.' : ''}`;
+  return t(behind ? 'board.chart.eachZoneBehind' : 'board.chart.eachZone', { farms: each });
 }
