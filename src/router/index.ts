@@ -1,11 +1,12 @@
 import { createRouter, createWebHistory, type RouteRecordRaw, type Router, type RouterHistory } from 'vue-router';
 import { ROLES, type Role } from '@shared/schemas';
+import { i18n } from '@/i18n';
 import { useSessionStore } from '@/stores/session';
 
 declare module 'vue-router' {
   interface RouteMeta {
-    /** Shown in the browser tab. */
-    title?: string;
+    /** Message key of the page's name shown in the browser tab (app.titles.*). */
+    titleKey?: string;
     /** Reachable without signing in. */
     public?: boolean;
     /** Only for signed-out visitors (sign-in): signed-in users go home. */
@@ -19,40 +20,40 @@ declare module 'vue-router' {
 
 export const routes: RouteRecordRaw[] = [
   // Owners, managers and buyers land on the stock board; workers on Home with their round (StartView picks).
-  { path: '/', name: 'home', component: () => import('@/views/StartView.vue'), meta: { title: 'Home', roles: ROLES } },
-  { path: '/round', name: 'round', component: () => import('@/views/RoundView.vue'), meta: { title: 'Round', roles: ['owner', 'manager', 'worker'] } },
-  { path: '/imports', name: 'imports', component: () => import('@/views/ImportsView.vue'), meta: { title: 'Logger files', roles: ['owner', 'manager', 'worker'] } },
+  { path: '/', name: 'home', component: () => import('@/views/StartView.vue'), meta: { titleKey: 'app.titles.home', roles: ROLES } },
+  { path: '/round', name: 'round', component: () => import('@/views/RoundView.vue'), meta: { titleKey: 'app.titles.round', roles: ['owner', 'manager', 'worker'] } },
+  { path: '/imports', name: 'imports', component: () => import('@/views/ImportsView.vue'), meta: { titleKey: 'app.titles.imports', roles: ['owner', 'manager', 'worker'] } },
   {
     path: '/sign-in',
     name: 'sign-in',
     component: () => import('@/views/SignInView.vue'),
-    meta: { title: 'Sign in', public: true, guestOnly: true, bare: true },
+    meta: { titleKey: 'app.titles.signIn', public: true, guestOnly: true, bare: true },
   },
   {
     path: '/set-password',
     name: 'set-password',
     component: () => import('@/views/SetPasswordView.vue'),
-    meta: { title: 'Set your password', public: true, bare: true },
+    meta: { titleKey: 'app.titles.setPassword', public: true, bare: true },
   },
   {
     path: '/first-owner',
     name: 'first-owner',
     component: () => import('@/views/FirstOwnerView.vue'),
-    meta: { title: 'Set up this server', public: true, bare: true },
+    meta: { titleKey: 'app.titles.firstOwner', public: true, bare: true },
   },
-  { path: '/farms', name: 'farms', component: () => import('@/views/FarmsView.vue'), meta: { title: 'Farms' } },
-  { path: '/farms/:farmId(\\d+)', name: 'farm', component: () => import('@/views/FarmView.vue'), meta: { title: 'Farm' } },
-  { path: '/tanks/:id(\\d+)', name: 'tank', component: () => import('@/views/TankView.vue'), meta: { title: 'Tank' } },
-  { path: '/inputs', name: 'inputs', component: () => import('@/views/InputsView.vue'), meta: { title: 'Inputs', roles: ['owner', 'manager', 'buyer', 'worker'] } },
-  { path: '/orders', name: 'orders', component: () => import('@/views/OrdersView.vue'), meta: { title: 'Orders', roles: ['owner', 'manager', 'buyer'] } },
-  { path: '/suppliers', name: 'suppliers', component: () => import('@/views/SuppliersView.vue'), meta: { title: 'Suppliers', roles: ['owner', 'manager', 'buyer'] } },
-  { path: '/brews', name: 'brews', component: () => import('@/views/BrewsView.vue'), meta: { title: 'Brews', roles: ['owner', 'manager', 'worker'] } },
-  { path: '/flags', name: 'flags', component: () => import('@/views/FlagsView.vue'), meta: { title: 'Flags' } },
-  { path: '/people', name: 'people', component: () => import('@/views/PeopleView.vue'), meta: { title: 'People', roles: ['owner'] } },
+  { path: '/farms', name: 'farms', component: () => import('@/views/FarmsView.vue'), meta: { titleKey: 'app.titles.farms' } },
+  { path: '/farms/:farmId(\\d+)', name: 'farm', component: () => import('@/views/FarmView.vue'), meta: { titleKey: 'app.titles.farm' } },
+  { path: '/tanks/:id(\\d+)', name: 'tank', component: () => import('@/views/TankView.vue'), meta: { titleKey: 'app.titles.tank' } },
+  { path: '/inputs', name: 'inputs', component: () => import('@/views/InputsView.vue'), meta: { titleKey: 'app.titles.inputs', roles: ['owner', 'manager', 'buyer', 'worker'] } },
+  { path: '/orders', name: 'orders', component: () => import('@/views/OrdersView.vue'), meta: { titleKey: 'app.titles.orders', roles: ['owner', 'manager', 'buyer'] } },
+  { path: '/suppliers', name: 'suppliers', component: () => import('@/views/SuppliersView.vue'), meta: { titleKey: 'app.titles.suppliers', roles: ['owner', 'manager', 'buyer'] } },
+  { path: '/brews', name: 'brews', component: () => import('@/views/BrewsView.vue'), meta: { titleKey: 'app.titles.brews', roles: ['owner', 'manager', 'worker'] } },
+  { path: '/flags', name: 'flags', component: () => import('@/views/FlagsView.vue'), meta: { titleKey: 'app.titles.flags' } },
+  { path: '/people', name: 'people', component: () => import('@/views/PeopleView.vue'), meta: { titleKey: 'app.titles.people', roles: ['owner'] } },
   // The server answers 404 where the outbox is off and shows each person their organisation's mail only.
-  { path: '/outbox', name: 'outbox', component: () => import('@/views/OutboxView.vue'), meta: { title: 'Outbox', roles: ['owner', 'manager', 'buyer'] } },
-  { path: '/profile', name: 'profile', component: () => import('@/views/ProfileView.vue'), meta: { title: 'Profile' } },
-  { path: '/:pathMatch(.*)*', name: 'not-found', component: () => import('@/views/NotFoundView.vue'), meta: { title: 'Not found', public: true } },
+  { path: '/outbox', name: 'outbox', component: () => import('@/views/OutboxView.vue'), meta: { titleKey: 'app.titles.outbox', roles: ['owner', 'manager', 'buyer'] } },
+  { path: '/profile', name: 'profile', component: () => import('@/views/ProfileView.vue'), meta: { titleKey: 'app.titles.profile' } },
+  { path: '/:pathMatch(.*)*', name: 'not-found', component: () => import('@/views/NotFoundView.vue'), meta: { titleKey: 'app.titles.notFound', public: true } },
 ];
 
 /** A `redirect` query value that is safe to follow: a path inside this app, never another origin. */
@@ -90,7 +91,9 @@ export function createAppRouter(history: RouterHistory = createWebHistory(import
   });
 
   router.afterEach((to) => {
-    if (typeof document !== 'undefined') document.title = to.meta.title ? `${to.meta.title} · Brimstock` : 'Brimstock';
+    if (typeof document === 'undefined') return;
+    const { t } = i18n.global;
+    document.title = to.meta.titleKey ? t('app.titles.page', { page: t(to.meta.titleKey) }) : t('app.name');
   });
 
   return router;

@@ -2,8 +2,8 @@ import { ROLES, type Role } from '@shared/schemas';
 
 /** The menus of the main navigation: the buyer's screens, and the screens that set the organisation up. */
 export const NAV_GROUPS = {
-  buying: { key: 'buying', label: 'Buying', icon: 'pi pi-shopping-bag' },
-  setup: { key: 'setup', label: 'Set-up', icon: 'pi pi-cog' },
+  buying: { key: 'buying', labelKey: 'app.nav.groups.buying', icon: 'pi pi-shopping-bag' },
+  setup: { key: 'setup', labelKey: 'app.nav.groups.setup', icon: 'pi pi-cog' },
 } as const;
 /** A menu of the main navigation. */
 export type NavGroupKey = keyof typeof NAV_GROUPS;
@@ -14,12 +14,13 @@ export interface NavItem {
   /** Route name; also the data-testid suffix (`nav-<name>`). */
   name: string;
   to: string;
-  label: string;
+  /** Message key of the entry's name (app.nav.items.*). */
+  labelKey: string;
   /** PrimeIcons class. */
   icon: string;
   roles: readonly Role[];
-  /** One line for the home page's list of screens. */
-  description: string;
+  /** Message key of one line for the home page's list of screens. */
+  descriptionKey: string;
   /** The menu it sits in on a wide screen (none: a link of its own). */
   group?: NavGroupKey;
   /** The person's own page: reached from their name beside Sign out. */
@@ -30,19 +31,19 @@ const EVERYONE = ROLES;
 
 export const NAV_ITEMS: readonly NavItem[] = [
   // Both entries are the `/` route: owners, managers and buyers see the stock board there, workers Home.
-  { name: 'home', to: '/', label: 'Stock board', icon: 'pi pi-gauge', roles: ['owner', 'manager', 'buyer'], description: 'Live stock of every tank on every farm.' },
-  { name: 'home', to: '/', label: 'Home', icon: 'pi pi-home', roles: ['worker'], description: 'Your farms at a glance.' },
-  { name: 'round', to: '/round', label: 'Round', icon: 'pi pi-list-check', roles: ['owner', 'manager', 'worker'], description: 'Walk the tanks of a farm and type each sight-tube reading.' },
-  { name: 'imports', to: '/imports', label: 'Logger files', icon: 'pi pi-file-import', roles: ['owner', 'manager', 'worker'], description: 'Upload level-logger CSV files, check their columns and import them.' },
-  { name: 'brews', to: '/brews', label: 'Brews', icon: 'pi pi-filter', roles: ['owner', 'manager', 'worker'], description: 'Log batches of culture, fertilizer and pest solution, with the mixing calculator.' },
-  { name: 'flags', to: '/flags', label: 'Flags', icon: 'pi pi-flag', roles: EVERYONE, description: 'Everything that needs a person: low stock, leaks, cold cultures, frost and more.' },
-  { name: 'inputs', to: '/inputs', label: 'Inputs', icon: 'pi pi-box', roles: EVERYONE, group: 'buying', description: 'Purchased inputs: stock, days of cover and when to reorder.' },
-  { name: 'orders', to: '/orders', label: 'Orders', icon: 'pi pi-shopping-cart', roles: ['owner', 'manager', 'buyer'], group: 'buying', description: 'Purchase orders: draft, send to suppliers, book deliveries in.' },
-  { name: 'suppliers', to: '/suppliers', label: 'Suppliers', icon: 'pi pi-truck', roles: ['owner', 'manager', 'buyer'], group: 'buying', description: 'Who you buy from, their contacts and lead times.' },
-  { name: 'farms', to: '/farms', label: 'Farms', icon: 'pi pi-map-marker', roles: EVERYONE, group: 'setup', description: 'The farms and sites you work on.' },
-  { name: 'people', to: '/people', label: 'People', icon: 'pi pi-users', roles: ['owner'], group: 'setup', description: 'Invite people, set roles and farm access.' },
-  { name: 'outbox', to: '/outbox', label: 'Outbox (dev)', icon: 'pi pi-envelope', roles: ['owner', 'manager', 'buyer'], group: 'setup', description: 'Mail and text messages the development server captured for your organisation.' },
-  { name: 'profile', to: '/profile', label: 'Profile', icon: 'pi pi-user', roles: EVERYONE, account: true, description: 'Your name and the units you see.' },
+  { name: 'home', to: '/', labelKey: 'app.nav.items.board.label', icon: 'pi pi-gauge', roles: ['owner', 'manager', 'buyer'], descriptionKey: 'app.nav.items.board.description' },
+  { name: 'home', to: '/', labelKey: 'app.nav.items.home.label', icon: 'pi pi-home', roles: ['worker'], descriptionKey: 'app.nav.items.home.description' },
+  { name: 'round', to: '/round', labelKey: 'app.nav.items.round.label', icon: 'pi pi-list-check', roles: ['owner', 'manager', 'worker'], descriptionKey: 'app.nav.items.round.description' },
+  { name: 'imports', to: '/imports', labelKey: 'app.nav.items.imports.label', icon: 'pi pi-file-import', roles: ['owner', 'manager', 'worker'], descriptionKey: 'app.nav.items.imports.description' },
+  { name: 'brews', to: '/brews', labelKey: 'app.nav.items.brews.label', icon: 'pi pi-filter', roles: ['owner', 'manager', 'worker'], descriptionKey: 'app.nav.items.brews.description' },
+  { name: 'flags', to: '/flags', labelKey: 'app.nav.items.flags.label', icon: 'pi pi-flag', roles: EVERYONE, descriptionKey: 'app.nav.items.flags.description' },
+  { name: 'inputs', to: '/inputs', labelKey: 'app.nav.items.inputs.label', icon: 'pi pi-box', roles: EVERYONE, group: 'buying', descriptionKey: 'app.nav.items.inputs.description' },
+  { name: 'orders', to: '/orders', labelKey: 'app.nav.items.orders.label', icon: 'pi pi-shopping-cart', roles: ['owner', 'manager', 'buyer'], group: 'buying', descriptionKey: 'app.nav.items.orders.description' },
+  { name: 'suppliers', to: '/suppliers', labelKey: 'app.nav.items.suppliers.label', icon: 'pi pi-truck', roles: ['owner', 'manager', 'buyer'], group: 'buying', descriptionKey: 'app.nav.items.suppliers.description' },
+  { name: 'farms', to: '/farms', labelKey: 'app.nav.items.farms.label', icon: 'pi pi-map-marker', roles: EVERYONE, group: 'setup', descriptionKey: 'app.nav.items.farms.description' },
+  { name: 'people', to: '/people', labelKey: 'app.nav.items.people.label', icon: 'pi pi-users', roles: ['owner'], group: 'setup', descriptionKey: 'app.nav.items.people.description' },
+  { name: 'outbox', to: '/outbox', labelKey: 'app.nav.items.outbox.label', icon: 'pi pi-envelope', roles: ['owner', 'manager', 'buyer'], group: 'setup', descriptionKey: 'app.nav.items.outbox.description' },
+  { name: 'profile', to: '/profile', labelKey: 'app.nav.items.profile.label', icon: 'pi pi-user', roles: EVERYONE, account: true, descriptionKey: 'app.nav.items.profile.description' },
 ];
 
 /** The navigation entries a role may use, in menu order. */
