@@ -2,6 +2,7 @@ import { computed, ref, toValue, type ComputedRef, type MaybeRefOrGetter, type R
 import { useConfirm } from 'primevue/useconfirm';
 import { useToast } from 'primevue/usetoast';
 import { errorMessage } from '@/api/http';
+import { i18n } from '@/i18n';
 
 /** A row a list view can archive and restore. */
 export interface ArchivableRow {
@@ -15,10 +16,12 @@ export interface UseArchiveToggleOptions<T extends ArchivableRow> {
   all: MaybeRefOrGetter<readonly T[]>;
   /** The rows not archived. */
   active: MaybeRefOrGetter<readonly T[]>;
-  /** What one row is called in the messages, capitalised: `Farm`, `Supplier`. */
-  noun: string;
+  /** The toast's title once a row is archived ("Farm archived"): a whole phrase, since the noun's gender changes it in other languages. */
+  archivedSummary: MaybeRefOrGetter<string>;
+  /** The toast's title once a row is restored ("Farm restored"). */
+  restoredSummary: MaybeRefOrGetter<string>;
   /** What archiving keeps and changes, asked before it is done. */
-  archiveMessage: string;
+  archiveMessage: MaybeRefOrGetter<string>;
   archive: (id: number) => Promise<unknown>;
   restore: (id: number) => Promise<unknown>;
 }
@@ -34,7 +37,7 @@ export interface UseArchiveToggle<T extends ArchivableRow> {
   setArchived: (row: T, archived: boolean) => void;
 }
 
-/** The archived/active switch of a list view and its archive and restore actions. */
+/** The archived/active switch of a list view and its archive and restore actions (its own words in area farms, archiveToggle). */
 export function useArchiveToggle<T extends ArchivableRow>(options: UseArchiveToggleOptions<T>): UseArchiveToggle<T> {
   const confirm = useConfirm();
   const toast = useToast();
@@ -46,9 +49,9 @@ export function useArchiveToggle<T extends ArchivableRow>(options: UseArchiveTog
     busyId.value = row.id;
     try {
       await (archived ? options.archive(row.id) : options.restore(row.id));
-      toast.add({ severity: 'success', summary: `${options.noun} ${archived ? 'archived' : 'restored'}`, detail: row.name, life: 4000 });
+      toast.add({ severity: 'success', summary: toValue(archived ? options.archivedSummary : options.restoredSummary), detail: row.name, life: 4000 });
     } catch (error) {
-      toast.add({ severity: 'error', summary: 'Not changed', detail: errorMessage(error), life: 7000 });
+      toast.add({ severity: 'error', summary: i18n.global.t('farms.archiveToggle.notChanged'), detail: errorMessage(error), life: 7000 });
     } finally {
       busyId.value = null;
     }
@@ -60,12 +63,13 @@ export function useArchiveToggle<T extends ArchivableRow>(options: UseArchiveTog
       void run(row, false);
       return;
     }
+    const { t } = i18n.global;
     confirm.require({
-      header: `Archive ${row.name}?`,
-      message: options.archiveMessage,
+      header: t('farms.archiveToggle.question', { name: row.name }),
+      message: toValue(options.archiveMessage),
       icon: 'pi pi-box',
-      acceptProps: { label: 'Archive', severity: 'warn' },
-      rejectProps: { label: 'Cancel', severity: 'secondary', variant: 'text' },
+      acceptProps: { label: t('farms.archiveToggle.archive'), severity: 'warn' },
+      rejectProps: { label: t('common.cancel'), severity: 'secondary', variant: 'text' },
       accept: () => run(row, true),
     });
   }

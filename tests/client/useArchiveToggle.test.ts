@@ -20,7 +20,8 @@ const ListView = defineComponent({
     toggle = useArchiveToggle({
       all: rows,
       active: computed(() => rows.value.filter((r) => r.archivedAt === null)),
-      noun: 'Barrel',
+      archivedSummary: 'Barrel archived',
+      restoredSummary: () => 'Barrel restored',
       archiveMessage: 'It leaves the lists; its history is kept.',
       archive,
       restore,
