@@ -1,5 +1,6 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
 import type { Role, UnitSystem } from '@shared/schemas';
+import type { Language } from '@shared/i18n/languages';
 
 export class User extends Model<InferAttributes<User>, InferCreationAttributes<User>> {
   declare id: CreationOptional<number>;
@@ -20,6 +21,8 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
   /** When a STOP reply from the number turned texts off (null: not since the number was set). */
   declare textsStoppedAt: CreationOptional<Date | null>;
   declare lastTextDigestAt: CreationOptional<Date | null>;
+  /** The person's language (shared/i18n/languages.ts), or null until chosen or taken from the browser at first sign-in (migration 0019). */
+  declare language: CreationOptional<Language | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 
@@ -41,6 +44,7 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
         flagTexts: { type: DataTypes.ENUM('immediate', 'digest', 'off'), allowNull: false, defaultValue: 'off' },
         textsStoppedAt: { type: DataTypes.DATE, allowNull: true },
         lastTextDigestAt: { type: DataTypes.DATE, allowNull: true },
+        language: { type: DataTypes.STRING(8), allowNull: true },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },

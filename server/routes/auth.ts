@@ -4,7 +4,8 @@ import { clusterOf } from '../cluster';
 import type { AppContext } from '../context';
 import { actorOf, requireSignIn } from '../middleware/access';
 import { describeToken, endSession, requestPasswordReset, sessionUserFor, setPasswordWithToken, verifySignIn } from '../services/auth';
-import { updateProfile } from '../services/profile';
+import { adoptBrowserLanguage, updateProfile } from '../services/profile';
+import { browserLanguageOf } from '../i18n';
 import { textFailuresOf } from '../services/flag-text-replies';
 import { parse } from '../validate';
 import { authLimits } from '../middleware/rate-limits';
@@ -15,6 +16,9 @@ function regenerate(req: Request): Promise<void> {
 }
 
 export async function startSession(ctx: AppContext, req: Request, res: Response, csrf: CsrfTools, userId: number): Promise<SessionState> {
+  // The first sign-in takes the browser's language (its Accept-Language) until the person chooses one.
+  const browserLanguage = browserLanguageOf(req);
+  if (browserLanguage) await adoptBrowserLanguage(ctx, userId, browserLanguage);
   await regenerate(req);
   req.session.userId = userId;
   req.session.signedInAt = Date.now();

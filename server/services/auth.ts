@@ -2,6 +2,7 @@
 import { Op } from 'sequelize';
 import type { SessionUser, TokenInfo } from '@shared/schemas';
 import { passwordStrength } from '@shared/passwords';
+import { isLanguage } from '@shared/i18n/languages';
 import type { AppContext } from '../context';
 import { defer } from '../deferred';
 import { AppError } from '../errors';
@@ -34,6 +35,7 @@ export async function sessionUserFor(ctx: AppContext, userId: number): Promise<S
     phone: user.phone,
     flagTexts: user.flagTexts,
     textsStoppedAt: user.textsStoppedAt?.toISOString() ?? null,
+    language: isLanguage(user.language) ? user.language : null,
     farmIds: farmIds.sort((a, b) => a - b),
   };
 }

@@ -1,4 +1,5 @@
-// A signed-in person's own settings (name, units, how flags reach them): written to their row only, answered as the session user.
+// A signed-in person's own settings (name, units, language, how flags reach them): written to their row only, answered as the session user.
+import type { Language } from '@shared/i18n/languages';
 import type { ProfileInput, SessionUser } from '@shared/schemas';
 import type { AppContext } from '../context';
 import { AppError } from '../errors';
@@ -15,4 +16,9 @@ export async function updateProfile(ctx: AppContext, actor: SessionUser, input: 
   const restarted = phone !== user.phone || (input.flagTexts !== undefined && input.flagTexts !== 'off');
   await user.update({ ...input, ...(restarted ? { textsStoppedAt: null } : {}) });
   return sessionUserFor(ctx, actor.id);
+}
+
+/** Stores `language` (the browser's, at sign-in) as the person's language when they have none yet; a choice made stays. */
+export async function adoptBrowserLanguage(ctx: AppContext, userId: number, language: Language): Promise<void> {
+  await ctx.db.models.User.update({ language }, { where: { id: userId, language: null } });
 }

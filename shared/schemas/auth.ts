@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { UNIT_SYSTEMS, type Role, type UnitSystem } from './common';
 import { mobilePhoneSchema } from './phone';
+import { LANGUAGES, type Language } from '../i18n/languages';
 
 /** Minimum password length the product accepts. */
 export const PASSWORD_MIN_LENGTH = 8;
@@ -59,6 +60,7 @@ export const profileSchema = z
     flagMail: z.enum(FLAG_MAIL_CHOICES),
     phone: mobilePhoneSchema,
     flagTexts: z.enum(FLAG_MAIL_CHOICES),
+    language: z.enum(LANGUAGES),
   })
   .partial()
   .refine((p) => p.phone !== null || !p.flagTexts || p.flagTexts === 'off', { message: 'Texts need a mobile number', path: ['phone'] });
@@ -84,6 +86,8 @@ export interface SessionUser {
   flagTexts: FlagMailChoice;
   /** ISO 8601 instant a STOP reply from the number turned texts off, or null. */
   textsStoppedAt: string | null;
+  /** The person's language for screens, mails, texts and PDFs; null until chosen (the browser's language is used). */
+  language: Language | null;
   /** Farms this user may see (all of the organisation's for owners and managers). */
   farmIds: number[];
 }

@@ -27,7 +27,7 @@ export {
   convert,
 } from './convert';
 export type { LengthUnit, VolumeUnit, PressureUnit, TemperatureUnit, Unit, Quantity } from './convert';
-export { displayUnits, formatNumber, formatNumberTrimmed, formatVolume, formatLength, formatTemperature, formatPressure } from './format';
+export { displayUnits, setNumberLocale, getNumberLocale, formatNumber, formatNumberTrimmed, formatVolume, formatLength, formatTemperature, formatPressure } from './format';
 export type { UnitSystem, DisplayUnits } from './format';
 export { decimalMarkOf, parseDecimal } from './decimal';
 export type { DecimalMark, DecimalOptions, DecimalProblem, DecimalResult } from './decimal';

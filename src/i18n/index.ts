@@ -1,5 +1,7 @@
 import { createI18n } from 'vue-i18n';
-import { DEFAULT_LANGUAGE, LANGUAGES, LANGUAGE_LOCALES, type Language } from '@shared/i18n/languages';
+import { setNumberLocale } from '@shared/units';
+import { DEFAULT_LANGUAGE, LANGUAGES, LANGUAGE_LOCALES, languageFrom, type Language } from '@shared/i18n/languages';
+import { PLURAL_RULES } from '@shared/i18n/plural';
 
 type Messages = Record<string, unknown>;
 
@@ -17,18 +19,66 @@ function messagesByLanguage(): Record<Language, Messages> {
   return out;
 }
 
+/** The language the browser asks for first among the ones Brimstock speaks (English otherwise). */
+export function browserLanguage(): Language {
+  return languageFrom(typeof navigator === 'undefined' ? undefined : navigator.languages);
+}
+
+// Numbers and dates through vue-i18n's n() and d() use the same locale as the shared formatters.
+const numberFormats = Object.fromEntries(
+  LANGUAGES.map((language) => [language, { decimal: { style: 'decimal' }, integer: { style: 'decimal', maximumFractionDigits: 0 } }]),
+) as Record<Language, Record<string, Intl.NumberFormatOptions>>;
+const datetimeFormats = Object.fromEntries(
+  LANGUAGES.map((language) => [
+    language,
+    {
+      date: { dateStyle: 'medium' },
+      dateTime: { dateStyle: 'medium', timeStyle: 'short' },
+      time: { hour: '2-digit', minute: '2-digit' },
+    },
+  ]),
+) as Record<Language, Record<string, Intl.DateTimeFormatOptions>>;
+
 export const i18n = createI18n({
   legacy: false,
   locale: DEFAULT_LANGUAGE,
   fallbackLocale: DEFAULT_LANGUAGE,
   messages: messagesByLanguage(),
-  // Numbers and dates through Intl in the language's own locale (see LANGUAGE_LOCALES).
+  pluralRules: PLURAL_RULES,
+  numberFormats,
+  datetimeFormats,
   missingWarn: import.meta.env.DEV,
   fallbackWarn: false,
 });
 
-/** Switches every screen to `language` (a person's choice, or the browser's before they sign in). */
+/** The language every screen speaks now. */
+export function currentLanguage(): Language {
+  return i18n.global.locale.value as Language;
+}
+
+/** The BCP 47 locale (for Intl) of the language every screen speaks now: "en-US", "es-ES", "fr-FR". */
+export function currentLocale(): string {
+  return LANGUAGE_LOCALES[currentLanguage()];
+}
+
+type LanguageListener = (language: Language) => void;
+const listeners = new Set<LanguageListener>();
+
+/** Calls `listener` after every language change (for settings outside vue-i18n); returns the function that stops it. */
+export function onLanguageChange(listener: LanguageListener): () => void {
+  listeners.add(listener);
+  return () => listeners.delete(listener);
+}
+
+/** Switches every screen to `language` (a person's choice, or the browser's before they sign in), numbers and dates too. */
 export function setLanguage(language: Language): void {
   i18n.global.locale.value = language;
-  if (typeof document !== 'undefined') document.documentElement.lang = LANGUAGE_LOCALES[language].split('-')[0];
+  if (typeof document !== 'undefined') document.documentElement.lang = language;
+  for (const listener of listeners) listener(language);
 }
+
+// The shared number formatters read the language each time, so a computed figure follows a change of language.
+setNumberLocale(currentLocale);
+
+// Before anyone signs in the screens follow the browser; the session store switches to the person's choice.
+setLanguage(browserLanguage());

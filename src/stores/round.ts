@@ -5,6 +5,7 @@ import { COLD_CULTURE_C } from '@shared/flags';
 import { decimalMarkOf, type DecimalMark, type UnitSystem } from '@shared/units';
 import { fetchBoard } from '@/api/board';
 import { errorMessage } from '@/api/http';
+import { currentLocale } from '@/i18n';
 import { isUnreachable as unreachable } from '@/offline/unreachable';
 import { fetchTanks } from '@/api/tanks';
 import type { OutboxRound } from '@/offline/db';
@@ -55,8 +56,9 @@ export const useRoundStore = defineStore('round', () => {
   let loadToken = 0;
 
   const unitSystem = computed<UnitSystem>(() => session.user?.unitSystem ?? 'metric');
-  /** The person's decimal mark: their browser's language for now; a language setting can set it instead. */
-  const decimalMark = ref<DecimalMark>(decimalMarkOf(typeof navigator === 'undefined' ? undefined : navigator.languages));
+  /** The decimal mark of the person's language (the browser's before they sign in), set again when it changes. */
+  const decimalMark = ref<DecimalMark>(decimalMarkOf(currentLocale()));
+  watch(currentLocale, (locale) => (decimalMark.value = decimalMarkOf(locale)));
   /** The farm's own cold-culture limit (°C), from the farm list or the device's copy, else the shared default. */
   const coldCultureC = computed<number>(() => {
     const id = farmId.value;

@@ -4,6 +4,7 @@ import type { FirstOwnerInput, ProfileInput, Role, SessionState, SetPasswordInpu
 import * as authApi from '@/api/auth';
 import * as setupApi from '@/api/setup';
 import { registerCsrfSource } from '@/api/http';
+import { browserLanguage, setLanguage } from '@/i18n';
 import { keepSessionCopy, readSessionCopy } from '@/offline/session-copy';
 import { isUnreachable } from '@/offline/unreachable';
 import { useFarmsStore } from './farms';
@@ -28,6 +29,11 @@ export const useSessionStore = defineStore('session', () => {
     return role.value !== null && roles.includes(role.value);
   }
 
+  /** The screens speak the person's language, or the browser's while nobody is signed in or none is chosen. */
+  function speakFor(person: SessionUser | null): void {
+    setLanguage(person?.language ?? browserLanguage());
+  }
+
   function adopt(state: SessionState): void {
     // Lists cached for one person must not show to the next one on this device.
     if (user.value?.id !== state.user?.id) forgetUserData();
@@ -36,6 +42,7 @@ export const useSessionStore = defineStore('session', () => {
     loaded.value = true;
     loadError.value = null;
     offlineSince.value = null;
+    speakFor(state.user);
     void keepSessionCopy(state.user);
   }
 
@@ -47,6 +54,7 @@ export const useSessionStore = defineStore('session', () => {
     csrfToken.value = '';
     loaded.value = true;
     offlineSince.value = copy.savedAt;
+    speakFor(copy.user);
     return true;
   }
 
@@ -105,6 +113,7 @@ export const useSessionStore = defineStore('session', () => {
     user.value = null;
     csrfToken.value = '';
     offlineSince.value = null;
+    speakFor(null);
     void keepSessionCopy(null);
     forgetUserData();
   }
@@ -117,6 +126,8 @@ export const useSessionStore = defineStore('session', () => {
   async function updateProfile(input: ProfileInput): Promise<SessionUser> {
     const updated = await authApi.updateProfile(input);
     user.value = updated;
+    speakFor(updated);
+    void keepSessionCopy(updated);
     return updated;
   }
 

@@ -1,4 +1,5 @@
-// How old a reading is, in words a person reads at a glance ("3 h ago"), and when it counts as stale.
+// How old a reading is, in words a person reads at a glance ("3 h ago") in their language, and when it counts as stale.
+import { i18n } from '@/i18n';
 
 const MINUTE_MS = 60_000;
 const HOUR_MS = 60 * MINUTE_MS;
@@ -13,17 +14,18 @@ function timeOf(iso: string | null | undefined): number | null {
   return Number.isNaN(t) ? null : t;
 }
 
-/** "just now", "12 min ago", "3 h ago", "4 days ago"; "never" for null. */
+/** "just now", "12 min ago", "3 h ago", "4 days ago" (in the screens' language); "never" for null. */
 export function formatAge(iso: string | null | undefined, now: Date = new Date()): string {
-  const t = timeOf(iso);
-  if (t === null) return 'never';
-  const ms = now.getTime() - t;
+  const { t } = i18n.global;
+  const time = timeOf(iso);
+  if (time === null) return t('words.age.never');
+  const ms = now.getTime() - time;
   // A phone clock a little ahead of the server still reads as "just now", not "in 2 min".
-  if (ms < MINUTE_MS) return 'just now';
-  if (ms < HOUR_MS) return `${Math.floor(ms / MINUTE_MS)} min ago`;
-  if (ms < DAY_MS) return `${Math.floor(ms / HOUR_MS)} h ago`;
+  if (ms < MINUTE_MS) return t('words.age.justNow');
+  if (ms < HOUR_MS) return t('words.age.minutesAgo', { n: Math.floor(ms / MINUTE_MS) });
+  if (ms < DAY_MS) return t('words.age.hoursAgo', { n: Math.floor(ms / HOUR_MS) });
   const days = Math.floor(ms / DAY_MS);
-  return `${days} ${days === 1 ? 'day' : 'days'} ago`;
+  return t('words.age.daysAgo', { n: days }, days);
 }
 
 /** True when the reading at `iso` is older than STALE_AFTER_MS (false for null: "no reading" is shown apart). */

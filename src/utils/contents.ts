@@ -1,13 +1,20 @@
 import type { TankContents } from '@shared/schemas';
+import { TANK_CONTENTS } from '@shared/schemas';
+import { i18n } from '@/i18n';
 import { loch, moss, tide, umber } from '@/theme/preset';
 
-/** What each kind of contents is called on screen. */
-export const CONTENTS_LABELS: Readonly<Record<TankContents, string>> = {
-  water: 'Water',
-  fertilizer: 'Fertilizer',
-  'pest-solution': 'Pest solution',
-  culture: 'Culture',
+const CONTENTS_KEYS: Readonly<Record<TankContents, string>> = {
+  water: 'water',
+  fertilizer: 'fertilizer',
+  'pest-solution': 'pestSolution',
+  culture: 'culture',
 };
+
+/** What each kind of contents is called on screen, in the screens' language (each entry read when shown). */
+export const CONTENTS_LABELS: Readonly<Record<TankContents, string>> = Object.defineProperties(
+  {} as Record<TankContents, string>,
+  Object.fromEntries(TANK_CONTENTS.map((c) => [c, { enumerable: true, get: () => i18n.global.t(`words.contents.${CONTENTS_KEYS[c]}`) }])),
+);
 
 /** How one kind of contents is drawn: a hue for fills and lines, ink on ground for its label, and a pattern. */
 export interface ContentsLook {

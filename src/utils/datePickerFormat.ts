@@ -1,5 +1,6 @@
 // PrimeVue DatePicker settings that write a date and time the way formatDateTime (./format) shows
-// them everywhere else: the reader's order of day, short month name and year, and their clock.
+// them everywhere else: the language's order of day, short month name and year, and its clock.
+import { currentLocale } from '@/i18n';
 
 /** A DatePicker `dateFormat` pattern and `hourFormat`. */
 export interface DatePickerFormat {
@@ -15,10 +16,10 @@ function literal(text: string): string {
 }
 
 /**
- * The DatePicker settings matching formatDateTime in `locale` (the reader's by default), e.g. en-GB →
+ * The DatePicker settings matching formatDateTime in `locale` (the screens' language's by default), e.g. en-GB →
  * "d M yy," and 24 h ("3 Mar 2026, 14:05"), en-US → "M d, yy," and 12 h ("Mar 3, 2026, 02:05 PM").
  */
-export function datePickerFormat(locale?: string): DatePickerFormat {
+export function datePickerFormat(locale: string = currentLocale()): DatePickerFormat {
   const formatter = new Intl.DateTimeFormat(locale, { dateStyle: 'medium', timeStyle: 'short' });
   const parts = formatter.formatToParts(SAMPLE);
   const firstTime = parts.findIndex((p) => p.type === 'hour' || p.type === 'minute' || p.type === 'dayPeriod');

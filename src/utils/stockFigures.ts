@@ -1,15 +1,28 @@
 // The words and numbers around a tank's stock figures (shared/readings stockFigures), the same on the
-// round, the stock board, the farm page and the tank page.
+// round, the stock board, the farm page and the tank page, in the screens' language.
 import type { StockFigures } from '@shared/readings';
 import { formatNumber, formatVolume, type UnitSystem } from '@shared/units';
+import { i18n, onLanguageChange } from '@/i18n';
 
-/** What the main figure is called. */
-export const USABLE_NAME = 'usable';
-/** What the secondary figure is called. */
-export const TOTAL_NAME = 'in the tank';
-/** What the percentage is of, and what that means. */
-export const USABLE_CAPACITY_NAME = 'usable capacity';
-export const USABLE_CAPACITY_MEANING = 'Usable capacity: the litres between the outlet and the safe fill line. Usable: the litres above the outlet, the ones that can be drawn off.';
+// The names below are live bindings: they are set again whenever the language changes, so a template
+// (or a computed that also formats a figure, which follows the language) shows the current word.
+/** What the main figure is called ("usable"). */
+export let USABLE_NAME = '';
+/** What the secondary figure is called ("in the tank"). */
+export let TOTAL_NAME = '';
+/** What the percentage is of ("usable capacity"), and what that means. */
+export let USABLE_CAPACITY_NAME = '';
+export let USABLE_CAPACITY_MEANING = '';
+
+function nameFigures(): void {
+  const { t } = i18n.global;
+  USABLE_NAME = t('words.stock.usable');
+  TOTAL_NAME = t('words.stock.total');
+  USABLE_CAPACITY_NAME = t('words.stock.usableCapacity');
+  USABLE_CAPACITY_MEANING = t('words.stock.usableCapacityMeaning');
+}
+nameFigures();
+onLanguageChange(nameFigures);
 
 /** The figures as text in the user's units: "27,157 L", "29,900 L", "52 %" (null without a usable capacity), "52,203 L". */
 export function stockTexts(f: StockFigures, system: UnitSystem): { usable: string; total: string; percent: string | null; capacity: string } {
@@ -23,7 +36,7 @@ export function stockTexts(f: StockFigures, system: UnitSystem): { usable: strin
 
 /** One sentence for screen readers: "27,157 L usable, 52 % of the 52,203 L usable capacity; 29,900 L in the tank". */
 export function stockSentence(f: StockFigures, system: UnitSystem): string {
-  const t = stockTexts(f, system);
-  const share = t.percent === null ? '' : `, ${t.percent} of the ${t.capacity} ${USABLE_CAPACITY_NAME}`;
-  return `${t.usable} ${USABLE_NAME}${share}; ${t.total} ${TOTAL_NAME}`;
+  const texts = stockTexts(f, system);
+  const { t } = i18n.global;
+  return texts.percent === null ? t('words.stock.sentence', texts) : t('words.stock.sentenceWithShare', texts);
 }

@@ -16,6 +16,7 @@ export function makeUser(role: Role, overrides: Partial<SessionUser> = {}): Sess
     phone: null,
     flagTexts: 'off',
     textsStoppedAt: null,
+    language: null,
     farmIds: [11, 12],
     ...overrides,
   };

@@ -1,0 +1,49 @@
+import { describe, expect, it } from 'vitest';
+import request from 'supertest';
+import { useTestApp } from '../support/db';
+import { PASSWORD, call, makeOrganisation, signedIn, type Agent } from '../support/fixtures';
+
+const env = useTestApp();
+
+async function signInWith(email: string, acceptLanguage: string): Promise<{ agent: Agent; language: unknown }> {
+  const agent = request.agent(env.app) as Agent;
+  agent.csrf = (await agent.get('/api/auth/session').expect(200)).body.csrfToken;
+  const res = await agent.post('/api/auth/sign-in').set('x-csrf-token', agent.csrf).set('Accept-Language', acceptLanguage).send({ email, password: PASSWORD }).expect(200);
+  agent.csrf = res.body.csrfToken;
+  return { agent, language: res.body.user.language };
+}
+
+describe("a person's language", () => {
+  it('is null until chosen when the sign-in names no browser language', async () => {
+    const org = await makeOrganisation(env);
+    const agent = await signedIn(env, org.users.worker.email);
+    expect((await agent.get('/api/auth/me').expect(200)).body.language).toBeNull();
+  });
+
+  it("takes the browser's language at the first sign-in and keeps it at the next", async () => {
+    const org = await makeOrganisation(env);
+    expect((await signInWith(org.users.worker.email, 'es-MX,es;q=0.9,en;q=0.8')).language).toBe('es');
+    expect((await signInWith(org.users.worker.email, 'fr-FR,fr;q=0.9')).language).toBe('es');
+  });
+
+  it('takes English from a browser asking only for languages Brimstock does not speak', async () => {
+    const org = await makeOrganisation(env);
+    expect((await signInWith(org.users.buyer.email, 'de-DE,de;q=0.9')).language).toBe('en');
+  });
+
+  it('is chosen on the Profile and then stays through later sign-ins', async () => {
+    const org = await makeOrganisation(env);
+    const { agent } = await signInWith(org.users.manager.email, 'en-GB');
+    const res = await call(agent, 'patch', '/api/auth/me', { language: 'fr' }).expect(200);
+    expect(res.body.language).toBe('fr');
+    expect((await signInWith(org.users.manager.email, 'es')).language).toBe('fr');
+  });
+
+  it('refuses a language Brimstock does not speak, naming the field, and keeps the stored one', async () => {
+    const org = await makeOrganisation(env);
+    const { agent } = await signInWith(org.users.owner.email, 'es');
+    const res = await call(agent, 'patch', '/api/auth/me', { language: 'de' }).expect(400);
+    expect(res.body.error.field).toBe('language');
+    expect((await agent.get('/api/auth/me').expect(200)).body.language).toBe('es');
+  });
+});
