@@ -4,6 +4,7 @@ import { computed, ref, shallowRef } from 'vue';
 import * as importsApi from '@/api/imports';
 import { errorMessage } from '@/api/http';
 import { formatBytes } from '@/components/imports/importLabels';
+import { i18n } from '@/i18n';
 import { readFileHead, type FileHead } from '@/components/imports/importPreview';
 
 /** A file picked for upload, with its first bytes once read and why it cannot go, if it cannot. */
@@ -27,7 +28,7 @@ export function useChosenFiles(afterRead: () => void) {
 
   function checkCount(list: ChosenFile[]): void {
     filesError.value =
-      list.length > importsApi.MAX_FILES_PER_UPLOAD ? `At most ${importsApi.MAX_FILES_PER_UPLOAD} files go in one upload; remove ${list.length - importsApi.MAX_FILES_PER_UPLOAD}.` : null;
+      list.length > importsApi.MAX_FILES_PER_UPLOAD ? i18n.global.t('imports.files.tooMany', { max: importsApi.MAX_FILES_PER_UPLOAD, extra: list.length - importsApi.MAX_FILES_PER_UPLOAD }) : null;
   }
 
   function replaceFile(key: string, change: Partial<ChosenFile>): void {
@@ -43,8 +44,8 @@ export function useChosenFiles(afterRead: () => void) {
       if (known.has(key)) continue;
       known.add(key);
       let problem: string | null = null;
-      if (file.size === 0) problem = 'The file is empty.';
-      else if (file.size > importsApi.UPLOAD_MAX_BYTES) problem = `It is ${formatBytes(file.size)}; the limit is ${formatBytes(importsApi.UPLOAD_MAX_BYTES)} per file. Split it into smaller files.`;
+      if (file.size === 0) problem = i18n.global.t('imports.files.empty');
+      else if (file.size > importsApi.UPLOAD_MAX_BYTES) problem = i18n.global.t('imports.files.tooBig', { size: formatBytes(file.size), limit: formatBytes(importsApi.UPLOAD_MAX_BYTES) });
       added.push({ key, file, head: null, problem });
     }
     const list = [...files.value, ...added];
@@ -58,7 +59,7 @@ export function useChosenFiles(afterRead: () => void) {
             const head = await readFileHead(f.file);
             replaceFile(f.key, { head, problem: head.problem });
           } catch (e) {
-            replaceFile(f.key, { problem: `It could not be read here: ${errorMessage(e)}` });
+            replaceFile(f.key, { problem: i18n.global.t('imports.files.unreadable', { error: errorMessage(e) }) });
           }
         }),
     );

@@ -7,6 +7,7 @@ import type { ImportProgress, LoggerImport, LoggerImportDetail } from '@shared/s
 import * as importsApi from '@/api/imports';
 import { errorMessage } from '@/api/http';
 import { onServerEvent, whenConnected } from '@/api/socket';
+import { i18n } from '@/i18n';
 import type { LoadStatus } from './farms';
 
 /** idle: nothing sent; uploading: the body is going out; importing: the server is reading the files; done: results are in. */
@@ -73,9 +74,9 @@ export function useImportUpload(inputs: UploadInputs) {
    */
   async function upload(mapping: ImportMapping): Promise<LoggerImportDetail[]> {
     const id = inputs.tankId.value;
-    if (id === null) throw new Error('Choose the tank the logger belongs to.');
+    if (id === null) throw new Error(i18n.global.t('imports.go.chooseTank'));
     const list = inputs.readyFiles.value.map((f) => f.file);
-    if (!list.length) throw new Error('Choose at least one CSV file.');
+    if (!list.length) throw new Error(i18n.global.t('imports.go.chooseCsv'));
     phase.value = 'uploading';
     sentBytes.value = 0;
     totalBytes.value = list.reduce((sum, f) => sum + f.size, 0);

@@ -7,6 +7,7 @@ import type { SavedImportMapping, Tank, TankEditor } from '@shared/schemas';
 import * as importsApi from '@/api/imports';
 import * as tanksApi from '@/api/tanks';
 import { errorMessage } from '@/api/http';
+import { i18n } from '@/i18n';
 import { buildMapping, columnOptions, draftFromMapping, emptyDraft, guessDraft, rebaseColumn, unitsFor, type MappingDraft } from '@/components/imports/importMapping';
 import { checkPreview, previewRecords, resolveDelimiter, uncheckedRows, type PreviewCheck } from '@/components/imports/importPreview';
 import { useFarmsStore, type LoadStatus } from './farms';
@@ -233,7 +234,7 @@ export const useImportsStore = defineStore('imports', () => {
    */
   async function saveSensorHeight(sensorHeightMm: number): Promise<Tank> {
     const id = tankId.value;
-    if (id === null) throw new Error('Choose the tank the logger belongs to.');
+    if (id === null) throw new Error(i18n.global.t('imports.go.chooseTank'));
     const updated = await tanksApi.updateTank(id, { sensorHeightMm });
     tanks.value = tanks.value.map((t) => (t.id === updated.id ? updated : t));
     return updated;

@@ -9,7 +9,7 @@ import { describe, expect, it } from 'vitest';
 import { createImportReader, IMPORT_POLICY_TITLES, importMappingSchema } from '@shared/imports';
 import type { LoggerImportDetail } from '@shared/schemas';
 import { buildMapping, emptyDraft, guessDraft } from '@/components/imports/importMapping';
-import { POLICY_LABELS } from '@/components/imports/importLabels';
+import { policyLabel } from '@/components/imports/importLabels';
 import { previewRecords, readFileHead, resolveDelimiter } from '@/components/imports/importPreview';
 import ImportsPolicyChoice from '@/components/imports/ImportsPolicyChoice.vue';
 import ImportsResultCard from '@/components/imports/ImportsResultCard.vue';
@@ -57,7 +57,7 @@ describe('guessDraft on a distance column', () => {
 describe('the refuse-the-file choice', () => {
   it('reads the same on the form, on a refused result and in the server message', () => {
     const title = IMPORT_POLICY_TITLES['reject-file'];
-    expect(POLICY_LABELS['reject-file'].title).toBe(title);
+    expect(policyLabel('reject-file').title).toBe(title);
     const form = mount(ImportsPolicyChoice, { props: { modelValue: 'reject-file' }, global: { plugins: [[PrimeVue, { unstyled: true }]] } });
     expect(form.text()).toContain(title);
     const result: LoggerImportDetail = {

@@ -1,92 +1,106 @@
-// Words the Logger files screen shows for the mapping choices and import outcomes.
-import { IMPORT_POLICY_TITLES, type DateFormat, type Delimiter, type ImportPolicy, type TimeFormat, type TimestampFormat, type ValueKind } from '@shared/imports';
+// Words the Logger files screen shows for the mapping choices and import outcomes, in the screen's language.
+// Functions, not constants: each call reads the language in use, so a change of language redraws them.
+import type { DateFormat, Delimiter, ImportPolicy, TimeFormat, TimestampFormat, ValueKind } from '@shared/imports';
 import type { ImportStatus } from '@shared/schemas';
-import { UNIT_SYMBOLS, type LengthUnit, type PressureUnit } from '@shared/units';
+import { formatNumber, UNIT_SYMBOLS, type LengthUnit, type PressureUnit } from '@shared/units';
+import { i18n } from '@/i18n';
 
-export const DELIMITER_LABELS: Record<Delimiter, string> = {
-  auto: 'Work it out from the file',
-  ',': 'Comma ( , )',
-  ';': 'Semicolon ( ; )',
-  '\t': 'Tab',
+const t = (key: string, named: Record<string, unknown> = {}) => i18n.global.t(`imports.${key}`, named);
+
+const DELIMITER_KEYS: Record<Delimiter, string> = { auto: 'auto', ',': 'comma', ';': 'semicolon', '\t': 'tab' };
+
+/** "Comma ( , )", "Work it out from the file"… */
+export function delimiterLabel(delimiter: Delimiter): string {
+  return t(`delimiters.${DELIMITER_KEYS[delimiter]}`);
+}
+
+/** "Read as comma ( , ) separated." for the separator the file was read with. */
+export function detectedDelimiterText(delimiter: Exclude<Delimiter, 'auto'>): string {
+  return t(`mapping.detected.${DELIMITER_KEYS[delimiter]}`);
+}
+
+// How each layout looks, with one example each (1 March 2026, 6 in the morning); the examples are the
+// file's own characters, the same in every language.
+const TIMESTAMP_FORMATS: Record<TimestampFormat, [key: string, example: string]> = {
+  iso8601: ['iso8601', '2026-03-01T06:00:00+01:00'],
+  'YYYY-MM-DD HH:mm:ss': ['ymdSeconds', '2026-03-01 06:00:00'],
+  'YYYY-MM-DD HH:mm': ['ymd', '2026-03-01 06:00'],
+  'DD/MM/YYYY HH:mm:ss': ['dmySlashSeconds', '01/03/2026 06:00:00'],
+  'DD/MM/YYYY HH:mm': ['dmySlash', '01/03/2026 06:00'],
+  'MM/DD/YYYY HH:mm:ss': ['mdySlashSeconds', '03/01/2026 06:00:00'],
+  'MM/DD/YYYY HH:mm': ['mdySlash', '03/01/2026 06:00'],
+  'DD.MM.YYYY HH:mm:ss': ['dmyDotSeconds', '01.03.2026 06:00:00'],
+  'DD.MM.YYYY HH:mm': ['dmyDot', '01.03.2026 06:00'],
 };
 
-/** How each layout looks, with one example each (1 March 2026, 6 in the morning). */
-export const TIMESTAMP_FORMAT_LABELS: Record<TimestampFormat, string> = {
-  iso8601: 'ISO 8601 with its offset — 2026-03-01T06:00:00+01:00',
-  'YYYY-MM-DD HH:mm:ss': 'Year-month-day, seconds — 2026-03-01 06:00:00',
-  'YYYY-MM-DD HH:mm': 'Year-month-day — 2026-03-01 06:00',
-  'DD/MM/YYYY HH:mm:ss': 'Day/month/year, seconds — 01/03/2026 06:00:00',
-  'DD/MM/YYYY HH:mm': 'Day/month/year — 01/03/2026 06:00',
-  'MM/DD/YYYY HH:mm:ss': 'Month/day/year, seconds — 03/01/2026 06:00:00',
-  'MM/DD/YYYY HH:mm': 'Month/day/year — 03/01/2026 06:00',
-  'DD.MM.YYYY HH:mm:ss': 'Day.month.year, seconds — 01.03.2026 06:00:00',
-  'DD.MM.YYYY HH:mm': 'Day.month.year — 01.03.2026 06:00',
-};
+/** A date-and-time layout with its example: "Day/month/year — 01/03/2026 06:00". */
+export function timestampFormatLabel(format: TimestampFormat): string {
+  const [key, example] = TIMESTAMP_FORMATS[format];
+  return t(`formats.${key}`, { example });
+}
 
 /** Date-only layouts, for a file with the time of day in a column of its own. */
-export const DATE_FORMAT_LABELS: Record<DateFormat, string> = {
-  'YYYY-MM-DD': 'Year-month-day, time in its own column — 2026-03-01',
-  'DD/MM/YYYY': 'Day/month/year, time in its own column — 01/03/2026',
-  'MM/DD/YYYY': 'Month/day/year, time in its own column — 03/01/2026',
-  'DD.MM.YYYY': 'Day.month.year, time in its own column — 01.03.2026',
+const DATE_FORMATS: Record<DateFormat, [key: string, example: string]> = {
+  'YYYY-MM-DD': ['ymd', '2026-03-01'],
+  'DD/MM/YYYY': ['dmySlash', '01/03/2026'],
+  'MM/DD/YYYY': ['mdySlash', '03/01/2026'],
+  'DD.MM.YYYY': ['dmyDot', '01.03.2026'],
 };
 
-export const TIME_FORMAT_LABELS: Record<TimeFormat, string> = {
-  'HH:mm:ss': '24-hour, seconds — 06:00:00',
-  'HH:mm': '24-hour — 06:00',
-  'hh:mm:ss AM/PM': '12-hour with AM/PM, seconds — 06:00:00 AM',
-  'hh:mm AM/PM': '12-hour with AM/PM — 6:00 AM',
+/** A date-only layout with its example. */
+export function dateFormatLabel(format: DateFormat): string {
+  const [key, example] = DATE_FORMATS[format];
+  return t(`dateFormats.${key}`, { example });
+}
+
+const TIME_FORMATS: Record<TimeFormat, [key: string, example: string]> = {
+  'HH:mm:ss': ['h24Seconds', '06:00:00'],
+  'HH:mm': ['h24', '06:00'],
+  'hh:mm:ss AM/PM': ['h12Seconds', '06:00:00 AM'],
+  'hh:mm AM/PM': ['h12', '6:00 AM'],
 };
 
-export const VALUE_KIND_LABELS: Record<ValueKind, string> = {
-  level: 'Level above the tank floor',
-  ultrasonic: 'Distance down from the sensor (ultrasonic)',
-  pressure: 'Gauge pressure at the sensor',
-};
+/** A time-of-day layout with its example. */
+export function timeFormatLabel(format: TimeFormat): string {
+  const [key, example] = TIME_FORMATS[format];
+  return t(`timeFormats.${key}`, { example });
+}
 
-const UNIT_NAMES: Record<LengthUnit | PressureUnit, string> = {
-  mm: 'millimetres',
-  cm: 'centimetres',
-  m: 'metres',
-  in: 'inches',
-  ft: 'feet',
-  kPa: 'kilopascals',
-  bar: 'bar',
-  psi: 'pounds per square inch',
-  mH2O: 'metres of water',
-  inH2O: 'inches of water',
-};
+/** What the value column measures, in words. */
+export function valueKindLabel(kind: ValueKind): string {
+  return t(`valueKinds.${kind}`);
+}
 
 /** "mm — millimetres". */
 export function valueUnitLabel(unit: LengthUnit | PressureUnit): string {
-  return `${UNIT_SYMBOLS[unit]} — ${UNIT_NAMES[unit]}`;
+  return `${UNIT_SYMBOLS[unit]} — ${t(`unitNames.${unit}`)}`;
 }
 
-/** Each policy's one title (shared with the server's messages) and what it does. */
-export const POLICY_LABELS: Record<ImportPolicy, { title: string; detail: string }> = {
-  'reject-file': {
-    title: IMPORT_POLICY_TITLES['reject-file'],
-    detail: 'Nothing from the file is stored until every row reads cleanly. Every bad line is listed so the file can be fixed and sent again.',
-  },
-  'valid-rows': {
-    title: IMPORT_POLICY_TITLES['valid-rows'],
-    detail: 'Good rows are stored now; the bad ones are listed with the reason and can be downloaded as a CSV.',
-  },
+const POLICY_KEYS: Record<ImportPolicy, string> = { 'reject-file': 'rejectFile', 'valid-rows': 'validRows' };
+
+/** Each policy's one title (in English the words of the server's messages, IMPORT_POLICY_TITLES) and what it does. */
+export function policyLabel(policy: ImportPolicy): { title: string; detail: string } {
+  return { title: t(`policy.${POLICY_KEYS[policy]}.title`), detail: t(`policy.${POLICY_KEYS[policy]}.detail`) };
+}
+
+const STATUS_SEVERITIES: Record<ImportStatus, 'success' | 'info' | 'warn' | 'danger' | 'secondary'> = {
+  queued: 'secondary',
+  importing: 'info',
+  imported: 'success',
+  rejected: 'danger',
+  failed: 'warn',
+  duplicate: 'secondary',
 };
 
-export const STATUS_LABELS: Record<ImportStatus, { label: string; severity: 'success' | 'info' | 'warn' | 'danger' | 'secondary' }> = {
-  queued: { label: 'Waiting', severity: 'secondary' },
-  importing: { label: 'Importing', severity: 'info' },
-  imported: { label: 'Imported', severity: 'success' },
-  rejected: { label: 'Refused', severity: 'danger' },
-  failed: { label: 'Stopped', severity: 'warn' },
-  duplicate: { label: 'Already imported', severity: 'secondary' },
-};
+/** An import status's word and its tag colour. */
+export function statusLabel(status: ImportStatus): { label: string; severity: 'success' | 'info' | 'warn' | 'danger' | 'secondary' } {
+  return { label: t(`status.${status}`), severity: STATUS_SEVERITIES[status] };
+}
 
 /** "3.4 MB", "820 KB", "512 B", in 1024-byte steps as the server's upload limit counts them. */
 export function formatBytes(bytes: number): string {
-  if (bytes < 1024) return `${bytes} B`;
-  if (bytes < 1024 * 1024) return `${(bytes / 1024).toFixed(bytes < 10 * 1024 ? 1 : 0)} KB`;
+  if (bytes < 1024) return t('bytes.b', { n: formatNumber(bytes, 0) });
+  if (bytes < 1024 * 1024) return t('bytes.kb', { n: formatNumber(bytes / 1024, bytes < 10 * 1024 ? 1 : 0) });
   const mb = bytes / (1024 * 1024);
-  return `${mb.toFixed(mb < 10 ? 1 : 0)} MB`;
+  return t('bytes.mb', { n: formatNumber(mb, mb < 10 ? 1 : 0) });
 }

@@ -23,6 +23,7 @@ import {
 import type { TankSetup } from '@shared/readings';
 import { fieldErrors } from '@shared/schemas';
 import { LENGTH_UNITS, PRESSURE_UNITS, type LengthUnit, type PressureUnit, type TemperatureUnit } from '@shared/units';
+import { i18n } from '@/i18n';
 
 /** What the form holds: every choice, a column left empty as null. */
 export interface MappingDraft {
@@ -130,10 +131,11 @@ export type BuiltMapping = { ok: true; mapping: ImportMapping } | { ok: false; e
  */
 export function buildMapping(d: MappingDraft, tank: TankSetup | null): BuiltMapping {
   const errors: Partial<Record<MappingField, string>> = {};
-  if (d.timestampColumn === null) errors['timestamp.column'] = 'Choose the column that holds the date and time';
-  if (d.timestampFormat === null) errors['timestamp.format'] = 'Choose how the date and time are written';
-  if (d.timestampFormat !== null && isDateFormat(d.timestampFormat) && d.timeColumn === null) errors['timestamp.time.column'] = 'Choose the column that holds the time of day';
-  if (d.valueColumn === null) errors['value.column'] = 'Choose the column that holds the level, distance or pressure';
+  const t = (key: string) => i18n.global.t(`imports.mapping.errors.${key}`);
+  if (d.timestampColumn === null) errors['timestamp.column'] = t('timestampColumn');
+  if (d.timestampFormat === null) errors['timestamp.format'] = t('timestampFormat');
+  if (d.timestampFormat !== null && isDateFormat(d.timestampFormat) && d.timeColumn === null) errors['timestamp.time.column'] = t('timeColumn');
+  if (d.valueColumn === null) errors['value.column'] = t('valueColumn');
   if (Object.keys(errors).length) return { ok: false, errors };
   const parsed = importMappingSchema.safeParse(mappingInputOf(d));
   if (!parsed.success) {
@@ -176,7 +178,8 @@ export function columnOptions(header: readonly string[] | null, width: number): 
   for (let i = 0; i < width; i++) {
     const name = header?.[i]?.trim() ?? '';
     const byName = name !== '' && unique.has(name.toLowerCase());
-    out.push({ value: byName ? name : i, label: name ? `${name} (column ${i + 1})` : `Column ${i + 1}` });
+    const label = name ? i18n.global.t('imports.mapping.columnNamed', { name, n: i + 1 }) : i18n.global.t('imports.mapping.column', { n: i + 1 });
+    out.push({ value: byName ? name : i, label });
   }
   return out;
 }
