@@ -19,7 +19,7 @@ export function localTimeIn(timeZone: string, now: Date = new Date()): string {
 
 /**
  * "1 farm", "3 farms" — English only, for text no person reads in their language (logs, test names).
- * Screens use a plural message instead: `"tanks": "{n} tank | {n} tanks"` with `t('area.tanks', n)`.
+ * Screens use a plural message instead: `"tanks": "{n} tank | {n} tanks"` read with the count as t's second argument.
  */
 export function plural(count: number, one: string, many = `${one}s`): string {
   return `${count} ${count === 1 ? one : many}`;
