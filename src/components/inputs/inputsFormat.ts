@@ -1,14 +1,32 @@
 // Words and number formats for the buyer's screens. Every figure comes from the server's
-// InputStatus (worked out in shared/inventory); these functions only round and phrase them.
+// InputStatus (worked out in shared/inventory); these functions only round and phrase them, in
+// the language on screen (messages of the `inputs` area, numbers and dates in its locale).
 import type { InputCategory, InputStatus, Movement } from '@shared/schemas';
+import { LANGUAGE_LOCALES, isLanguage } from '@shared/i18n/languages';
+import { i18n } from '@/i18n';
 
-export const CATEGORY_LABELS: Record<InputCategory, string> = {
-  fertilizer: 'Fertilizer',
-  'pest-control': 'Pest control',
-  'culture-starter': 'Culture starter',
-  amendment: 'Soil amendment',
-  other: 'Other',
+// Called when the words are needed, never at module load, so a change of language shows at once.
+const t = (key: string, named: Record<string, unknown> = {}, plural?: number): string =>
+  plural === undefined ? i18n.global.t(key, named) : i18n.global.t(key, named, plural);
+
+/** The locale (BCP 47) of the language on screen, for Intl. */
+export function screenLocale(): string {
+  const language = i18n.global.locale.value;
+  return isLanguage(language) ? LANGUAGE_LOCALES[language] : LANGUAGE_LOCALES.en;
+}
+
+const CATEGORY_KEYS: Record<InputCategory, string> = {
+  fertilizer: 'fertilizer',
+  'pest-control': 'pestControl',
+  'culture-starter': 'cultureStarter',
+  amendment: 'amendment',
+  other: 'other',
 };
+
+/** An input category in words: "Fertilizer", "Pest control"… */
+export function categoryLabel(category: InputCategory): string {
+  return t(`inputs.category.${CATEGORY_KEYS[category]}`);
+}
 
 export type TagSeverity = 'secondary' | 'success' | 'info' | 'warn' | 'danger' | 'contrast';
 
@@ -22,7 +40,7 @@ function digitsFor(value: number): number {
 
 /** A plain number rounded for reading: "1,250", "42.5", "0.15". */
 export function formatNumber(value: number): string {
-  return new Intl.NumberFormat(undefined, { maximumFractionDigits: digitsFor(value) }).format(value);
+  return new Intl.NumberFormat(screenLocale(), { maximumFractionDigits: digitsFor(value) }).format(value);
 }
 
 /** A quantity with its unit: "42.5 L", "3 bag (25 kg)". */
@@ -32,7 +50,7 @@ export function formatQuantity(value: number, unit: string): string {
 
 /** A quantity with a decimal more than formatQuantity, for a figure that is rounded up after ("350.2 L"). */
 export function formatQuantityFine(value: number, unit: string): string {
-  return `${new Intl.NumberFormat(undefined, { maximumFractionDigits: Math.min(2, digitsFor(value) + 1) }).format(value)} ${unit}`;
+  return `${new Intl.NumberFormat(screenLocale(), { maximumFractionDigits: Math.min(2, digitsFor(value) + 1) }).format(value)} ${unit}`;
 }
 
 /** A signed change of stock: "+40 L", "−3.2 L". */
@@ -43,25 +61,27 @@ export function formatChange(value: number, unit: string): string {
 
 /** A daily rate: "5.2 L a day". */
 export function formatRate(perDay: number, unit: string): string {
-  return `${formatQuantity(perDay, unit)} a day`;
+  return t('inputs.perDay', { quantity: formatQuantity(perDay, unit) });
 }
 
 /** Days as people say them: "6.6 days", "1 day", "less than a day". */
 export function formatDays(days: number): string {
-  if (days > 0 && days < 1) return 'less than a day';
+  if (days > 0 && days < 1) return t('inputs.lessThanADay');
   // Tenths of a day are as fine as anyone plans a delivery.
-  const text = new Intl.NumberFormat(undefined, { maximumFractionDigits: days >= 10 ? 0 : 1 }).format(days);
-  return `${text} ${text === '1' ? 'day' : 'days'}`;
+  const digits = days >= 10 ? 0 : 1;
+  const shown = Number(days.toFixed(digits));
+  const text = new Intl.NumberFormat(screenLocale(), { maximumFractionDigits: digits }).format(days);
+  return t('inputs.days', { days: text }, shown === 1 ? 1 : 2);
 }
 
 /** Money in the organisation's ISO 4217 currency, in the reader's locale: "€18.00", "NZ$18.00", "¥1,800". */
 export function formatMoney(value: number, currency: string): string {
-  return new Intl.NumberFormat(undefined, { style: 'currency', currency }).format(value);
+  return new Intl.NumberFormat(screenLocale(), { style: 'currency', currency }).format(value);
 }
 
 /** A service level 0.95 as "95 %" (99.5 % keeps its decimal). */
 export function formatPercent(fraction: number): string {
-  return `${new Intl.NumberFormat(undefined, { maximumFractionDigits: 1 }).format(fraction * 100)} %`;
+  return `${new Intl.NumberFormat(screenLocale(), { maximumFractionDigits: 1 }).format(fraction * 100)} %`;
 }
 
 /** A day in the reader's locale: "12 Dec" (or "Dec 12"), with the year when it is not this year. */
@@ -69,14 +89,14 @@ export function formatShortDate(iso: string, now: Date = new Date()): string {
   const date = new Date(iso);
   if (Number.isNaN(date.getTime())) return '—';
   const sameYear = date.getFullYear() === now.getFullYear();
-  return new Intl.DateTimeFormat(undefined, { day: 'numeric', month: 'short', ...(sameYear ? {} : { year: 'numeric' }) }).format(date);
+  return new Intl.DateTimeFormat(screenLocale(), { day: 'numeric', month: 'short', ...(sameYear ? {} : { year: 'numeric' }) }).format(date);
 }
 
 /** When to buy an input, in our words: "Buy now" (amber; "Out of stock · buy now" in red), "Buy by 16 Dec", or no use recorded. */
 export function orderTag(input: Pick<InputStatus, 'due' | 'onHand' | 'orderBy'>, now: Date = new Date()): { label: string; severity: TagSeverity } {
-  if (input.due) return input.onHand <= 0 ? { label: 'Out of stock · buy now', severity: 'danger' } : { label: 'Buy now', severity: 'warn' };
-  if (input.orderBy === null) return { label: 'No use recorded', severity: 'secondary' };
-  return { label: `Buy by ${formatShortDate(input.orderBy, now)}`, severity: 'info' };
+  if (input.due) return input.onHand <= 0 ? { label: t('inputs.tag.outOfStock'), severity: 'danger' } : { label: t('inputs.tag.buyNow'), severity: 'warn' };
+  if (input.orderBy === null) return { label: t('inputs.noUseRecorded'), severity: 'secondary' };
+  return { label: t('inputs.tag.buyBy', { date: formatShortDate(input.orderBy, now) }), severity: 'info' };
 }
 
 /** Whole packs in a quantity that the server already rounded up to packs. */
@@ -87,60 +107,69 @@ export function packCount(quantity: number, packSize: number): number {
 /** "3 packs of 20 L" or "1 pack of 5 kg". */
 export function formatPacks(quantity: number, packSize: number, unit: string): string {
   const packs = packCount(quantity, packSize);
-  return `${packs} ${packs === 1 ? 'pack' : 'packs'} of ${formatQuantity(packSize, unit)}`;
+  return t('inputs.packs', { count: formatNumber(packs), size: formatQuantity(packSize, unit) }, packs === 1 ? 1 : 2);
 }
 
 /** Days of cover for a table cell. */
 export function formatCover(input: Pick<InputStatus, 'daysOfCover'>): string {
-  if (input.daysOfCover === null) return 'No use recorded';
-  if (input.daysOfCover <= 0) return 'None left';
+  if (input.daysOfCover === null) return t('inputs.noUseRecorded');
+  if (input.daysOfCover <= 0) return t('inputs.noneLeft');
   return formatDays(input.daysOfCover);
+}
+
+/**
+ * "Buy 60 L (3 packs of 20 L) now." and its siblings: `when` is now, by the order-by day, at the
+ * reorder point, or at a stock level given in `level`.
+ */
+export function buyWords(input: InputStatus, when: 'now' | 'by' | 'atReorderPoint' | 'atLevel', now: Date = new Date()): string {
+  return t(`inputs.buy.${when}`, {
+    quantity: formatQuantity(input.suggestedQuantity, input.unit),
+    packs: formatPacks(input.suggestedQuantity, input.packSize, input.unit),
+    date: input.orderBy ? formatShortDate(input.orderBy, now) : '',
+    level: formatQuantity(input.reorderPoint, input.unit),
+  });
 }
 
 /** The reorder advice in plain words, one sentence per figure (nothing here is worked out anew). */
 export function adviceSentences(input: InputStatus, currency: string, now: Date = new Date()): { cover: string; reorderPoint: string; reorderMeaning: string; onOrder: string | null; order: string; orderWhy: string | null } {
   const q = (v: number) => formatQuantity(v, input.unit);
-  const rate = formatRate(input.dailyDemand, input.unit);
-  const level = formatPercent(input.serviceLevel);
-  const lead = formatDays(input.leadTimeDays);
+  const figures = {
+    onHand: q(input.onHand),
+    rate: formatRate(input.dailyDemand, input.unit),
+    level: formatPercent(input.serviceLevel),
+    lead: formatDays(input.leadTimeDays),
+    reorderPoint: q(input.reorderPoint),
+    safetyStock: q(input.safetyStock),
+    days: input.daysOfCover === null ? '' : formatDays(input.daysOfCover),
+  };
 
-  const cover =
-    input.daysOfCover === null
-      ? `${q(input.onHand)} on hand. No use has been recorded lately, so there is no forecast yet.`
-      : input.daysOfCover <= 0
-        ? `Nothing on hand, and it is used at about ${rate}.`
-        : `${q(input.onHand)} on hand lasts about ${formatDays(input.daysOfCover)} at ${rate}.`;
-
-  const reorderPoint =
-    input.dailyDemand > 0
-      ? `Reorder point ${q(input.reorderPoint)} = ${lead} of lead time × ${rate} + ${q(input.safetyStock)} safety stock for a ${level} service level.`
-      : `Reorder point ${q(input.reorderPoint)}: with no use recorded, nothing is expected to be used in the ${lead} of lead time.`;
-  const reorderMeaning = `Order when stock on hand plus on order falls to ${q(input.reorderPoint)}: that covers the use expected until a delivery arrives, and the safety stock covers busier days, so in about ${level} of order cycles the delivery arrives before the shelf runs empty.`;
-
-  const onOrder = input.onOrder > 0 ? `${q(input.onOrder)} is on order already and counts toward the reorder point.` : null;
+  const cover = t(input.daysOfCover === null ? 'inputs.advice.coverNoUse' : input.daysOfCover <= 0 ? 'inputs.advice.coverEmpty' : 'inputs.advice.coverLasts', figures);
+  const reorderPoint = t(input.dailyDemand > 0 ? 'inputs.advice.reorderPoint' : 'inputs.advice.reorderPointNoUse', figures);
+  const reorderMeaning = t('inputs.advice.reorderMeaning', figures);
+  const onOrder = input.onOrder > 0 ? t('inputs.advice.onOrder', { onOrder: q(input.onOrder) }) : null;
 
   if (input.suggestedQuantity <= 0) {
-    return { cover, reorderPoint, reorderMeaning, onOrder, order: 'Nothing to order: no use is recorded and stock is above the reorder point.', orderWhy: null };
+    return { cover, reorderPoint, reorderMeaning, onOrder, order: t('inputs.advice.nothingToOrder'), orderWhy: null };
   }
-  const when = input.due ? 'now' : input.orderBy ? `by ${formatShortDate(input.orderBy, now)}` : 'when stock reaches the reorder point';
-  const order = `Buy ${q(input.suggestedQuantity)} (${formatPacks(input.suggestedQuantity, input.packSize, input.unit)}) ${when}.`;
-  const minimum = input.minimumOrder > 0 ? ` and to at least the minimum order of ${q(input.minimumOrder)}` : '';
-  const orderWhy =
-    `That is the larger of the economic order quantity, ${formatQuantityFine(input.eoq, input.unit)} (it balances ${formatMoney(input.orderCost, currency)} per order against ` +
-    `${formatMoney(input.holdingCostPerYear, currency)} per ${input.unit} a year to hold), and what brings stock back up to the reorder point, ` +
-    `rounded up to whole packs${minimum}.`;
+  const order = buyWords(input, input.due ? 'now' : input.orderBy ? 'by' : 'atReorderPoint', now);
+  const why = {
+    eoq: formatQuantityFine(input.eoq, input.unit),
+    orderCost: formatMoney(input.orderCost, currency),
+    holdingCost: formatMoney(input.holdingCostPerYear, currency),
+    unit: input.unit,
+    minimum: q(input.minimumOrder),
+  };
+  const orderWhy = t(input.minimumOrder > 0 ? 'inputs.advice.orderWhyMinimum' : 'inputs.advice.orderWhy', why);
   return { cover, reorderPoint, reorderMeaning, onOrder, order, orderWhy };
 }
 
 /** The movements a person records by hand on the Inputs screen. */
 export type MovementKind = 'use' | 'count' | 'adjustment';
 
-export const MOVEMENT_LABELS: Record<Movement['kind'], string> = {
-  use: 'Use',
-  count: 'Count',
-  adjustment: 'Adjustment',
-  receipt: 'Receipt',
-};
+/** A kind of movement in words: "Use", "Count", "Adjustment", "Receipt". */
+export function movementLabel(kind: Movement['kind']): string {
+  return t(`inputs.movement.${kind}`);
+}
 
 /** What a movement did to stock, in words: "−3.2 L", "Counted 18 L, 0.4 L less than the records". */
 export function movementEffect(movement: Movement, unit: string): string {
@@ -151,11 +180,11 @@ export function movementEffect(movement: Movement, unit: string): string {
     case 'adjustment':
       return formatChange(movement.quantity, unit);
     case 'count': {
-      const counted = `Counted ${formatQuantity(movement.quantity, unit)}`;
+      const counted = formatQuantity(movement.quantity, unit);
       const diff = movement.difference;
-      if (diff === null) return counted;
-      if (Math.abs(diff) < 1e-9) return `${counted}, as the records said`;
-      return `${counted}, ${formatQuantity(Math.abs(diff), unit)} ${diff > 0 ? 'more' : 'less'} than the records`;
+      if (diff === null) return t('inputs.movement.counted', { counted });
+      if (Math.abs(diff) < 1e-9) return t('inputs.movement.countedSame', { counted });
+      return t(diff > 0 ? 'inputs.movement.countedMore' : 'inputs.movement.countedLess', { counted, difference: formatQuantity(Math.abs(diff), unit) });
     }
   }
 }

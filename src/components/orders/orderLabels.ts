@@ -1,15 +1,22 @@
 import type { OrderStatus, PurchaseOrder } from '@shared/schemas';
 import type { TagSeverity } from '@/components/inputs/inputsFormat';
+import { i18n } from '@/i18n';
 
-/** Our words for the order states, with the tag colour each one gets. */
-export const ORDER_STATUS_LABELS: Record<OrderStatus, { label: string; severity: TagSeverity }> = {
-  draft: { label: 'Draft', severity: 'secondary' },
-  sent: { label: 'Sent', severity: 'info' },
-  'part-received': { label: 'Part received', severity: 'warn' },
-  received: { label: 'Received', severity: 'success' },
-  'closed-short': { label: 'Closed short', severity: 'secondary' },
-  cancelled: { label: 'Cancelled', severity: 'contrast' },
+/** The tag colour of each order state, and the key of its name under `orders.status`. */
+const ORDER_STATUS_TAGS: Record<OrderStatus, { key: string; severity: TagSeverity }> = {
+  draft: { key: 'draft', severity: 'secondary' },
+  sent: { key: 'sent', severity: 'info' },
+  'part-received': { key: 'partReceived', severity: 'warn' },
+  received: { key: 'received', severity: 'success' },
+  'closed-short': { key: 'closedShort', severity: 'secondary' },
+  cancelled: { key: 'cancelled', severity: 'contrast' },
 };
+
+/** Our words for an order state in the language on screen, with the tag colour it gets. */
+export function orderStatusTag(status: OrderStatus): { label: string; severity: TagSeverity } {
+  const tag = ORDER_STATUS_TAGS[status];
+  return { label: i18n.global.t(`orders.status.${tag.key}`), severity: tag.severity };
+}
 
 /** What is still to come on a line of a sent order (units of the input). */
 export function openQuantity(line: PurchaseOrder['lines'][number]): number {
