@@ -1,5 +1,6 @@
 import { nextTick, onMounted, ref, watch } from 'vue';
 import { useRoute } from 'vue-router';
+import { useI18n } from 'vue-i18n';
 import { useFarmsStore } from '@/stores/farms';
 import { useRoundStore } from '@/stores/round';
 import { useTanksStore } from '@/stores/tanks';
@@ -18,6 +19,7 @@ function tankIdOf(raw: unknown): number | null {
  * `notice` says why when the label's tank is not on the round.
  */
 export function useRoundAtTank() {
+  const { t } = useI18n();
   const route = useRoute();
   const round = useRoundStore();
   const farms = useFarmsStore();
@@ -29,7 +31,7 @@ export function useRoundAtTank() {
     if (raw === undefined) return void (await round.start());
     const tankId = tankIdOf(raw);
     if (tankId === null) {
-      notice.value = 'The link names no tank: it should end in ?tank= and the tank’s number. Here is your round.';
+      notice.value = t('round.atTank.noTank');
       return void (await round.start());
     }
     // Tanks already on the round need no request, so a label scanned offline still works there.
@@ -50,7 +52,7 @@ export function useRoundAtTank() {
     await nextTick();
     const row = round.rows.find((r) => r.tank.id === tankId);
     if (!row) {
-      notice.value = `${code ? `Tank ${code}` : 'The tank on this label'} is not on your round: it may be archived, or on a farm you do not walk. Here is your round.`;
+      notice.value = code ? t('round.atTank.notOnRound', { code }) : t('round.atTank.labelNotOnRound');
       return;
     }
     const input = document.getElementById(`round-${tankId}-reading`);

@@ -1,6 +1,7 @@
 // Writing the server's answer to a round into the farm's draft: each entry's result, found by its idempotency
 // key, and for a clash a new round time (a piece of src/stores/round.ts; pure).
 import type { RoundEntryResult } from '@shared/schemas';
+import { i18n } from '@/i18n';
 import type { OutboxRound } from '@/offline/db';
 import type { RoundDraft } from './round-entry';
 
@@ -39,7 +40,7 @@ export function applyAnswered(draft: RoundDraft, round: OutboxRound): boolean {
   const results: RoundEntryResult[] =
     round.status === 'sent'
       ? (round.results ?? []).filter((r) => keys.has(r.tankId))
-      : ours.map((e) => ({ tankId: e.tankId, status: 'refused', reason: round.lastError ?? 'The server refused this round' }));
+      : ours.map((e) => ({ tankId: e.tankId, status: 'refused', reason: round.lastError ?? i18n.global.t('round.problems.serverRefusedRound') }));
   applyResults(draft, results);
   for (const e of ours) draft.entries[String(e.tankId)].outboxSeq = null;
   return true;

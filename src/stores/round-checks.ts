@@ -5,6 +5,7 @@ import { WARM_CULTURE_C } from '@shared/flags';
 import { cultureTemperatureOutside, stockJump } from '@shared/readings';
 import type { Tank } from '@shared/schemas';
 import { formatNumber, formatTemperature, formatVolume, type UnitSystem } from '@shared/units';
+import { i18n } from '@/i18n';
 import type { ReadingPreview, TemperaturePreview } from './round-entry';
 
 /** The questions an entry raises and the warning it gives. */
@@ -24,14 +25,19 @@ export function entryChecks(
   coldCultureC: number,
   unitSystem: UnitSystem,
 ): EntryChecks {
+  const { t } = i18n.global;
   const questions: string[] = [];
   if (reading.state === 'ok' && lastGrossL !== null) {
     const jump = stockJump(lastGrossL, reading.grossL);
     if (jump.large) {
       const now = formatVolume(reading.grossL, 'metric');
-      const before = lastGrossL > 0 ? formatVolume(lastGrossL, 'metric') : 'empty';
-      const share = Number.isFinite(jump.share) ? ` (${formatNumber(jump.share * 100)} % ${jump.changeL < 0 ? 'less' : 'more'})` : '';
-      questions.push(`${now} in the tank, ${jump.changeL < 0 ? 'down' : 'up'} from ${before} at the last reading${share}. Is the reading right?`);
+      if (lastGrossL > 0 && Number.isFinite(jump.share)) {
+        const params = { now, before: formatVolume(lastGrossL, 'metric'), share: formatNumber(jump.share * 100) };
+        questions.push(t(jump.changeL < 0 ? 'round.checks.jumpDown' : 'round.checks.jumpUp', params));
+      } else {
+        // Nothing in the tank last time: no share to give.
+        questions.push(t('round.checks.jumpUpFromEmpty', { now }));
+      }
     }
   }
   let warning: string | null = null;
@@ -41,11 +47,11 @@ export function entryChecks(
     const cold = formatTemperature(coldCultureC, unitSystem, 0);
     const warm = formatTemperature(WARM_CULTURE_C, unitSystem, 0);
     if (where === 'cold') {
-      questions.push(`${shown} is below ${cold}, where a culture goes inactive. Is the thermometer reading right?`);
-      warning = `Below about ${cold} a culture goes inactive: check its heater.`;
+      questions.push(t('round.checks.coldQuestion', { shown, cold }));
+      warning = t('round.checks.coldWarning', { cold });
     } else if (where === 'warm') {
-      questions.push(`${shown} is above ${warm}, the warmest a culture stays safe at. Is the thermometer reading right?`);
-      warning = `Above about ${warm} a culture is harmed: check its heater and its thermostat.`;
+      questions.push(t('round.checks.warmQuestion', { shown, warm }));
+      warning = t('round.checks.warmWarning', { warm });
     }
   }
   return { questions, warning };

@@ -1,8 +1,10 @@
 // A round entry as typed and what it gives: the typed numbers parsed, the live reading and temperature, and the tank card's row (pure; a piece of src/stores/round.ts).
-import { readingToVolumes, tankSetupOf, type TankSetup } from '@shared/readings';
+import { heightMm } from '@shared/calibration';
+import { levelFromSightTube, readingToVolumes, tankSetupOf, type TankSetup } from '@shared/readings';
 import { firstIssue, roundEntrySchema, type RoundEntry, type RoundEntryResult, type Tank, type TankTile } from '@shared/schemas';
-import { convert, displayUnits, parseDecimal, type DecimalMark, type UnitSystem } from '@shared/units';
+import { convert, displayUnits, formatNumberTrimmed, parseDecimal, type DecimalMark, type DecimalProblem, type UnitSystem } from '@shared/units';
 import { COLD_CULTURE_C } from '@shared/flags';
+import { i18n } from '@/i18n';
 import { entryChecks } from './round-checks';
 
 /** What the server did with one entry of a submitted round. */
@@ -116,10 +118,47 @@ export function exampleNumber(example: string, decimalMark: DecimalMark): string
 
 const EXAMPLES = { mm: '1250', in: '48.5', C: '21.5', F: '68' } as const;
 
+type Field = 'readingField' | 'temperatureField';
+
+/** Why typed text is not a number, naming the field, in the screens' language (the shared parser's reasons are English). */
+function decimalReason(problem: DecimalProblem, typed: string, field: Field, decimalMark: DecimalMark, example: string): string {
+  const { t } = i18n.global;
+  const shown = typed.trim();
+  const params = { field: t(`round.entry.${field}`), text: shown.length > 40 ? `${shown.slice(0, 40)}…` : shown, example };
+  if (problem === 'empty') return t('round.entry.empty', params);
+  if (problem === 'too-large') return t('round.entry.tooLarge', params);
+  if (problem === 'other-mark') return t(decimalMark === '.' ? 'round.entry.commaNotPoint' : 'round.entry.pointNotComma', params);
+  return t('round.entry.notANumber', params);
+}
+
 /** The typed text read with the person's decimal mark; null when nothing is typed. */
-function parseTyped(text: string, field: string, example: string, decimalMark: DecimalMark) {
+function parseTyped(text: string, field: Field, example: string, decimalMark: DecimalMark) {
   if (!text.trim()) return null;
-  return parseDecimal(text, { decimalMark, field, example: exampleNumber(example, decimalMark) });
+  const shownExample = exampleNumber(example, decimalMark);
+  const parsed = parseDecimal(text, { decimalMark, example: shownExample });
+  return parsed.ok ? parsed : { ...parsed, reason: decimalReason(parsed.problem, text, field, decimalMark, shownExample) };
+}
+
+const mm = (value: number) => formatNumberTrimmed(value, 1);
+
+/**
+ * Why a sight-tube reading is refused, in the screens' language: below the tube's zero, or a level
+ * outside the tank, with the same figures as the shared function's reason; its own reason otherwise
+ * (a tank set up wrongly, which a manager mends).
+ */
+function sightTubeReason(tank: Tank, readingMm: number, sharedReason: string): string {
+  const { t } = i18n.global;
+  const setup = setupOf(tank);
+  const setupOk = readingToVolumes(setup, { kind: 'level', levelMm: 0 }).ok;
+  if (!setupOk || !Number.isFinite(readingMm)) return sharedReason;
+  const reading = mm(readingMm);
+  if (readingMm < 0) return t('round.entry.belowZero', { reading });
+  const levelMm = levelFromSightTube(readingMm, setup.datumOffsetMm);
+  const top = heightMm(setup.geometry);
+  const at = setup.datumOffsetMm === 0 ? '' : 'At';
+  if (levelMm < 0) return t(`round.entry.belowFloor${at}`, { reading, level: mm(levelMm), below: mm(-levelMm) });
+  if (levelMm > top) return t(`round.entry.aboveTop${at}`, { reading, level: mm(levelMm), over: mm(levelMm - top), top: mm(top) });
+  return sharedReason;
 }
 
 /** The parts of a tank the shared reading function needs (the one mapping in shared/readings). */
@@ -127,26 +166,34 @@ export const setupOf: (tank: Tank) => TankSetup = tankSetupOf;
 
 /** The live reading of an entry read with the person's decimal mark: its volumes, or why it is refused. */
 export function readingPreview(tank: Tank, entry: RoundEntryDraft, decimalMark: DecimalMark): ReadingPreview {
-  const parsed = parseTyped(entry.reading, 'Sight-tube reading', EXAMPLES[entry.readingUnit], decimalMark);
+  const parsed = parseTyped(entry.reading, 'readingField', EXAMPLES[entry.readingUnit], decimalMark);
   if (parsed === null) return { state: 'empty' };
   if (!parsed.ok) return { state: 'invalid', reason: parsed.reason };
   const readingMm = convert(parsed.value, entry.readingUnit, 'mm');
   const v = readingToVolumes(setupOf(tank), { kind: 'sight-tube', readingMm });
-  if (!v.ok) return { state: 'invalid', reason: v.reason };
+  if (!v.ok) return { state: 'invalid', reason: sightTubeReason(tank, readingMm, v.reason) };
   // Only the reading meant in the person's own convention is offered, without grouping, so it cannot be misread again.
-  const readAs = parsed.ambiguous ? `Read as ${exampleNumber(String(parsed.value), decimalMark)} ${entry.readingUnit}` : null;
+  const readAs = parsed.ambiguous ? i18n.global.t('round.entry.readAs', { value: exampleNumber(String(parsed.value), decimalMark), unit: entry.readingUnit }) : null;
   return { state: 'ok', readingMm, levelMm: v.levelMm, grossL: v.grossL, usableL: v.usableL, percentFull: v.percentFull, readAs };
 }
 
 /** The entry's temperature read with the person's decimal mark, in °C, or why it is refused. */
 export function temperaturePreview(entry: RoundEntryDraft, decimalMark: DecimalMark): TemperaturePreview {
-  const parsed = parseTyped(entry.temperature, 'Temperature', EXAMPLES[entry.temperatureUnit], decimalMark);
+  const parsed = parseTyped(entry.temperature, 'temperatureField', EXAMPLES[entry.temperatureUnit], decimalMark);
   if (parsed === null) return { state: 'empty' };
   if (!parsed.ok) return { state: 'invalid', reason: parsed.reason };
   const temperatureC = convert(parsed.value, entry.temperatureUnit, 'C');
   const checked = temperatureSchema.safeParse(temperatureC);
-  if (!checked.success) return { state: 'invalid', reason: `Temperature ${checked.error.issues[0]?.message ?? 'is out of range'}` };
+  if (!checked.success) return { state: 'invalid', reason: temperatureReason(checked.error.issues[0]) };
   return { state: 'ok', temperatureC };
+}
+
+/** Why a temperature is outside the schema's range, in the screens' language, with the schema's own limits. */
+function temperatureReason(issue: { code: string; minimum?: unknown; maximum?: unknown } | undefined): string {
+  const { t } = i18n.global;
+  if (issue?.code === 'too_small' && typeof issue.minimum === 'number') return t('round.entry.temperatureTooLow', { min: formatNumberTrimmed(issue.minimum) });
+  if (issue?.code === 'too_big' && typeof issue.maximum === 'number') return t('round.entry.temperatureTooHigh', { max: formatNumberTrimmed(issue.maximum) });
+  return t('round.entry.temperatureOutOfRange');
 }
 
 export function blankEntry(tankId: number, system: UnitSystem): RoundEntryDraft {

@@ -1,6 +1,7 @@
 import { computed, shallowRef, ref, watch } from 'vue';
 import { defineStore } from 'pinia';
 import { errorMessage } from '@/api/http';
+import { i18n } from '@/i18n';
 import { submitRound } from '@/api/readings';
 import type { OutboxRound } from '@/offline/db';
 import { enqueueRound, listOutbox, markApplied, pruneAnswered, sendOutbox, type NewOutboxRound } from '@/offline/outbox';
@@ -39,7 +40,7 @@ export const useRoundOutboxStore = defineStore('round-outbox', () => {
       rounds.value = await listOutbox(id);
       problem.value = null;
     } catch (e) {
-      problem.value = `This device's outbox could not be read (${errorMessage(e)}).`;
+      problem.value = i18n.global.t('round.outbox.readUnreadable', { reason: errorMessage(e) });
     }
   }
 
@@ -74,7 +75,7 @@ export const useRoundOutboxStore = defineStore('round-outbox', () => {
       const run = await sendOutbox(id, (r) => submitRound({ farmId: r.farmId, takenAt: r.takenAt, entries: r.entries }), { force });
       schedule(run.retryInMs);
     } catch (e) {
-      problem.value = `This device's outbox could not be sent (${errorMessage(e)}).`;
+      problem.value = i18n.global.t('round.outbox.sendFailed', { reason: errorMessage(e) });
     } finally {
       sending.value = false;
     }
@@ -89,7 +90,7 @@ export const useRoundOutboxStore = defineStore('round-outbox', () => {
   /** Queues a round and tries to send it at once; returns its place in the queue. */
   async function add(round: Omit<NewOutboxRound, 'userId'>): Promise<number> {
     const id = session.user?.id;
-    if (id === undefined) throw new Error('Sign in to send a round');
+    if (id === undefined) throw new Error(i18n.global.t('round.problems.signInFirst'));
     const seq = await enqueueRound({ ...round, userId: id });
     await refresh();
     return seq;

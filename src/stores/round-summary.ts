@@ -1,4 +1,5 @@
 // The round's result summary: how many entries were stored, already stored, refused or clashed, and what is still waiting (a piece of src/stores/round.ts).
+import { i18n } from '@/i18n';
 import type { RoundRow } from './round-entry';
 
 export interface RoundSummary {
@@ -13,7 +14,7 @@ export interface RoundSummary {
   waiting: number;
   /** Some entries were sent and every typed entry is now stored. */
   complete: boolean;
-  /** "7 stored, 1 refused". */
+  /** "7 stored, 1 refused", in the screens' language. */
   text: string;
 }
 
@@ -32,12 +33,13 @@ export function summarizeRound(rows: RoundRow[]): RoundSummary {
     else if (outcome === 'conflict') conflictNames.push(row.tank.name);
     if (!row.locked && row.reading.state !== 'empty') waiting++;
   }
+  const { t } = i18n.global;
   const parts: string[] = [];
   const conflict = conflictNames.length;
-  if (stored || (!duplicate && !refused && !conflict)) parts.push(`${stored} stored`);
-  if (duplicate) parts.push(`${duplicate} already stored`);
-  if (refused) parts.push(`${refused} refused`);
-  if (conflict) parts.push(`${conflict} not stored`);
+  if (stored || (!duplicate && !refused && !conflict)) parts.push(t('round.summary.stored', stored));
+  if (duplicate) parts.push(t('round.summary.duplicate', duplicate));
+  if (refused) parts.push(t('round.summary.refused', refused));
+  if (conflict) parts.push(t('round.summary.conflict', conflict));
   return { stored, duplicate, refused, conflict, conflictNames, waiting, complete: stored + duplicate > 0 && waiting === 0, text: parts.join(', ') };
 }
 
@@ -72,5 +74,7 @@ export interface SubmitProblem {
   message: string;
 }
 
-/** What the round says while a sent round waits in the outbox for the network. */
-export const WAITING_MESSAGE = 'No connection: the round waits on this device and goes out by itself when there is signal.';
+/** What the round says while a sent round waits in the outbox for the network, in the screens' language. */
+export function waitingMessage(): string {
+  return i18n.global.t('round.problems.waiting');
+}

@@ -5,7 +5,7 @@ import { COLD_CULTURE_C } from '@shared/flags';
 import { decimalMarkOf, type DecimalMark, type UnitSystem } from '@shared/units';
 import { fetchBoard } from '@/api/board';
 import { errorMessage } from '@/api/http';
-import { currentLocale } from '@/i18n';
+import { currentLocale, i18n } from '@/i18n';
 import { isUnreachable as unreachable } from '@/offline/unreachable';
 import { fetchTanks } from '@/api/tanks';
 import type { OutboxRound } from '@/offline/db';
@@ -14,13 +14,13 @@ import { applyAnswered } from './round-answers';
 import { blankEntry, LOCKED, newEntryKey, roundRow, type RoundDraft, type RoundEntryDraft, type RoundRow } from './round-entry';
 import { useRoundOutboxStore } from './round-outbox';
 import { emptySaved, keepCopies, readSaved, writeSaved, type SavedRounds } from './round-saved';
-import { roundProgress, summarizeRound, WAITING_MESSAGE, type RoundProgress, type RoundSummary, type SubmitProblem } from './round-summary';
+import { roundProgress, summarizeRound, waitingMessage, type RoundProgress, type RoundSummary, type SubmitProblem } from './round-summary';
 import { useSessionStore } from './session';
 
 export { CULTURE_INACTIVE_BELOW_C, exampleNumber, newEntryKey, setupOf } from './round-entry';
 export type { EntryOutcome, EntryResult, ReadingPreview, RoundDraft, RoundEntryDraft, RoundRow, RowContext, TemperaturePreview } from './round-entry';
 export type { RoundProgress, RoundSummary, SubmitProblem } from './round-summary';
-export { WAITING_MESSAGE } from './round-summary';
+export { waitingMessage } from './round-summary';
 
 /**
  * The reading round of one farm: the tanks in walking order, what was typed for each (kept on the
@@ -87,7 +87,7 @@ export const useRoundStore = defineStore('round', () => {
         savedVersion.value++;
       },
       (e: unknown) => {
-        storageProblem.value = `This device would not give back its kept rounds (${errorMessage(e)}).`;
+        storageProblem.value = i18n.global.t('round.problems.keptRoundsUnreadable', { reason: errorMessage(e) });
       },
     );
     return savedLoading;
@@ -106,7 +106,7 @@ export const useRoundStore = defineStore('round', () => {
             storageProblem.value = null;
           },
           (e: unknown) => {
-            storageProblem.value = `This device would not keep the round (${errorMessage(e)}). Send it before closing the page.`;
+            storageProblem.value = i18n.global.t('round.problems.notKept', { reason: errorMessage(e) });
           },
         ),
     );
@@ -308,17 +308,17 @@ export const useRoundStore = defineStore('round', () => {
     submitProblem.value = null;
     if (withProblems.value.length) {
       const codes = withProblems.value.map((r) => r.tank.code).join(', ');
-      submitProblem.value = { kind: 'invalid', message: `Fix or clear ${codes} before sending.` };
+      submitProblem.value = { kind: 'invalid', message: i18n.global.t('round.problems.fixFirst', { codes }) };
       return;
     }
     if (awaitingAnswers.value.length) {
       const codes = awaitingAnswers.value.map((r) => r.tank.code).join(', ');
-      submitProblem.value = { kind: 'invalid', message: `Answer the question on ${codes} (or correct the reading) before sending.` };
+      submitProblem.value = { kind: 'invalid', message: i18n.global.t('round.problems.answerFirst', { codes }) };
       return;
     }
     const sending = toSend.value;
     if (!sending.length && !waitingRows.value.length) {
-      submitProblem.value = { kind: 'invalid', message: 'Type at least one sight-tube reading first.' };
+      submitProblem.value = { kind: 'invalid', message: i18n.global.t('round.problems.typeFirst') };
       return;
     }
     submitting.value = true;
@@ -334,10 +334,12 @@ export const useRoundStore = defineStore('round', () => {
       const stuck = outbox.waiting.find((r) => r.farmId === d.farmId);
       if (waitingRows.value.length && stuck) {
         const away = stuck.lastErrorStatus === 0 || stuck.lastErrorStatus === null;
-        submitProblem.value = away ? { kind: 'network', message: WAITING_MESSAGE } : { kind: 'server', message: `${stuck.lastError ?? 'The server did not answer.'} The round waits on this device and is sent again by itself.` };
+        submitProblem.value = away
+          ? { kind: 'network', message: waitingMessage() }
+          : { kind: 'server', message: i18n.global.t('round.problems.server', { reason: stuck.lastError ?? i18n.global.t('round.problems.noAnswer') }) };
       }
     } catch (e) {
-      storageProblem.value = `This device would not keep the round (${errorMessage(e)}). Keep the page open and try again.`;
+      storageProblem.value = i18n.global.t('round.problems.notQueued', { reason: errorMessage(e) });
     } finally {
       submitting.value = false;
     }
