@@ -2,14 +2,34 @@ import { ref, shallowRef, watch, type Ref } from 'vue';
 import type { SeriesPoint } from '@shared/schemas';
 import { fetchSeries } from '@/api/readings';
 import { errorMessage } from '@/api/http';
+import { i18n } from '@/i18n';
 import type { LoadStatus } from '@/stores/farms';
+
+type SeriesBucket = 'raw' | 'hour' | 'day' | 'week';
+
+/** One history window: its name in the current language (read when shown), its length and its bucket. */
+interface WindowSpec<B extends SeriesBucket> {
+  readonly label: string;
+  readonly days: number;
+  readonly bucket: B;
+}
+
+function windowSpec<B extends SeriesBucket>(key: string, days: number, bucket: B): WindowSpec<B> {
+  return {
+    get label() {
+      return i18n.global.t(`tank.history.windows.${key}`);
+    },
+    days,
+    bucket,
+  };
+}
 
 /** The history windows the tank page offers, each with the bucket that keeps its chart readable. */
 export const SERIES_WINDOWS = {
-  day: { label: 'Day', days: 1, bucket: 'raw' },
-  week: { label: 'Week', days: 7, bucket: 'hour' },
-  month: { label: 'Month', days: 30, bucket: 'day' },
-  quarter: { label: '90 days', days: 90, bucket: 'day' },
+  day: windowSpec('day', 1, 'raw'),
+  week: windowSpec('week', 7, 'hour'),
+  month: windowSpec('month', 30, 'day'),
+  quarter: windowSpec('quarter', 90, 'day'),
 } as const;
 export type SeriesWindow = keyof typeof SERIES_WINDOWS;
 

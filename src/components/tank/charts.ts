@@ -11,6 +11,7 @@ import {
 } from 'echarts/components';
 import { CanvasRenderer } from 'echarts/renderers';
 import { FONT_FAMILY, loch, moss, shale, tide } from '@/theme/preset';
+import { tankText } from './tankWords';
 
 use([LineChart, GridComponent, TooltipComponent, MarkLineComponent, CanvasRenderer]);
 
@@ -26,5 +27,12 @@ export const CHART_TEXT = { fontFamily: FONT_FAMILY, color: shale[800], fontSize
 /** The one volume the history chart draws: usable litres (above the outlet) or all the litres in the tank. */
 export type HistoryMeasure = 'usable' | 'gross';
 
-/** What each measure is called on the chart and in its chooser. */
-export const HISTORY_MEASURE_NAMES: Readonly<Record<HistoryMeasure, string>> = { usable: 'Usable', gross: 'In the tank' };
+/** What each measure is called on the chart and in its chooser, in the current language (read when shown). */
+export const HISTORY_MEASURE_NAMES: Readonly<Record<HistoryMeasure, string>> = {
+  get usable() {
+    return tankText('history.measures.usable');
+  },
+  get gross() {
+    return tankText('history.measures.gross');
+  },
+};
