@@ -8,9 +8,15 @@
 // A socket lives no longer than the session it was opened with: it closes when that session is
 // signed out, ended by a password reset or deactivation, or expires (idle or absolute), and only
 // the app's own origin (PUBLIC_URL) may open one.
+// With several server processes (Redis, server/cluster) socket.io runs on the Redis adapter, so a
+// room's push reaches its sockets on every process; the farm sets watched anywhere are listed in
+// Redis (cluster/farm-sets.ts), so the process where a change happened builds the one delta of
+// each set for all of them.
 import type { Server as HttpServer } from 'node:http';
 import type { RequestHandler } from 'express';
 import { Server } from 'socket.io';
+import { clusterOf } from './cluster';
+import { WATCH_RENEW_MS } from './cluster/farm-sets';
 import type { ServerEventPayload, SessionUser } from '@shared/schemas';
 import type { AppContext } from './context';
 import { onEvent, type BoardChange, type RealtimeServer, type RealtimeSocket, type SocketSession } from './events';
@@ -45,6 +51,9 @@ export function attachRealtime(ctx: AppContext, http: HttpServer, sessionMiddlew
     },
   });
   io.engine.use(sessionMiddleware);
+  const cluster = clusterOf(ctx);
+  if (cluster.socketAdapter) io.adapter(cluster.socketAdapter.adapter);
+  const watchedSets = cluster.watchedSets;
 
   // Sessions (by id) and users (all their sessions) that ended lately, and when.
   const ended = new Map<string, number>();
@@ -86,29 +95,41 @@ export function attachRealtime(ctx: AppContext, http: HttpServer, sessionMiddlew
     void (async () => {
       await socket.join([sessionRoom(session.sid), userRoom(session.userId)]);
       await joinRooms(socket, actor);
-      await deltas.watch(actor.organisationId, actor.farmIds);
+      const setKey = farmSetKey(actor.organisationId, actor.farmIds);
+      await Promise.all([deltas.watch(actor.organisationId, actor.farmIds), watchedSets?.add(actor.organisationId, [setKey])]);
       // Joined: every delta numbered after this reaches the socket.
-      socket.emit('board:stream', streamPosition(ctx, farmSetKey(actor.organisationId, actor.farmIds)));
+      socket.emit('board:stream', await streamPosition(ctx, setKey));
     })().catch((err: unknown) => {
       ctx.logger.error({ err }, 'socket set-up failed');
       socket.disconnect(true);
     });
   });
 
-  /** The changed farms of one organisation, as one delta per watched farm set that shows some of them. */
-  const pushFarms = async (organisationId: number, farmIds: Iterable<number>, since: number) => {
+  /** The farm sets of an organisation watched on this process (its socket rooms). */
+  const localSetKeys = (organisationId: number) => {
     const prefix = setPrefix(organisationId);
-    const sets: WatchedSet[] = [];
-    for (const room of io.of('/').adapter.rooms.keys()) {
-      if (!room.startsWith(prefix)) continue;
-      const key = room.slice(SET_ROOM.length);
-      sets.push({ key, farmIds: new Set(room.slice(prefix.length).split(',').map(Number)) });
-    }
+    return [...io.of('/').adapter.rooms.keys()].filter((room) => room.startsWith(prefix)).map((room) => room.slice(SET_ROOM.length));
+  };
+  /** The changed farms of one organisation, as one delta per watched farm set (on any process) that shows some of them. */
+  const pushFarms = async (organisationId: number, farmIds: Iterable<number>, since: number) => {
+    const keys = new Set(localSetKeys(organisationId));
+    // Without the list (Redis away) no delta can be numbered either: the build below refuses.
+    if (watchedSets) for (const key of await watchedSets.list(organisationId)) keys.add(key);
+    const prefix = `${organisationId}:`;
+    const sets: WatchedSet[] = [...keys].map((key) => ({ key, farmIds: new Set(key.slice(prefix.length).split(',').map(Number)) }));
     for (const { key, delta } of await deltas.build(organisationId, farmIds, sets)) {
       // Encoded once by socket.io for the whole room.
       io.to(`${SET_ROOM}${key}`).emit('board:delta', delta);
       recordTiming(ctx, 'board-push', Date.now() - since);
     }
+  };
+  // While Redis is away every push fails the same way: once every 10 s in the log is enough. The
+  // clients fetch the board once it returns (a new stream, board-sequences.ts).
+  let pushFailedAt = 0;
+  const pushFailed = (err: unknown) => {
+    if (Date.now() - pushFailedAt < 10_000) return;
+    pushFailedAt = Date.now();
+    ctx.logger.warn({ err }, 'board push failed');
   };
   /** Per organisation: the changed farms and when the first of those changes was heard of. */
   const dirty = new Map<number, { farms: Set<number>; since: number }>();
@@ -123,7 +144,7 @@ export function attachRealtime(ctx: AppContext, http: HttpServer, sessionMiddlew
     lastFlushAt = Date.now();
     const batch = [...dirty.entries()];
     dirty.clear();
-    for (const [organisationId, { farms, since }] of batch) await pushFarms(organisationId, farms, since).catch((err) => ctx.logger.error({ err }, 'board push failed'));
+    for (const [organisationId, { farms, since }] of batch) await pushFarms(organisationId, farms, since).catch(pushFailed);
     flushing = false;
     if (dirty.size) arm();
   };
@@ -196,6 +217,20 @@ export function attachRealtime(ctx: AppContext, http: HttpServer, sessionMiddlew
       .finally(() => (sweeping = false));
   }, EXPIRY_SWEEP_MS);
   sweeper.unref();
+  // The sets this process's sockets watch stay listed for the other processes while the sockets stay.
+  const renewer = watchedSets
+    ? setInterval(() => {
+        const byOrg = new Map<number, string[]>();
+        for (const room of io.of('/').adapter.rooms.keys()) {
+          if (!room.startsWith(SET_ROOM)) continue;
+          const key = room.slice(SET_ROOM.length);
+          const org = Number(key.slice(0, key.indexOf(':')));
+          byOrg.set(org, [...(byOrg.get(org) ?? []), key]);
+        }
+        for (const [org, keys] of byOrg) void watchedSets.add(org, keys);
+      }, WATCH_RENEW_MS)
+    : null;
+  renewer?.unref();
 
   // io.close() ends with closing the HTTP server.
   http.once('close', () => {
@@ -207,6 +242,8 @@ export function attachRealtime(ctx: AppContext, http: HttpServer, sessionMiddlew
     ctx.events.off('user-event', onUserEvent);
     stopSessionEnded();
     clearInterval(sweeper);
+    if (renewer) clearInterval(renewer);
+    deltas.close();
     if (timer) clearTimeout(timer);
   });
   return io;

@@ -3,8 +3,18 @@
 // they are on and the totals across the set; it is built once per change and farm set and sent to
 // the set's socket.io room. GET /api/board says up to which number it includes (its `stream`), so a
 // client applies the deltas after that in order and fetches the board again on a gap.
+//
+// With several server processes (Redis), the process where a change happened builds its delta. The
+// builds of one organisation take turns across the processes (server/cluster/turns.ts) and each is
+// counted; the farm changes a build sends go out on the bus, and every other process applies them
+// to its own copy of the farms, so whichever process builds next compares with what the clients
+// were sent. A process that missed a build (the bus dropped it, it started late) forgets its copy
+// of that organisation's farms and reads them whole once.
 import { totalsOf } from '@shared/board';
 import { BOARD_DELTA_VERSION, type BoardDelta, type FarmBoard, type FarmDelta, type TankTile } from '@shared/schemas';
+import { clusterOf } from '../cluster';
+import { withinMs } from '../cluster/redis';
+import { redisTurns } from '../cluster/turns';
 import type { AppContext } from '../context';
 import { boardOf } from './board';
 import { boardSequences } from './board-sequences';
@@ -32,15 +42,62 @@ const KEPT_FARM_MS = 30_000;
 // Days of cover count down with the clock: a tile whose other figures stayed is not a change.
 const shownOf = (tile: TankTile) => JSON.stringify({ ...tile, daysOfCover: null });
 
+/** What one build sent, on the bus: its number in the organisation's count and its farm changes (null: lost, forget the farms). */
+interface SentFarms {
+  organisationId: number;
+  n: number;
+  farms: FarmDelta[] | null;
+  removedFarmIds: number[];
+}
+const SENT_TOPIC = 'board-sent';
+const builtKey = (organisationId: number) => `brimstock:board:built:${organisationId}`;
+/** How long a build waits for the bus to bring the previous build's farm changes before reading the farms whole. */
+const CATCH_UP_MS = 100;
+
 /** Builds the deltas of one server: keeps each organisation's farms as last sent to compare new reads with. */
 export function createDeltaBuilder(ctx: AppContext) {
   const kept = new Map<number, Map<number, KeptFarm>>();
   /** Reads under way of farms a new socket watches that are not kept yet, per organisation. */
   const priming = new Map<number, Promise<void>>();
+  const cluster = clusterOf(ctx);
+  const redis = cluster.redis;
+  const turns = redis ? redisTurns(redis) : null;
+  /** Per organisation, the last build (of any process) whose farm changes the kept farms include. */
+  const applied = new Map<number, number>();
 
   const keepFarm = (farms: Map<number, KeptFarm>, fresh: FarmBoard, readAt: number) => {
     const tiles = new Map(fresh.tanks.map((tile) => [tile.tankId, { tile, shown: shownOf(tile) }]));
     farms.set(fresh.farmId, { name: fresh.name, totals: fresh.totals, tiles, readAt });
+  };
+
+  /** Another process's build: its farm changes applied to the kept farms, or the farms forgotten when one was missed. */
+  const heard = ({ organisationId, n, farms: sent, removedFarmIds }: SentFarms) => {
+    const at = applied.get(organisationId) ?? 0;
+    if (n <= at) return;
+    applied.set(organisationId, n);
+    const farms = kept.get(organisationId);
+    if (!farms) return;
+    if (n !== at + 1 || !sent) return void farms.clear();
+    for (const change of sent) {
+      const farm = farms.get(change.farmId);
+      if (!farm) continue;
+      farm.name = change.name;
+      farm.totals = change.totals;
+      for (const tile of change.tanks) farm.tiles.set(tile.tankId, { tile, shown: shownOf(tile) });
+      for (const id of change.removedTankIds) farm.tiles.delete(id);
+    }
+    for (const id of removedFarmIds) farms.delete(id);
+  };
+  const stopHearing = redis ? cluster.bus.subscribe(SENT_TOPIC, (body) => heard(body as SentFarms)) : () => undefined;
+
+  /** This process's build number `n` of the organisation, once the kept farms include every build before it. */
+  const countBuild = async (organisationId: number): Promise<number> => {
+    const n = await withinMs(redis!.incr(builtKey(organisationId)), 1_000, 'the board build count');
+    const until = Date.now() + CATCH_UP_MS;
+    while ((applied.get(organisationId) ?? 0) < n - 1 && Date.now() < until) await new Promise((r) => setTimeout(r, 2));
+    if ((applied.get(organisationId) ?? 0) !== n - 1) kept.get(organisationId)?.clear();
+    applied.set(organisationId, n);
+    return n;
   };
 
   /**
@@ -48,6 +105,8 @@ export function createDeltaBuilder(ctx: AppContext) {
    * it sends only what changed (the socket's client has the rest from GET /api/board).
    */
   function watch(organisationId: number, farmIds: readonly number[]): Promise<void> {
+    // Across processes a farm read now may be newer than what the clients were sent: the first build reads it instead.
+    if (redis) return Promise.resolve();
     const farms = kept.get(organisationId) ?? new Map<number, KeptFarm>();
     kept.set(organisationId, farms);
     const missing = farmIds.filter((id) => !farms.has(id));
@@ -80,8 +139,24 @@ export function createDeltaBuilder(ctx: AppContext) {
     const changed = new Set(changedFarmIds);
     const touched = sets.filter((s) => [...changed].some((id) => s.farmIds.has(id)));
     if (!touched.length) return [];
-    const sequences = boardSequences(ctx);
-    const numbered = touched.map((set) => ({ set, seq: sequences.next(set.key) }));
+    if (!turns) return buildTouched(organisationId, changed, touched, null);
+    return turns.take(`board:${organisationId}`, async () => {
+      const n = await countBuild(organisationId);
+      try {
+        return await buildTouched(organisationId, changed, touched, n);
+      } catch (err) {
+        // The other processes cannot know what this build changed: they read the farms whole next time.
+        cluster.bus.publish(SENT_TOPIC, { organisationId, n, farms: null, removedFarmIds: [] } satisfies SentFarms);
+        kept.get(organisationId)?.clear();
+        throw err;
+      }
+    });
+  }
+
+  /** The deltas of `touched`; `n`: this build's number in the organisation's count across processes (null: one process). */
+  async function buildTouched(organisationId: number, changed: Set<number>, touched: WatchedSet[], n: number | null): Promise<{ key: string; delta: BoardDelta }[]> {
+    const { epoch, seqs } = await boardSequences(ctx).next(touched.map((set) => set.key));
+    const numbered = touched.map((set, i) => ({ set, seq: seqs[i] }));
 
     let farms = kept.get(organisationId);
     if (!farms) kept.set(organisationId, (farms = new Map()));
@@ -113,6 +188,7 @@ export function createDeltaBuilder(ctx: AppContext) {
       const totalsMoved = !before || before.name !== fresh.name || JSON.stringify(before.totals) !== JSON.stringify(fresh.totals);
       if (changedTiles.length || removedTankIds.length || totalsMoved) farmDeltas.set(farmId, { farmId, name: fresh.name, totals: fresh.totals, tanks: changedTiles, removedTankIds });
     }
+    if (n !== null) cluster.bus.publish(SENT_TOPIC, { organisationId, n, farms: [...farmDeltas.values()], removedFarmIds: [...removedFarms] } satisfies SentFarms);
 
     return numbered.map(({ set, seq }) => {
       const shown = [...set.farmIds].flatMap((id) => {
@@ -122,7 +198,7 @@ export function createDeltaBuilder(ctx: AppContext) {
       shown.sort((a, b) => a.name.localeCompare(b.name));
       const delta: BoardDelta = {
         version: BOARD_DELTA_VERSION,
-        epoch: sequences.epoch,
+        epoch,
         seq,
         generatedAt: board.generatedAt,
         totals: totalsOf(shown.flatMap((f) => [...f.tiles.values()].map((t) => t.tile))),
@@ -133,5 +209,5 @@ export function createDeltaBuilder(ctx: AppContext) {
     });
   }
 
-  return { watch, build };
+  return { watch, build, close: stopHearing };
 }

@@ -10,8 +10,9 @@ import { daysOfCoverSince } from '@shared/forecast';
 import { stockFigures, usableCapacityL } from '@shared/readings';
 import { datesEndingOn, farmDayOf } from '@shared/time';
 import { TANK_CONTENTS, type BoardHistory, type BoardHistoryFarm, type BoardSnapshot, type FarmBoard, type SessionUser, type StockBoard, type TankContents, type TankTile } from '@shared/schemas';
+import { clusterOf } from '../cluster';
 import type { AppContext } from '../context';
-import { boardSequences, farmSetKey, streamPosition } from './board-sequences';
+import { farmSetKey, streamPosition } from './board-sequences';
 import { queueForecastRefresh } from './forecasts';
 
 const gzipAsync = promisify(gzip);
@@ -85,7 +86,7 @@ async function boardRows(ctx: AppContext, organisationId: number, farmIds: numbe
 /** The board for the farms the actor may see, with the position of their delta stream it includes. */
 export async function stockBoard(ctx: AppContext, actor: SessionUser): Promise<StockBoard> {
   // Taken before the read: every delta numbered up to here was read before this board.
-  const stream = streamPosition(ctx, farmSetKey(actor.organisationId, actor.farmIds));
+  const stream = await streamPosition(ctx, farmSetKey(actor.organisationId, actor.farmIds));
   return { ...(await boardOf(ctx, actor.organisationId, actor.farmIds)), stream };
 }
 
@@ -164,21 +165,35 @@ interface BoardKeep {
   entries: Map<string, BoardEntry>;
   /** Checks and rebuilds under way, per key. */
   flights: Map<string, { generation: number; board: Promise<BoardEntry> }>;
+  /** A bus message saying the boards moved on is about to go. */
+  telling: boolean;
 }
 const keeps = new WeakMap<AppContext, BoardKeep>();
 
 function keepOf(ctx: AppContext): BoardKeep {
   const kept = keeps.get(ctx);
   if (kept) return kept;
-  const keep: BoardKeep = { generation: 0, entries: new Map(), flights: new Map() };
-  for (const event of BOARD_EVENTS) ctx.events.on(event, () => void keep.generation++);
+  const keep: BoardKeep = { generation: 0, entries: new Map(), flights: new Map(), telling: false };
+  for (const event of BOARD_EVENTS) ctx.events.on(event, () => invalidateBoards(ctx));
+  // Another server process's write or event: its kept boards moved on, so do ours.
+  clusterOf(ctx).bus.subscribe(BOARD_TOPIC, () => void keep.generation++);
   keeps.set(ctx, keep);
   return keep;
 }
 
-/** Marks every kept board of this server out of date (called after any write request). */
+const BOARD_TOPIC = 'boards-changed';
+
+/** Marks every kept board out of date, on this server process and (through the bus) on the others; called after any write request. */
 export function invalidateBoards(ctx: AppContext): void {
-  keepOf(ctx).generation++;
+  const keep = keepOf(ctx);
+  keep.generation++;
+  // Writes that finish together are told once.
+  if (keep.telling) return;
+  keep.telling = true;
+  queueMicrotask(() => {
+    keep.telling = false;
+    clusterOf(ctx).bus.publish(BOARD_TOPIC, null);
+  });
 }
 
 async function boardFingerprint(ctx: AppContext, organisationId: number, farmIds: number[]): Promise<string> {
@@ -199,7 +214,10 @@ async function boardFingerprint(ctx: AppContext, organisationId: number, farmIds
  * Requests that find the copy out of date at the same moment share one check and one rebuild.
  */
 export async function stockBoardJson(ctx: AppContext, actor: SessionUser): Promise<KeptBoard> {
-  if (!actor.farmIds.length) return { json: Buffer.from(JSON.stringify(await stockBoard(ctx, actor))), etag: `"board-empty-${boardSequences(ctx).epoch}"` };
+  if (!actor.farmIds.length) {
+    const empty = await stockBoard(ctx, actor);
+    return { json: Buffer.from(JSON.stringify(empty)), etag: `"board-empty-${empty.stream.epoch}"` };
+  }
   const keep = keepOf(ctx);
   const farmIds = [...actor.farmIds].sort((a, b) => a - b);
   const key = farmSetKey(actor.organisationId, farmIds);
@@ -224,7 +242,7 @@ async function refreshBoard(ctx: AppContext, keep: BoardKeep, key: string, organ
     return current;
   }
   // The stream position is taken before the read, so the deltas numbered after it carry nothing older than this board.
-  const stream = streamPosition(ctx, key);
+  const stream = await streamPosition(ctx, key);
   const json = Buffer.from(JSON.stringify({ ...(await boardOf(ctx, organisationId, farmIds)), stream } satisfies StockBoard));
   const builtAt = Date.now();
   const entry: BoardEntry = { fingerprint, generation, builtAt, checkedAt: builtAt, json, etag: `"board-${createHash('sha1').update(json).digest('base64url')}"` };

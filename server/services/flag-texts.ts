@@ -4,6 +4,7 @@
 // sends them through the SMS SDK, trying a failed one again after a doubling wait up to SMS_MAX_ATTEMPTS.
 import { Op } from 'sequelize';
 import type { FlagKind, Role } from '@shared/schemas';
+import { startPeriodicJob } from '../cluster/periodic-job';
 import type { AppContext } from '../context';
 import type { Flag, User } from '../models';
 import { isPassingFailure } from '../sms/sender';
@@ -141,14 +142,15 @@ function drainSoon(ctx: AppContext): void {
   void drainTextQueue(ctx).catch((err) => ctx.logger.error({ err }, 'sending flag texts failed'));
 }
 
-/** Background job beside the flag rules: due texts every `everyMs`, daily summaries every `digestEveryMs`. Returns a stop function. */
+/**
+ * Background job beside the flag rules: due texts every `everyMs`, daily summaries every `digestEveryMs`;
+ * of several server processes one runs each period's turn (server/cluster/periodic-job.ts). Returns a stop function.
+ */
 export function attachTextQueue(ctx: AppContext, opts: { everyMs?: number; digestEveryMs?: number } = {}): () => void {
-  const sending = setInterval(() => drainSoon(ctx), opts.everyMs ?? 5_000);
-  const digests = setInterval(() => void queueTextDigests(ctx).catch((err) => ctx.logger.error({ err }, 'text digests failed')), opts.digestEveryMs ?? 10 * 60_000);
-  sending.unref();
-  digests.unref();
+  const stopSending = startPeriodicJob(ctx, { name: 'text-send', periodMs: opts.everyMs ?? 5_000, work: () => drainTextQueue(ctx) });
+  const stopDigests = startPeriodicJob(ctx, { name: 'text-digest', periodMs: opts.digestEveryMs ?? 10 * 60_000, work: () => queueTextDigests(ctx) });
   return () => {
-    clearInterval(sending);
-    clearInterval(digests);
+    stopSending();
+    stopDigests();
   };
 }

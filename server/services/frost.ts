@@ -6,6 +6,7 @@
 import type { FlagCondition } from '@shared/flags';
 import { FROST_AHEAD_HOURS, frostAheadMessage, frostAheadOf, watchedForFrost } from '@shared/flags';
 import type { FarmFrost, ForecastHour, SessionUser } from '@shared/schemas';
+import { startPeriodicJob } from '../cluster/periodic-job';
 import type { AppContext } from '../context';
 import type { Farm, Flag } from '../models';
 import { ForecastUnavailable, fetchHourlyAirForecast } from '../weather/client';
@@ -77,27 +78,26 @@ export async function checkAllFarmsFrost(ctx: AppContext): Promise<{ farms: numb
 
 /**
  * Runs the frost check once `firstMs` after start (null: not) and then every `everyMs` (default the
- * WEATHER_EVERY_MINUTES setting); a run still going when the next is due is not doubled. Returns a stop function.
+ * WEATHER_EVERY_MINUTES setting); a run still going when the next is due is not doubled. Of several
+ * server processes one runs each period's check (server/cluster/periodic-job.ts). Returns a stop function.
  */
 export function attachFrostWatch(ctx: AppContext, opts: { everyMs?: number; firstMs?: number | null } = {}): () => void {
   let running: Promise<void> | null = null;
   const run = () => {
-    if (running) return;
+    if (running) return running;
     running = checkAllFarmsFrost(ctx)
       .then(() => undefined)
-      .catch((err) => ctx.logger.error({ err }, 'frost check failed'))
       .finally(() => {
         running = null;
       });
+    return running;
   };
-  const every = setInterval(run, opts.everyMs ?? ctx.config.weather.everyMs);
-  every.unref();
-  const first = opts.firstMs === null ? null : setTimeout(run, opts.firstMs ?? 500);
-  first?.unref();
-  return () => {
-    clearInterval(every);
-    if (first) clearTimeout(first);
-  };
+  return startPeriodicJob(ctx, {
+    name: 'frost-watch',
+    periodMs: opts.everyMs ?? ctx.config.weather.everyMs,
+    firstAfterMs: opts.firstMs === null ? undefined : (opts.firstMs ?? 500),
+    work: run,
+  });
 }
 
 /** The farm's stored forecast for the next 48 hours, its threshold and whether it is old (GET /api/farms/:id/frost). */
