@@ -7,6 +7,7 @@ import express, { type ErrorRequestHandler, type Router } from 'express';
 import { pinoHttp } from 'pino-http';
 import type { AppContext } from './context';
 import { AppError } from './errors';
+import { errorIn, requestLanguage } from './i18n';
 import { DATABASE_RETRY_AFTER_S, isDatabaseUnavailable } from './db-errors';
 import { requestLogSerializers } from './logger';
 import { loadActor } from './middleware/access';
@@ -148,6 +149,8 @@ function errorHandler(ctx: AppContext): ErrorRequestHandler {
     // Every 503 is the database (or a service behind it) being away for a moment: say when to ask again.
     if (status === 503) res.set('Retry-After', String(DATABASE_RETRY_AFTER_S));
     if (status >= 500) (req.log ?? ctx.logger).error({ err }, 'request failed');
+    // In the language of the person asking (their choice, else their browser's).
+    body.message = errorIn(body.message, requestLanguage(req));
     res.status(status).json({ error: body });
   };
 }

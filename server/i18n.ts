@@ -18,6 +18,8 @@ import {
 } from '@intlify/core-base';
 import { DEFAULT_LANGUAGE, LANGUAGES, LANGUAGE_LOCALES, isLanguage, type Language } from '@shared/i18n/languages';
 import { PLURAL_RULES } from '@shared/i18n/plural';
+import { knownMessages, sayKnown } from '@shared/i18n/known-messages';
+import { useCatalogueZodMessages } from '@shared/i18n/zod-messages';
 
 registerMessageCompiler(compile);
 registerMessageResolver(resolveValue);
@@ -50,6 +52,21 @@ function core(): CoreContext<string> {
     fallbackWarn: false,
   }) as CoreContext<string>;
   return context;
+}
+
+function englishArea(area: string): Messages {
+  return ((core().messages[DEFAULT_LANGUAGE] as Messages)[area] ?? {}) as Messages;
+}
+
+// zod's own messages become the English of area `errors`, which errorIn then says in the person's language.
+useCatalogueZodMessages(englishArea('errors'));
+let knownErrors: ReturnType<typeof knownMessages> | null = null;
+
+/** An API error message (English, from a service or a schema, maybe "field: …") in `language` when the catalogue knows it. */
+export function errorIn(message: string, language: Language): string {
+  if (language === DEFAULT_LANGUAGE) return message;
+  knownErrors ??= knownMessages('errors', englishArea('errors'));
+  return sayKnown(message, knownErrors, (key, named) => tr(language, key, named));
 }
 
 /** A translating function bound to one language: `t('mail.flag.subject', { count })`, `t('texts.digest', { n }, n)` for plurals. */

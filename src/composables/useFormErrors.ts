@@ -2,6 +2,7 @@ import { ref, type Ref } from 'vue';
 import { fieldErrors } from '@shared/schemas';
 import type { z } from 'zod';
 import { ApiError, errorMessage } from '@/api/http';
+import { sayError } from '@/i18n';
 
 export interface UseFormErrorsOptions {
   /** Fields this form shows; a server error naming one of them goes under that field. */
@@ -45,7 +46,9 @@ export function useFormErrors(options: UseFormErrorsOptions): UseFormErrors {
     const all = fieldErrors(result.error);
     const shown: Record<string, string> = {};
     const rest: string[] = [];
-    for (const [path, message] of Object.entries(all)) {
+    for (const [path, english] of Object.entries(all)) {
+      // The schemas write English; the catalogue says what it knows in the screens' language.
+      const message = sayError(english);
       // "farmIds.2" belongs under the farmIds field.
       const field = options.fields.find((f) => path === f || path.startsWith(`${f}.`));
       if (field) shown[field] ??= message;

@@ -2,6 +2,8 @@ import { createI18n } from 'vue-i18n';
 import { setNumberLocale } from '@shared/units';
 import { DEFAULT_LANGUAGE, LANGUAGES, LANGUAGE_LOCALES, languageFrom, type Language } from '@shared/i18n/languages';
 import { PLURAL_RULES } from '@shared/i18n/plural';
+import { knownMessages, sayKnown } from '@shared/i18n/known-messages';
+import { useCatalogueZodMessages } from '@shared/i18n/zod-messages';
 
 type Messages = Record<string, unknown>;
 
@@ -39,11 +41,13 @@ const datetimeFormats = Object.fromEntries(
   ]),
 ) as Record<Language, Record<string, Intl.DateTimeFormatOptions>>;
 
+const messages = messagesByLanguage();
+
 export const i18n = createI18n({
   legacy: false,
   locale: DEFAULT_LANGUAGE,
   fallbackLocale: DEFAULT_LANGUAGE,
-  messages: messagesByLanguage(),
+  messages,
   pluralRules: PLURAL_RULES,
   numberFormats,
   datetimeFormats,
@@ -59,6 +63,18 @@ export function currentLanguage(): Language {
 /** The BCP 47 locale (for Intl) of the language every screen speaks now: "en-US", "es-ES", "fr-FR". */
 export function currentLocale(): string {
   return LANGUAGE_LOCALES[currentLanguage()];
+}
+
+// zod's own messages (where a schema gives none) are the English of area `errors`; sayError says them, and the
+// schemas' own English messages the catalogue knows, in the screens' language.
+const englishErrors = (messages[DEFAULT_LANGUAGE].errors ?? {}) as Record<string, unknown>;
+useCatalogueZodMessages(englishErrors);
+const knownErrors = knownMessages('errors', englishErrors);
+
+/** A check's message (English, from a shared schema, maybe "field: …") in the screens' language when the catalogue knows it. */
+export function sayError(message: string): string {
+  if (currentLanguage() === DEFAULT_LANGUAGE) return message;
+  return sayKnown(message, knownErrors, (key, named) => i18n.global.t(key, named));
 }
 
 type LanguageListener = (language: Language) => void;

@@ -1,0 +1,79 @@
+// Messages the server and the shared schemas write in English, read back as catalogue entries so
+// they can be said in another language: each English message of a catalogue area is a pattern
+// ("{what} not found" matches "Tank not found"), and a text that matches one is that key with
+// those values. A "field: message" text keeps its field path in front.
+
+/** A catalogue key and the values its placeholders took in the English text. */
+export interface KnownMessage {
+  key: string;
+  named: Record<string, string>;
+}
+
+interface Pattern {
+  key: string;
+  names: string[];
+  regex: RegExp;
+  /** Fixed characters in the pattern: the more, the more specific ("Tank not found" before "{what} not found"). */
+  fixed: number;
+}
+
+const escapeRegex = (s: string) => s.replace(/[.*+?^${}()|[\]\\]/g, '\\$&');
+
+/** Every message of a (nested) catalogue area as dotted key → English text. */
+function flatten(tree: Record<string, unknown>, prefix: string): [string, string][] {
+  return Object.entries(tree).flatMap(([k, v]) => {
+    const key = `${prefix}.${k}`;
+    if (typeof v === 'string') return [[key, v] as [string, string]];
+    return v && typeof v === 'object' ? flatten(v as Record<string, unknown>, key) : [];
+  });
+}
+
+/**
+ * A reader of the English messages of catalogue `area` (its messages object): `match(text)` gives
+ * the key and values of the most specific message the text is, or null when it is none of them.
+ */
+export function knownMessages(area: string, english: Record<string, unknown>): { match(text: string): KnownMessage | null } {
+  const patterns: Pattern[] = flatten(english, area)
+    .filter(([, text]) => !text.includes('|'))
+    .map(([key, text]) => {
+      const names: string[] = [];
+      let regex = '';
+      let fixed = 0;
+      for (const part of text.split(/(\{\s*[A-Za-z_]\w*\s*\})/)) {
+        const name = /^\{\s*([A-Za-z_]\w*)\s*\}$/.exec(part)?.[1];
+        if (name) {
+          names.push(name);
+          regex += '(.+?)';
+        } else {
+          regex += escapeRegex(part);
+          fixed += part.length;
+        }
+      }
+      return { key, names, regex: new RegExp(`^${regex}$`), fixed };
+    })
+    .sort((a, b) => b.fixed - a.fixed);
+  return {
+    match(text: string): KnownMessage | null {
+      for (const p of patterns) {
+        const m = p.regex.exec(text);
+        if (m) return { key: p.key, named: Object.fromEntries(p.names.map((n, i) => [n, m[i + 1]])) };
+      }
+      return null;
+    },
+  };
+}
+
+/**
+ * `text` said through `translate` when it is a known message (or "field: known message"); as it was otherwise.
+ * `translate` gets the key and the values found, e.g. ("errors.notFound.generic", { what: "Sensor" }).
+ */
+export function sayKnown(text: string, known: { match(text: string): KnownMessage | null }, translate: (key: string, named: Record<string, string>) => string): string {
+  const whole = known.match(text);
+  if (whole) return translate(whole.key, whole.named);
+  const field = /^([A-Za-z_][\w.]*): (.+)$/s.exec(text);
+  if (field) {
+    const rest = known.match(field[2]);
+    if (rest) return `${field[1]}: ${translate(rest.key, rest.named)}`;
+  }
+  return text;
+}
