@@ -11,7 +11,7 @@ import { startSmsFakeFor } from '../server/sms/fake';
 import { startFakeWeather } from '../server/weather/fake';
 import { loadDemoScenario } from '../server/services/demo';
 import { startHaproxy } from './lib/haproxy';
-import { ensureDatabase, persistentSecret, startMariaDb } from './lib/mariadb';
+import { ensureDatabase, persistentSecret, startMariaDb, startReplica } from './lib/mariadb';
 import { startRedis } from './lib/redis';
 import { supervise } from './lib/supervisor';
 
@@ -38,12 +38,31 @@ function npx(args: string[], env: NodeJS.ProcessEnv = process.env) {
   return spawnSync(join(root, 'node_modules', '.bin', args[0]), args.slice(1), { stdio: 'inherit', cwd: root, env });
 }
 
-/** Starts MariaDB and the mail receiver, migrates and seeds; returns the environment for the server. */
-async function prepare() {
+/**
+ * Starts MariaDB (and, with `replica`, a second one as its GTID replica unless DB_REPLICAS names others) and
+ * the mail receiver, migrates and seeds; returns the environment for the server.
+ */
+async function prepare(opts: { replica?: boolean } = {}) {
   const config = loadConfig();
   const secret = persistentSecret(config.dataDir, 'session-secret', () => randomBytes(32).toString('hex'));
   console.log(`Data folder: ${config.dataDir}`);
-  const db = await startMariaDb({ baseDir: config.dataDir, port: config.db.port });
+  const localReplica = opts.replica === true && !process.env.DB_REPLICAS;
+  const replicaPort = config.db.replicas.hosts.find((h) => h.host === config.db.host)?.port ?? config.db.port + 1;
+  // A primary that ever had a replica keeps its binary log even when run alone, so the replica misses nothing.
+  const logged = localReplica || existsSync(join(config.dataDir, 'mariadb-replica'));
+  const primary = await startMariaDb({ baseDir: config.dataDir, port: config.db.port, ...(logged ? { replication: { serverId: 1 } } : {}) });
+  const replica = localReplica ? await startReplica(primary, { baseDir: config.dataDir, port: replicaPort }).catch(async (err: unknown) => {
+    await primary.stop();
+    throw err;
+  }) : null;
+  if (replica) console.log(`MariaDB replica on 127.0.0.1:${replica.port} (GTID, read-only; ${replica.dataDir}): board and history reads go to it.`);
+  const db = {
+    ...primary,
+    async stop() {
+      await replica?.stop();
+      await primary.stop();
+    },
+  };
   await ensureDatabase(db.socketPath, config.db);
   const mailCapture = await startMailCapture({ port: config.mail.port, outboxDir: config.outboxDir });
   // The SMS fake closes with the mail receiver, so every path that stops one stops both.
@@ -60,12 +79,18 @@ async function prepare() {
   if (config.demo && (await loadDemoScenario(database, { onlyIfEmpty: true }))) console.log('Demo scenario loaded (sign-ins are in README.md).');
   await database.sequelize.close();
   // The server talks to its own MariaDB over the Unix socket: half the cost of TCP per query.
-  const env: NodeJS.ProcessEnv = { ...process.env, SESSION_SECRET: process.env.SESSION_SECRET ?? secret, DB_SOCKET: process.env.DB_SOCKET ?? db.socketPath, ...(weather ? { WEATHER_URL: weather.url } : {}) };
+  const env: NodeJS.ProcessEnv = {
+    ...process.env,
+    SESSION_SECRET: process.env.SESSION_SECRET ?? secret,
+    DB_SOCKET: process.env.DB_SOCKET ?? db.socketPath,
+    ...(replica ? { DB_REPLICA_PORT: String(replica.port) } : {}),
+    ...(weather ? { WEATHER_URL: weather.url } : {}),
+  };
   return { config, db, mail, env };
 }
 
 async function start(servers: number) {
-  const { config, db, mail, env } = await prepare();
+  const { config, db, mail, env } = await prepare({ replica: servers > 1 });
   if (clientIsStale(config.clientDir)) {
     console.log('Building the client…');
     if (npx(['vite', 'build', '--logLevel', 'warn'], { ...process.env, BUILD_OUT_DIR: config.clientDir }).status !== 0) {
@@ -121,7 +146,7 @@ async function startCluster(config: ReturnType<typeof loadConfig>, servers: numb
       await haproxy.stop();
       await redis?.stop();
       await stopRest();
-      console.log(`Stopped the ${servers} server processes, haproxy, ${redis ? 'Redis, ' : ''}the mail receiver and MariaDB.`);
+      console.log(`Stopped the ${servers} server processes, haproxy, ${redis ? 'Redis, ' : ''}the mail receiver and MariaDB${env.DB_REPLICA_PORT ? ' with its replica' : ''}.`);
     },
   });
   haproxy.child.once('exit', (code, signal) => {

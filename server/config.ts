@@ -20,6 +20,14 @@ const schema = z.object({
   DB_USER: z.string().default('brimstock'),
   DB_PASSWORD: z.string().default('brimstock-dev'),
   DB_POOL_MAX: z.coerce.number().int().min(1).max(200).default(10),
+  DB_REPLICA_PORT: z.coerce.number().int().min(1).max(65535).optional(),
+  DB_REPLICAS: z
+    .string()
+    .regex(/^\s*$|^[^\s,:]+:\d{1,5}(\s*,\s*[^\s,:]+:\d{1,5})*$/, 'host:port of each read replica, separated by commas')
+    .optional(),
+  DB_REPLICA_CHECK_SECONDS: z.coerce.number().positive().max(60).default(1),
+  DB_REPLICA_MAX_LAG_SECONDS: z.coerce.number().int().min(0).max(3600).default(2),
+  DB_REPLICA_WAIT_SECONDS: z.coerce.number().min(0).max(10).default(0.25),
   SESSION_SECRET: z.string().min(16).default('development-only-session-secret'),
   SESSION_IDLE_MINUTES: z.coerce.number().positive().default(60 * 12),
   SESSION_ABSOLUTE_HOURS: z.coerce.number().positive().default(24 * 14),
@@ -80,6 +88,22 @@ function smsSettings(c: z.infer<typeof schema>) {
   };
 }
 
+/**
+ * The read replicas (DB_REPLICAS, then DB_REPLICA_PORT on DB_HOST) and how they are used: a replica
+ * serves reads while it replicates within `maxLagS` (checked every `checkMs`), and each request's
+ * reads there first wait up to `waitMs` for it to reach the primary's position (else they read the primary).
+ */
+function replicaList(c: z.infer<typeof schema>) {
+  const hosts = (c.DB_REPLICAS ?? '').split(',').map((s) => s.trim()).filter(Boolean).map((s) => {
+    const at = s.lastIndexOf(':');
+    const port = Number(s.slice(at + 1));
+    if (port < 1 || port > 65535) throw new Error(`Bad settings in the environment:\n  DB_REPLICAS: port ${port} of ${s} is not between 1 and 65535`);
+    return { host: s.slice(0, at), port };
+  });
+  if (c.DB_REPLICA_PORT && !hosts.some((h) => h.host === c.DB_HOST && h.port === c.DB_REPLICA_PORT)) hosts.push({ host: c.DB_HOST, port: c.DB_REPLICA_PORT });
+  return { hosts, checkMs: c.DB_REPLICA_CHECK_SECONDS * 1000, maxLagS: c.DB_REPLICA_MAX_LAG_SECONDS, waitMs: Math.round(c.DB_REPLICA_WAIT_SECONDS * 1000) };
+}
+
 /** Parses the environment once; throws with every bad key named. */
 export function loadConfig(env: Record<string, string | undefined> = process.env) {
   const parsed = schema.safeParse(env);
@@ -92,6 +116,7 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     throw new Error('SESSION_SECRET must be set in production');
   }
   const dataDir = resolve(c.DATA_DIR);
+  const replicas = replicaList(c);
   return {
     env: c.NODE_ENV,
     host: c.HOST,
@@ -101,7 +126,7 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     clientDir: resolve(c.CLIENT_DIR),
     uploadDir: resolve(dataDir, 'uploads'),
     outboxDir: resolve(dataDir, 'outbox'),
-    db: { host: c.DB_HOST, port: c.DB_PORT, socketPath: c.DB_SOCKET || null, name: c.DB_NAME, user: c.DB_USER, password: c.DB_PASSWORD, poolMax: c.DB_POOL_MAX },
+    db: { host: c.DB_HOST, port: c.DB_PORT, socketPath: c.DB_SOCKET || null, name: c.DB_NAME, user: c.DB_USER, password: c.DB_PASSWORD, poolMax: c.DB_POOL_MAX, replicas },
     session: {
       secret: c.SESSION_SECRET,
       // Behind HTTPS the __Host- prefix makes browsers refuse the cookie unless Secure, for path / and from this host only.

@@ -1,8 +1,9 @@
 // The database handle: one Sequelize instance over the mariadb connector, its models, and
 // umzug migrations from server/migrations (numbered files, run in order).
-import { Sequelize, type QueryInterface } from 'sequelize';
+import { Sequelize, type QueryInterface, type ReplicationOptions } from 'sequelize';
 import { Umzug, SequelizeStorage } from 'umzug';
 import type { Config } from './config';
+import { attachReplicaReads, type ReplicaLog, type ReplicaReads } from './db-replicas';
 import { localInfileStream } from './local-infile';
 import { initModels, type Models } from './models';
 import * as m0001 from './migrations/0001-foundation';
@@ -23,7 +24,6 @@ import * as m0015 from './migrations/0015-first-owner-setup';
 import * as m0016 from './migrations/0016-order-numbers-currency-close-short';
 import * as m0017 from './migrations/0017-frost-ahead';
 import * as m0018 from './migrations/0018-text-messages';
-import * as m0019 from './migrations/0019-user-language';
 
 /** Migrations in order; add a new numbered file and list it here. */
 const MIGRATIONS = [
@@ -45,26 +45,48 @@ const MIGRATIONS = [
   { name: '0016-order-numbers-currency-close-short', module: m0016 },
   { name: '0017-frost-ahead', module: m0017 },
   { name: '0018-text-messages', module: m0018 },
-  { name: '0019-user-language', module: m0019 },
 ];
 
 export interface Database {
   sequelize: Sequelize;
   models: Models;
+  /** Reads on the replicas of DB_REPLICAS / DB_REPLICA_PORT (server/db-replicas.ts); null: none, everything reads the primary. */
+  replicas: ReplicaReads | null;
 }
 
-export function createDatabase(config: Pick<Config, 'db'>, opts: { logging?: false | ((sql: string) => void) } = {}): Database {
-  const sequelize = new Sequelize(config.db.name, config.db.user, config.db.password, {
-    host: config.db.host,
-    port: config.db.port,
+const consoleLog: ReplicaLog = { warn: (_details, message) => console.warn(message), info: (_details, message) => console.log(message) };
+
+/**
+ * One Sequelize instance over the primary; with replicas configured, over Sequelize's `replication`
+ * option (write: the primary, read: the replicas), closing the replica watch when it closes.
+ */
+export function createDatabase(config: Pick<Config, 'db'>, opts: { logging?: false | ((sql: string) => void); logger?: ReplicaLog } = {}): Database {
+  const { db } = config;
+  const connection = { connectTimeout: 5_000, permitLocalInfile: true, infileStreamFactory: localInfileStream };
+  // Replicas are reached over TCP; the primary over its Unix socket when one is set.
+  const replication = db.replicas.hosts.length
+    ? { write: { host: db.host, port: db.port }, read: db.replicas.hosts.map((h) => ({ host: h.host, port: h.port, dialectOptions: { connectTimeout: 5_000 } })) }
+    : undefined;
+  const sequelize = new Sequelize(db.name, db.user, db.password, {
+    host: db.host,
+    port: db.port,
     dialect: 'mariadb',
     logging: opts.logging ?? false,
-    pool: { max: config.db.poolMax, min: 0, acquire: 20_000, idle: 10_000 },
+    pool: { max: db.poolMax, min: 0, acquire: 20_000, idle: 10_000 },
     // LOAD DATA LOCAL INFILE streams logger rows from memory only (server/local-infile.ts), never a file by path.
-    dialectOptions: { connectTimeout: 5_000, permitLocalInfile: true, infileStreamFactory: localInfileStream, ...(config.db.socketPath ? { socketPath: config.db.socketPath } : {}) },
+    dialectOptions: { ...connection, ...(db.socketPath ? { socketPath: db.socketPath } : {}) },
     timezone: '+00:00',
+    ...(replication ? { replication: replication as ReplicationOptions } : {}),
   });
-  return { sequelize, models: initModels(sequelize) };
+  const replicas = replication ? attachReplicaReads(sequelize, db, opts.logger ?? consoleLog) : null;
+  if (replicas) {
+    const close = sequelize.close.bind(sequelize);
+    sequelize.close = async () => {
+      await replicas.stop();
+      return close();
+    };
+  }
+  return { sequelize, models: initModels(sequelize), replicas };
 }
 
 export function migrator(sequelize: Sequelize) {

@@ -33,7 +33,7 @@ export interface RunningServer {
 
 export function createContext(config: Config): AppContext {
   const logger = createLogger(config);
-  return { config, logger, db: createDatabase(config), mailer: createMailer(config), texts: createTextSender(config), events: new EventEmitter() };
+  return { config, logger, db: createDatabase(config, { logger }), mailer: createMailer(config), texts: createTextSender(config), events: new EventEmitter() };
 }
 
 /** Migrates, opens the first-owner set-up of an empty database, builds the app and listens on config.host:config.port (0 picks a free port). */

@@ -2,6 +2,7 @@ import { Router } from 'express';
 import { correctionSchema, readingsQuerySchema, roundSubmitSchema, seriesQuerySchema, type RoundSubmitAnswer } from '@shared/schemas';
 import type { AppContext } from '../context';
 import { actorOf, requireRole, requireSignIn } from '../middleware/access';
+import { replicaReads } from '../middleware/replica-reads';
 import { correctReading, listReadings, submitRound, tankSeries } from '../services/readings';
 import { idParam, parse } from '../validate';
 
@@ -18,13 +19,13 @@ export function roundsRouter(ctx: AppContext) {
   return router;
 }
 
-/** Mounted at /tanks: one tank's readings and its series. */
+/** Mounted at /tanks: one tank's readings and its series (read on a replica when there is one). */
 export function tankReadingsRouter(ctx: AppContext) {
   const router = Router();
-  router.get('/:id/readings', requireSignIn, async (req, res) => {
+  router.get('/:id/readings', requireSignIn, replicaReads(), async (req, res) => {
     res.json(await listReadings(ctx, actorOf(req), idParam(req.params.id, 'Tank'), parse(readingsQuerySchema, req.query)));
   });
-  router.get('/:id/series', requireSignIn, async (req, res) => {
+  router.get('/:id/series', requireSignIn, replicaReads(), async (req, res) => {
     res.json(await tankSeries(ctx, actorOf(req), idParam(req.params.id, 'Tank'), parse(seriesQuerySchema, req.query)));
   });
   return router;
