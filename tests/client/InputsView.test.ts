@@ -1,4 +1,4 @@
-import { beforeEach, describe, expect, it, vi } from 'vitest';
+import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import { flushPromises, type VueWrapper } from '@vue/test-utils';
 import { createPinia, setActivePinia, type Pinia } from 'pinia';
 import * as authApi from '@/api/auth';
@@ -7,9 +7,11 @@ import * as inventoryApi from '@/api/inventory';
 import { ApiError } from '@/api/http';
 import { cautionText } from '@shared/cautions';
 import InputsView from '@/views/InputsView.vue';
+import { setLanguage } from '@/i18n';
 import { makeFarm, makeUser, sessionOf } from './support/fixtures';
 import { makeInput, makeMovement, makeOrder, makeSupplier } from './support/inventoryFixtures';
 import { existsInDocument, inDocument, mountWithApp, setViewportWidth } from './support/mountApp';
+import { englishLeft } from './support/englishLeft';
 
 vi.mock('@/api/auth', () => ({
   fetchSession: vi.fn(),
@@ -213,5 +215,32 @@ describe('InputsView', () => {
     // The Orders screen is a lazy route: its first load in the test runner may take a moment.
     await vi.waitFor(() => expect(router.currentRoute.value.name).toBe('orders'), { timeout: 8000 });
     expect(router.currentRoute.value.query.order).toBe('8');
+  });
+
+  describe('in Spanish', () => {
+    afterEach(() => setLanguage('en'));
+
+    it('shows the reorder list, the banner and the advice in Spanish, with no English sentence left', async () => {
+      auth.fetchSession.mockResolvedValue(sessionOf(makeUser('buyer', { language: 'es' })));
+      const { wrapper } = await mountWithApp(InputsView, { pinia, path: '/inputs' });
+
+      const now = wrapper.get('[data-testid="reorder-group-now"]');
+      expect(now.get('h2').text()).toBe('Comprar ya 1');
+      expect(now.get('[data-testid="input-suggested"]').text()).toBe('Compre 340 L (17 envases de 20 L) ya.');
+      expect(now.get('[data-testid="input-onhand"]').text()).toBe('Con 30 L en existencia hay para unos 5,8 días a 5,2 L al día.');
+      expect(wrapper.get('[data-testid="inputs-due-banner"]').text()).toContain('1 insumo está en el punto de pedido o por debajo.');
+      expect(wrapper.get('[data-testid="inputs-draft-orders"]').text()).toBe('Preparar pedidos desde la lista de reposición');
+      expect(wrapper.get('h1').text()).toBe('Insumos');
+
+      await openInput(wrapper, 41);
+      const advice = inDocument('input-advice');
+      expect(advice.get('[data-testid="input-advice-cover"]').text()).toBe('Con 30 L en existencia hay para unos 5,8 días a 5,2 L al día.');
+      expect(advice.text()).toContain('Punto de pedido 41,6 L = 6 días de plazo de entrega × 5,2 L al día');
+
+      // The reorder list and the drawer: every message of the area in Spanish, and no English word among the figures.
+      const shown = `${wrapper.get('[data-testid="inputs-list"]').text()} ${inDocument('input-drawer').text()}`;
+      expect(englishLeft(shown, ['inputs', 'orders'])).toEqual([]);
+      expect(shown.replace(/Fish emulsion|Kelp concentrate|Creek site|Supplier \d+/g, '')).not.toMatch(/\b(the|and|of|with|is|are|by|days?|buy|order|lasts|hand)\b/i);
+    });
   });
 });

@@ -1,4 +1,4 @@
-import { beforeEach, describe, expect, it, vi } from 'vitest';
+import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import { flushPromises } from '@vue/test-utils';
 import { createPinia, setActivePinia, type Pinia } from 'pinia';
 import * as authApi from '@/api/auth';
@@ -7,9 +7,11 @@ import * as inventoryApi from '@/api/inventory';
 import * as outboxApi from '@/api/outbox';
 import { ApiError } from '@/api/http';
 import OrdersView from '@/views/OrdersView.vue';
+import { setLanguage } from '@/i18n';
 import { makeFarm, makeUser, sessionOf } from './support/fixtures';
 import { makeInput, makeOrder, makeSupplier } from './support/inventoryFixtures';
 import { existsInDocument, inDocument, mountWithApp, setViewportWidth } from './support/mountApp';
+import { englishLeft } from './support/englishLeft';
 
 vi.mock('@/api/auth', () => ({
   fetchSession: vi.fn(),
@@ -192,5 +194,26 @@ describe('OrdersView', () => {
     expect(inDocument('order-line-cancelled').text()).toBe('80 L');
     expect(existsInDocument('order-receive')).toBe(false);
     expect(existsInDocument('order-close-short')).toBe(false);
+  });
+
+  describe('in French', () => {
+    afterEach(() => setLanguage('en'));
+
+    it('names the states, the columns and a part-delivered order in French, with no English sentence left', async () => {
+      auth.fetchSession.mockResolvedValue(sessionOf(makeUser('buyer', { language: 'fr' })));
+      const { wrapper } = await mountAt('/orders?order=9');
+
+      expect(wrapper.get('[data-testid="order-row-8"] [data-testid="order-row-status"]').text()).toBe('Brouillon');
+      expect(wrapper.get('[data-testid="order-row-9"] [data-testid="order-row-status"]').text()).toBe('Reçue en partie');
+      expect(wrapper.get('h1').text()).toBe('Commandes');
+      expect(inDocument('order-status').text()).toBe('Reçue en partie');
+
+      await inDocument('order-receive').trigger('click');
+      await flushPromises();
+      expect(inDocument('receipt-dialog').text()).toContain('Saisissez ce qui est arrivé sur chaque ligne.');
+
+      const shown = `${wrapper.text()} ${inDocument('order-drawer').text()} ${inDocument('receipt-dialog').text()}`;
+      expect(englishLeft(shown, ['inputs', 'orders'])).toEqual([]);
+    });
   });
 });

@@ -2,18 +2,11 @@
 // InputStatus (worked out in shared/inventory); these functions only round and phrase them, in
 // the language on screen (messages of the `inputs` area, numbers and dates in its locale).
 import type { InputCategory, InputStatus, Movement } from '@shared/schemas';
-import { LANGUAGE_LOCALES, isLanguage } from '@shared/i18n/languages';
-import { i18n } from '@/i18n';
+import { currentLocale, i18n } from '@/i18n';
 
 // Called when the words are needed, never at module load, so a change of language shows at once.
 const t = (key: string, named: Record<string, unknown> = {}, plural?: number): string =>
   plural === undefined ? i18n.global.t(key, named) : i18n.global.t(key, named, plural);
-
-/** The locale (BCP 47) of the language on screen, for Intl. */
-export function screenLocale(): string {
-  const language = i18n.global.locale.value;
-  return isLanguage(language) ? LANGUAGE_LOCALES[language] : LANGUAGE_LOCALES.en;
-}
 
 const CATEGORY_KEYS: Record<InputCategory, string> = {
   fertilizer: 'fertilizer',
@@ -40,7 +33,7 @@ function digitsFor(value: number): number {
 
 /** A plain number rounded for reading: "1,250", "42.5", "0.15". */
 export function formatNumber(value: number): string {
-  return new Intl.NumberFormat(screenLocale(), { maximumFractionDigits: digitsFor(value) }).format(value);
+  return new Intl.NumberFormat(currentLocale(), { maximumFractionDigits: digitsFor(value) }).format(value);
 }
 
 /** A quantity with its unit: "42.5 L", "3 bag (25 kg)". */
@@ -50,7 +43,7 @@ export function formatQuantity(value: number, unit: string): string {
 
 /** A quantity with a decimal more than formatQuantity, for a figure that is rounded up after ("350.2 L"). */
 export function formatQuantityFine(value: number, unit: string): string {
-  return `${new Intl.NumberFormat(screenLocale(), { maximumFractionDigits: Math.min(2, digitsFor(value) + 1) }).format(value)} ${unit}`;
+  return `${new Intl.NumberFormat(currentLocale(), { maximumFractionDigits: Math.min(2, digitsFor(value) + 1) }).format(value)} ${unit}`;
 }
 
 /** A signed change of stock: "+40 L", "−3.2 L". */
@@ -70,18 +63,18 @@ export function formatDays(days: number): string {
   // Tenths of a day are as fine as anyone plans a delivery.
   const digits = days >= 10 ? 0 : 1;
   const shown = Number(days.toFixed(digits));
-  const text = new Intl.NumberFormat(screenLocale(), { maximumFractionDigits: digits }).format(days);
+  const text = new Intl.NumberFormat(currentLocale(), { maximumFractionDigits: digits }).format(days);
   return t('inputs.days', { days: text }, shown === 1 ? 1 : 2);
 }
 
 /** Money in the organisation's ISO 4217 currency, in the reader's locale: "€18.00", "NZ$18.00", "¥1,800". */
 export function formatMoney(value: number, currency: string): string {
-  return new Intl.NumberFormat(screenLocale(), { style: 'currency', currency }).format(value);
+  return new Intl.NumberFormat(currentLocale(), { style: 'currency', currency }).format(value);
 }
 
 /** A service level 0.95 as "95 %" (99.5 % keeps its decimal). */
 export function formatPercent(fraction: number): string {
-  return `${new Intl.NumberFormat(screenLocale(), { maximumFractionDigits: 1 }).format(fraction * 100)} %`;
+  return `${new Intl.NumberFormat(currentLocale(), { maximumFractionDigits: 1 }).format(fraction * 100)} %`;
 }
 
 /** A day in the reader's locale: "12 Dec" (or "Dec 12"), with the year when it is not this year. */
@@ -89,7 +82,7 @@ export function formatShortDate(iso: string, now: Date = new Date()): string {
   const date = new Date(iso);
   if (Number.isNaN(date.getTime())) return '—';
   const sameYear = date.getFullYear() === now.getFullYear();
-  return new Intl.DateTimeFormat(screenLocale(), { day: 'numeric', month: 'short', ...(sameYear ? {} : { year: 'numeric' }) }).format(date);
+  return new Intl.DateTimeFormat(currentLocale(), { day: 'numeric', month: 'short', ...(sameYear ? {} : { year: 'numeric' }) }).format(date);
 }
 
 /** When to buy an input, in our words: "Buy now" (amber; "Out of stock · buy now" in red), "Buy by 16 Dec", or no use recorded. */
