@@ -201,6 +201,8 @@ describe('OrdersView', () => {
 
     it('names the states, the columns and a part-delivered order in French, with no English sentence left', async () => {
       auth.fetchSession.mockResolvedValue(sessionOf(makeUser('buyer', { language: 'fr' })));
+      // 99.5 L of 180 L in: 80.5 L still to come, which a French buyer reads and types with a decimal comma.
+      api.fetchOrders.mockResolvedValue([{ ...partReceived, lines: partReceived.lines.map((l) => ({ ...l, receivedQuantity: 99.5 })) }, draft]);
       const { wrapper } = await mountAt('/orders?order=9');
 
       expect(wrapper.get('[data-testid="order-row-8"] [data-testid="order-row-status"]').text()).toBe('Brouillon');
@@ -211,6 +213,8 @@ describe('OrdersView', () => {
       await inDocument('order-receive').trigger('click');
       await flushPromises();
       expect(inDocument('receipt-dialog').text()).toContain('Saisissez ce qui est arrivé sur chaque ligne.');
+      expect(inDocument('receipt-line-601').text()).toContain('Commandé : 180 L · 99,5 L déjà reçus');
+      expect(inDocument('receipt-qty-601').find('input').element.value).toBe('80,5 L');
 
       const shown = `${wrapper.text()} ${inDocument('order-drawer').text()} ${inDocument('receipt-dialog').text()}`;
       expect(englishLeft(shown, ['inputs', 'orders'])).toEqual([]);
