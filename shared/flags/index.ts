@@ -1,6 +1,6 @@
 // Flag rules: which conditions of a tank need a person, with the sentence that says so.
 import type { FlagKind, TankContents } from '../schemas/index';
-import { CAUTION_SENTENCES } from '../cautions/index';
+import { everyFlagCaution } from './cautions';
 import { formatNumberTrimmed } from '../units/index';
 
 /** Cultures go inactive below about this temperature (°C): common practice, no published source. */
@@ -39,32 +39,11 @@ export const FLAG_LABELS: Record<FlagKind, string> = {
   overfill: 'Above the fill line',
 };
 
-/** The caution of each kind as short sentences, deferring to local codes and licensed practice (empty: none applies). */
-export const FLAG_CAUTION_SENTENCES: Record<FlagKind, readonly string[]> = {
-  'low-stock': [],
-  'reorder-due': [],
-  'suspected-leak': [
-    'Look for the leak from outside the tank.',
-    'Never climb in.',
-    'A tank is a confined space.',
-    'If the tank feeds fertilizer or pest solution into a line, check its backflow preventer.',
-    'Follow your local plumbing code.',
-  ],
-  'stale-tank': [],
-  'cold-culture': ['Check the heater.', ...CAUTION_SENTENCES.electrical],
-  'frost-risk': [
-    'Drain or cover exposed lines, pumps and small tanks before the frost.',
-    'Switch pumps off at their residual-current protected supply before you drain them.',
-    'Follow your local codes.',
-  ],
-  'frost-ahead': CAUTION_SENTENCES.frost,
-  overfill: [
-    'Stop filling.',
-    'If the tank holds fertilizer or pest solution, nothing may flow back into the water supply.',
-    'Your local plumbing code says which backflow prevention it needs.',
-    'Wear the protective equipment the product label lists to clean up a spill.',
-  ],
-};
+/**
+ * The caution of each kind as short sentences in English, deferring to local codes and licensed practice
+ * (empty: none applies). flagCautionSentences (./cautions) says the same in every language.
+ */
+export const FLAG_CAUTION_SENTENCES: Record<FlagKind, readonly string[]> = everyFlagCaution();
 
 /** The caution each kind shows as one paragraph (null: none applies). */
 export const FLAG_CAUTIONS: Record<FlagKind, string | null> = Object.fromEntries(
@@ -132,4 +111,5 @@ export function tankFlagConditions(t: TankFlagInput): FlagCondition[] {
   return out;
 }
 
+export { cautionSentencesIn, flagCautionSentences, flagCautionText } from './cautions';
 export { FROST_AHEAD_C, FROST_AHEAD_HOURS, defaultExposedToFrost, frostAheadMessage, frostAheadOf, watchedForFrost } from './frost-ahead';

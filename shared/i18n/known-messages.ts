@@ -77,3 +77,17 @@ export function sayKnown(text: string, known: { match(text: string): KnownMessag
   }
   return text;
 }
+
+const EN_FIGURE = /^-?(?:\d{1,3}(?:,\d{3})+|\d+)(?:\.(\d+))?$/;
+
+/** The values found in an English text with their figures ("1,234.5") rewritten as `locale` writes them ("1234,5" in es-ES). */
+export function localiseFigures(named: Record<string, string>, locale: string): Record<string, string> {
+  return Object.fromEntries(
+    Object.entries(named).map(([name, value]) => {
+      const m = EN_FIGURE.exec(value);
+      if (!m) return [name, value];
+      const decimals = m[1]?.length ?? 0;
+      return [name, new Intl.NumberFormat(locale, { minimumFractionDigits: decimals, maximumFractionDigits: decimals }).format(Number(value.replace(/,/g, '')))];
+    }),
+  );
+}
