@@ -12,8 +12,8 @@ export interface Browser {
   close(): Promise<void>;
 }
 
-/** Launches Chromium with a fresh profile; `viewport` defaults to a desktop size. */
-export async function launch(opts: { viewport?: { width: number; height: number }; isMobile?: boolean } = {}): Promise<Browser> {
+/** Launches Chromium with a fresh profile; `viewport` defaults to a desktop size, `locale` (navigator.languages and Accept-Language) to Chromium's English. */
+export async function launch(opts: { viewport?: { width: number; height: number }; isMobile?: boolean; locale?: string } = {}): Promise<Browser> {
   const profile = mkdtempSync(join(tmpdir(), 'brimstock-chromium-'));
   const context = await chromium.launchPersistentContext(profile, {
     executablePath: '/usr/bin/chromium',
@@ -22,6 +22,7 @@ export async function launch(opts: { viewport?: { width: number; height: number 
     viewport: opts.viewport ?? { width: 1280, height: 860 },
     isMobile: opts.isMobile,
     hasTouch: opts.isMobile,
+    locale: opts.locale,
   });
   const page = context.pages()[0] ?? (await context.newPage());
   return {
