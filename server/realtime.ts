@@ -27,6 +27,8 @@ import { keptSessionUser } from './services/signed-in-cache';
 import { answerTimingRequests, recordTiming } from './timings';
 
 export const THROTTLE_MS = 100;
+/** How long after a push that failed it is tried again. */
+const RETRY_MS = 1_000;
 const farmRoom = (id: number) => `farm:${id}`;
 const SET_ROOM = 'farms:';
 const setPrefix = (organisationId: number) => `${SET_ROOM}${organisationId}:`;
@@ -144,7 +146,17 @@ export function attachRealtime(ctx: AppContext, http: HttpServer, sessionMiddlew
     lastFlushAt = Date.now();
     const batch = [...dirty.entries()];
     dirty.clear();
-    for (const [organisationId, { farms, since }] of batch) await pushFarms(organisationId, farms, since).catch(pushFailed);
+    for (const [organisationId, { farms, since }] of batch) {
+      await pushFarms(organisationId, farms, since).catch((err: unknown) => {
+        pushFailed(err);
+        // Nothing of it went out (Redis away, the build's turn not had, the read failed): tried again a second
+        // later with whatever changes meanwhile, so no change is left unsent without the clients seeing a gap.
+        const pending = dirty.get(organisationId);
+        if (pending) for (const id of farms) pending.farms.add(id);
+        else dirty.set(organisationId, { farms, since });
+        lastFlushAt = Date.now() + RETRY_MS - THROTTLE_MS;
+      });
+    }
     flushing = false;
     if (dirty.size) arm();
   };
@@ -217,20 +229,21 @@ export function attachRealtime(ctx: AppContext, http: HttpServer, sessionMiddlew
       .finally(() => (sweeping = false));
   }, EXPIRY_SWEEP_MS);
   sweeper.unref();
-  // The sets this process's sockets watch stay listed for the other processes while the sockets stay.
-  const renewer = watchedSets
-    ? setInterval(() => {
-        const byOrg = new Map<number, string[]>();
-        for (const room of io.of('/').adapter.rooms.keys()) {
-          if (!room.startsWith(SET_ROOM)) continue;
-          const key = room.slice(SET_ROOM.length);
-          const org = Number(key.slice(0, key.indexOf(':')));
-          byOrg.set(org, [...(byOrg.get(org) ?? []), key]);
-        }
-        for (const [org, keys] of byOrg) void watchedSets.add(org, keys);
-      }, WATCH_RENEW_MS)
-    : null;
+  // The sets this process's sockets watch stay listed for the other processes while the sockets stay,
+  // and are listed again at once when Redis comes back (a restarted Redis has forgotten them).
+  const renew = () => {
+    const byOrg = new Map<number, string[]>();
+    for (const room of io.of('/').adapter.rooms.keys()) {
+      if (!room.startsWith(SET_ROOM)) continue;
+      const key = room.slice(SET_ROOM.length);
+      const org = Number(key.slice(0, key.indexOf(':')));
+      byOrg.set(org, [...(byOrg.get(org) ?? []), key]);
+    }
+    for (const [org, keys] of byOrg) void watchedSets?.add(org, keys);
+  };
+  const renewer = watchedSets ? setInterval(renew, WATCH_RENEW_MS) : null;
   renewer?.unref();
+  cluster.redis?.on('ready', renew);
 
   // io.close() ends with closing the HTTP server.
   http.once('close', () => {
@@ -243,6 +256,7 @@ export function attachRealtime(ctx: AppContext, http: HttpServer, sessionMiddlew
     stopSessionEnded();
     clearInterval(sweeper);
     if (renewer) clearInterval(renewer);
+    cluster.redis?.off('ready', renew);
     deltas.close();
     if (timer) clearTimeout(timer);
   });

@@ -34,6 +34,10 @@ export function haproxyConfig(opts: Omit<HaproxyOptions, 'baseDir'>): string {
     '  mode http',
     '  option forwardfor',
     '  option http-server-close',
+    // A process that died is found by the health check within seconds; until then a request that
+    // cannot connect to it is tried again on another process rather than answered with a 503.
+    '  retries 3',
+    '  option redispatch 1',
     '  timeout connect 5s',
     '  timeout client 60s',
     '  timeout server 300s',
