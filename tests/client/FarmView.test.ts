@@ -1,4 +1,4 @@
-import { beforeEach, describe, expect, it, vi } from 'vitest';
+import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import { flushPromises } from '@vue/test-utils';
 import { createPinia, setActivePinia, type Pinia } from 'pinia';
 import type { Role } from '@shared/schemas';
@@ -9,6 +9,8 @@ import * as farmsApi from '@/api/farms';
 import * as tanksApi from '@/api/tanks';
 import { ApiError } from '@/api/http';
 import FarmView from '@/views/FarmView.vue';
+import { setLanguage } from '@/i18n';
+import { englishLeft } from './support/englishLeft';
 import { makeFarm, makeUser, sessionOf } from './support/fixtures';
 import { mountWithApp } from './support/mountApp';
 import { boardOf, makeTank, makeTile } from './support/tankFixtures';
@@ -44,8 +46,8 @@ beforeEach(() => {
   board.fetchBoard.mockResolvedValue(boardOf([]));
 });
 
-function as(role: Role, unitSystem: 'metric' | 'us' = 'metric') {
-  auth.fetchSession.mockResolvedValue(sessionOf(makeUser(role, { unitSystem })));
+function as(role: Role, unitSystem: 'metric' | 'us' = 'metric', language: 'en' | 'es' | 'fr' | null = null) {
+  auth.fetchSession.mockResolvedValue(sessionOf(makeUser(role, { unitSystem, language })));
 }
 
 describe('FarmView', () => {
@@ -132,5 +134,38 @@ describe('FarmView', () => {
     await wrapper.get('[data-testid="load-retry"]').trigger('click');
     await flushPromises();
     expect(wrapper.find('[data-testid="tank-card-1"]').exists()).toBe(true);
+  });
+});
+
+describe('FarmView in French', () => {
+  afterEach(() => setLanguage('en'));
+
+  it('shows the tanks, their cover and the frost forecast in French, with no English sentence of the farm page left', async () => {
+    as('manager', 'metric', 'fr');
+    const water = makeTank(1, { walkOrder: 1, name: 'Cuve du forage' });
+    const idle = makeTank(2, { walkOrder: 2, name: 'Cuve haute' });
+    tanks.fetchTanks.mockResolvedValue([water, idle]);
+    board.fetchBoard.mockResolvedValue(boardOf([{ ...makeTile(water, 1_200), useLPerDay: 95, daysOfCover: 1.44 }]));
+    farms.fetchFarmFrost.mockResolvedValue({
+      farmId: 11,
+      located: true,
+      thresholdC: 2,
+      fetchedAt: '2026-03-01T06:00:00.000Z',
+      stale: true,
+      problem: 'timeout',
+      triedAt: null,
+      hours: [],
+      frost: { lowC: -1.8, at: '2026-03-03T04:00:00.000Z' },
+    });
+    const { wrapper } = await mountWithApp(FarmView, { pinia, path: '/farms/11' });
+
+    // Under two days, one decimal and the French singular (0 ≤ n < 2): "1,4 jour".
+    expect(wrapper.get('[data-testid="tank-cover-1"]').text()).toMatch(/^Reste ≈ 1,4 jour\s*à 95 L\/jour$/);
+    expect(wrapper.get('[data-testid="tank-level-2"]').text()).toBe('Pas encore de relevé.');
+    expect(wrapper.get('.farm__count').text()).toBe('2 cuves');
+    expect(wrapper.get('[data-testid="tank-up-2"]').attributes('aria-label')).toBe('Avancer Cuve haute dans la tournée');
+    expect(wrapper.get('[data-testid="farm-frost-verdict"]').text()).toMatch(/^Gel prévu : l'air descend à -1,8 °C vers \S+ \d\d:00, sous les 2 °C fixés pour cette exploitation\.$/);
+    expect(wrapper.get('[data-testid="farm-frost-stale"]').text()).toMatch(/^La prévision est ancienne : récupérée le .+\. La dernière tentative a échoué : timeout\./);
+    expect(englishLeft(wrapper.text(), ['farms', 'board'])).toEqual([]);
   });
 });

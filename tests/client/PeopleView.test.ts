@@ -4,9 +4,12 @@ import { createPinia, setActivePinia, type Pinia } from 'pinia';
 import { fieldErrors, invitationSchema } from '@shared/schemas';
 import * as authApi from '@/api/auth';
 import * as farmsApi from '@/api/farms';
+import * as organisationApi from '@/api/organisation';
 import * as peopleApi from '@/api/people';
 import { ApiError } from '@/api/http';
 import PeopleView from '@/views/PeopleView.vue';
+import { setLanguage } from '@/i18n';
+import { englishLeft } from './support/englishLeft';
 import { makeFarm, makePerson, makeUser, sessionOf } from './support/fixtures';
 import { existsInDocument, inDocument, mountWithApp, setViewportWidth } from './support/mountApp';
 
@@ -20,6 +23,7 @@ vi.mock('@/api/auth', () => ({
   fetchTokenInfo: vi.fn(),
 }));
 vi.mock('@/api/farms', () => ({ fetchFarms: vi.fn(), fetchFarm: vi.fn(), createFarm: vi.fn(), updateFarm: vi.fn() }));
+vi.mock('@/api/organisation', () => ({ fetchOrganisation: vi.fn(), updateOrganisation: vi.fn() }));
 vi.mock('@/api/people', () => ({ fetchPeople: vi.fn(), invitePerson: vi.fn(), resendInvitation: vi.fn(), updatePerson: vi.fn() }));
 
 const auth = vi.mocked(authApi);
@@ -39,6 +43,7 @@ beforeEach(() => {
   auth.fetchSession.mockResolvedValue(sessionOf(makeUser('owner')));
   farms.fetchFarms.mockResolvedValue([makeFarm(11, 'Creek site'), makeFarm(12, 'Ridge block')]);
   people.fetchPeople.mockResolvedValue([owner, worker, invited]);
+  vi.mocked(organisationApi).fetchOrganisation.mockResolvedValue({ id: 7, name: 'Hollowbrook Growers', code: 'HG', currency: 'EUR', nextOrderNumber: 'HG-26-004' });
 });
 
 afterEach(() => setViewportWidth(1024));
@@ -126,5 +131,26 @@ describe('PeopleView', () => {
 
     expect(wrapper.get('[data-testid="people-table"]').text()).toContain('Bea Holm');
     await vi.waitFor(() => expect(existsInDocument('invite-dialog')).toBe(false));
+  });
+});
+
+describe('PeopleView in Spanish', () => {
+  afterEach(() => setLanguage('en'));
+
+  it('lists people with Spanish headings, statuses and counts that agree with their number, and the organisation panel in Spanish', async () => {
+    auth.fetchSession.mockResolvedValue(sessionOf(makeUser('owner', { language: 'es' })));
+    const { wrapper } = await mountWithApp(PeopleView, { pinia, path: '/people' });
+
+    const table = wrapper.get('[data-testid="people-table"]');
+    expect(table.findAll('th').map((th) => th.text())).toEqual(['Persona', 'Función', 'Fincas', 'Estado', 'Último acceso', 'Acciones']);
+    expect(table.text()).toContain('Invitación enviada');
+    expect(wrapper.get('[data-testid="person-resend-5"]').text()).toBe('Reenviar la invitación');
+    expect(wrapper.get('[data-testid="people-counts"]').text()).toBe('2 activas · 1 invitada · 0 desactivadas');
+    const panel = wrapper.get('[data-testid="organisation-settings"]');
+    expect(panel.get('h2').text()).toBe('Números de pedido y moneda');
+    expect(panel.text()).toContain('Próximo pedido: HG-26-004.');
+    // Spanish money: comma for decimals, the sign after the figure.
+    expect(panel.text()).toMatch(/se leen así: 1\.?234,50\s€\./);
+    expect(englishLeft(wrapper.text(), ['people', 'organisation'])).toEqual([]);
   });
 });

@@ -1,10 +1,13 @@
-import { beforeEach, describe, expect, it, vi } from 'vitest';
+import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import { createPinia, setActivePinia, type Pinia } from 'pinia';
 import type { ContentsTotal } from '@shared/schemas';
 import * as authApi from '@/api/auth';
 import BoardSightTube from '@/components/board/BoardSightTube.vue';
 import BoardTankTile from '@/components/board/BoardTankTile.vue';
 import BoardTotalCard from '@/components/board/BoardTotalCard.vue';
+import BoardLiveStatus from '@/components/board/BoardLiveStatus.vue';
+import { setLanguage } from '@/i18n';
+import { englishLeft } from './support/englishLeft';
 import { makeUser, sessionOf } from './support/fixtures';
 import { mountWithApp } from './support/mountApp';
 import { makeTile } from './support/tanks';
@@ -212,5 +215,51 @@ describe('BoardTotalCard', () => {
     });
 
     expect(wrapper.get('[data-testid="board-total-water"]').text()).toContain('No tanks');
+  });
+});
+
+describe('the board in Spanish and French', () => {
+  afterEach(() => setLanguage('en'));
+  /** The signed-in manager speaks `language`: the session store switches the screens to it on mounting. */
+  const speaking = (language: 'es' | 'fr') => {
+    vi.mocked(authApi).fetchSession.mockResolvedValue(sessionOf(makeUser('manager', { language })));
+    setLanguage(language);
+  };
+
+  it('shows a tile, its cover line and its sight tube in Spanish, with no English sentence of the board left', async () => {
+    speaking('es');
+    const tile = makeTile({ tankId: 7, code: 'CS-W1', grossL: 6_000, usableL: 5_500, levelMm: 1000, low: true, lowStockL: 20_000, takenAt: '2026-02-28T09:00:00.000Z', useLPerDay: 600, daysOfCover: 9.4 });
+    const { wrapper } = await mountWithApp(BoardTankTile, { pinia, path: '/', props: { tile, unitSystem: 'metric', now: NOW } });
+
+    const link = wrapper.get('[data-testid="board-tile-CS-W1"]');
+    expect(link.get('[data-testid="board-cover-CS-W1"]').text()).toMatch(/^Quedan ≈ 9 días\s*a 600 L\/día$/);
+    expect(link.get('.tile__when').text()).toBe('Desactualizado: leído hace 2 días');
+    expect(link.text()).toContain('Bajo: menos de 20.000 L');
+    expect(link.get('svg').attributes('aria-label')).toMatch(/^Tubo de nivel: nivel a 1\.?000 mm del suelo, 1\.?000 mm en el tubo; línea de salida a 100 mm; nivel máximo de llenado a 1\.?900 mm\./);
+    expect(englishLeft(`${link.text()} ${link.get('svg').attributes('aria-label')}`, ['board'])).toEqual([]);
+  });
+
+  it('counts the tanks of a total in French, singular for one', async () => {
+    speaking('fr');
+    const { wrapper } = await mountWithApp(BoardTotalCard, { pinia, path: '/', props: { total: total(), unitSystem: 'metric', now: NOW, testId: 'board-total-water' } });
+
+    const card = wrapper.get('[data-testid="board-total-water"]');
+    // French puts a narrow no-break space between thousands; compare with plain spaces.
+    const text = card.text().replace(/[\u202f\u00a0]/g, ' ');
+    expect(text).toContain('3 cuves');
+    expect(text).toContain('Relevé le plus ancien : il y a 3 h');
+    expect(text).toContain('1 cuve pas encore relevée (non comptée)');
+    expect(card.get('[data-testid="board-total-water-percent"]').text().replace(/[\u202f\u00a0]/g, ' ')).toBe('50 % de 22 000 L de capacité utile');
+    expect(englishLeft(card.text(), ['board'])).toEqual([]);
+  });
+
+  it('names the live status in the language chosen, and follows a change of language at once', async () => {
+    speaking('es');
+    const { wrapper } = await mountWithApp(BoardLiveStatus, { pinia, path: '/', props: { status: 'reconnecting' } });
+    expect(wrapper.get('[data-testid="board-live"]').text()).toContain('Reconectando…');
+    setLanguage('fr');
+    await wrapper.vm.$nextTick();
+    expect(wrapper.get('[data-testid="board-live"]').text()).toContain('Reconnexion…');
+    expect(wrapper.get('[data-testid="board-live"]').attributes('title')).toBe('La connexion en direct a été coupée ; les chiffres peuvent être en retard jusqu\'à son retour.');
   });
 });

@@ -1,4 +1,4 @@
-import { beforeEach, describe, expect, it, vi } from 'vitest';
+import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import { flushPromises } from '@vue/test-utils';
 import { createPinia, setActivePinia, type Pinia } from 'pinia';
 import { FLAG_CAUTIONS, FLAG_LABELS } from '@shared/flags';
@@ -9,6 +9,8 @@ import * as flagsApi from '@/api/flags';
 import { useFlagsStore } from '@/stores/flags';
 import FlagsView from '@/views/FlagsView.vue';
 import { FLAG_KIND_LOOKS } from '@/components/flags/flagKinds';
+import { setLanguage } from '@/i18n';
+import { englishLeft } from './support/englishLeft';
 import { makeFarm, makeUser, sessionOf } from './support/fixtures';
 import { mountWithApp } from './support/mountApp';
 
@@ -208,5 +210,29 @@ describe('FlagsView', () => {
     await useFlagsStore().load();
     await flushPromises();
     expect(wrapper.get('[data-testid="load-error"]').text()).toContain('Cannot reach the server.');
+  });
+});
+
+describe('FlagsView in French', () => {
+  afterEach(() => setLanguage('en'));
+
+  it('shows the filters, the count and who saw or cleared each flag in French, the notes in French quotation marks', async () => {
+    vi.mocked(authApi).fetchSession.mockResolvedValue(sessionOf(makeUser('manager', { language: 'fr' })));
+    vi.mocked(farmsApi).fetchFarms.mockResolvedValue([makeFarm(11, 'Creek site')]);
+    api.fetchFlags.mockResolvedValue([
+      makeFlag(1, { kind: 'cold-culture', status: 'acknowledged', acknowledgedAt: '2026-03-02T02:00:00.000Z', acknowledgedBy: 'Dana Okafor', ackNote: 'Chauffage relancé' }),
+      makeFlag(2, { kind: 'frost-risk', status: 'cleared', clearedAt: '2026-03-02T03:00:00.000Z', clearedBy: 'Dana Okafor', clearNote: 'Cuve vidée' }),
+    ]);
+    const { wrapper } = await mountWithApp(FlagsView, { pinia, path: '/flags' });
+
+    expect(wrapper.get('h1').text()).toBe('Alertes');
+    expect(wrapper.get('label[for="flags-filter-status"]').text()).toBe('Afficher');
+    expect(wrapper.get('[data-testid="flags-filter-status"]').text()).toContain('À traiter (ouvertes ou vues)');
+    expect(wrapper.get('[data-testid="flags-count"]').text()).toBe('2 alertes');
+    expect(wrapper.get('[data-testid="flags-row-1"] .flag__times').text()).toMatch(/^Déclenchée il y a \d+ jours · dernière constatation il y a \d+ jours$/);
+    expect(wrapper.get('[data-testid="flags-row-2"] .flag__times').text()).toMatch(/^Déclenchée il y a \d+ jours · terminée il y a \d+ jours$/);
+    expect(wrapper.get('[data-testid="flags-acknowledged-1"]').text()).toMatch(/^Vue par Dana Okafor il y a \d+ jours : « Chauffage relancé »$/);
+    expect(wrapper.get('[data-testid="flags-cleared-by-2"]').text()).toBe('Levée à la main par Dana Okafor : « Cuve vidée »');
+    expect(englishLeft(wrapper.text(), ['flags'])).toEqual([]);
   });
 });
