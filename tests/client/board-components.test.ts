@@ -229,9 +229,10 @@ describe('the board in Spanish and French', () => {
   it('shows a tile, its cover line and its sight tube in Spanish, with no English sentence of the board left', async () => {
     speaking('es');
     const tile = makeTile({ tankId: 7, code: 'CS-W1', grossL: 6_000, usableL: 5_500, levelMm: 1000, low: true, lowStockL: 20_000, takenAt: '2026-02-28T09:00:00.000Z', useLPerDay: 600, daysOfCover: 9.4 });
-    const { wrapper } = await mountWithApp(BoardTankTile, { pinia, path: '/', props: { tile, unitSystem: 'metric', now: NOW } });
+    const { wrapper } = await mountWithApp(BoardTankTile, { pinia, path: '/', props: { tile, unitSystem: 'metric', now: NOW, flagKinds: ['frost-risk'] } });
 
     const link = wrapper.get('[data-testid="board-tile-CS-W1"]');
+    expect(link.get('[data-testid="board-tile-flags-CS-W1"]').text()).toBe('Riesgo de helada');
     expect(link.get('[data-testid="board-cover-CS-W1"]').text()).toMatch(/^Quedan ≈ 9 días\s*a 600 L\/día$/);
     expect(link.get('.tile__when').text()).toBe('Desactualizado: leído hace 2 días');
     expect(link.text()).toContain('Bajo: menos de 20.000 L');

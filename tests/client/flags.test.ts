@@ -222,13 +222,16 @@ describe('FlagsView in French', () => {
     api.fetchFlags.mockResolvedValue([
       makeFlag(1, { kind: 'cold-culture', status: 'acknowledged', acknowledgedAt: '2026-03-02T02:00:00.000Z', acknowledgedBy: 'Dana Okafor', ackNote: 'Chauffage relancé' }),
       makeFlag(2, { kind: 'frost-risk', status: 'cleared', clearedAt: '2026-03-02T03:00:00.000Z', clearedBy: 'Dana Okafor', clearNote: 'Cuve vidée' }),
+      makeFlag(3, { kind: 'low-stock' }),
     ]);
     const { wrapper } = await mountWithApp(FlagsView, { pinia, path: '/flags' });
 
     expect(wrapper.get('h1').text()).toBe('Alertes');
     expect(wrapper.get('label[for="flags-filter-status"]').text()).toBe('Afficher');
     expect(wrapper.get('[data-testid="flags-filter-status"]').text()).toContain('À traiter (ouvertes ou vues)');
-    expect(wrapper.get('[data-testid="flags-count"]').text()).toBe('2 alertes');
+    expect(wrapper.get('[data-testid="flags-count"]').text()).toBe('3 alertes');
+    // The server keeps the flag's sentence in English; the card says it in French with the same figures.
+    expect(wrapper.get('[data-testid="flags-row-3"] .flag__message').text()).toBe('Tank 3 a 120 L utiles, sous son seuil de 300 L');
     expect(wrapper.get('[data-testid="flags-row-1"] .flag__times').text()).toMatch(/^Déclenchée il y a \d+ jours · dernière constatation il y a \d+ jours$/);
     expect(wrapper.get('[data-testid="flags-row-2"] .flag__times').text()).toMatch(/^Déclenchée il y a \d+ jours · terminée il y a \d+ jours$/);
     expect(wrapper.get('[data-testid="flags-acknowledged-1"]').text()).toMatch(/^Vue par Dana Okafor il y a \d+ jours : « Chauffage relancé »$/);
