@@ -130,6 +130,8 @@ describe('in Spanish and French', () => {
     expect(reorderGroups([input], now).map((g) => g.title)).toEqual(['À acheter maintenant']);
     expect(buySentence(input, now)).toBe('Achetez 60 L (3 conditionnements de 20 L) maintenant.');
     expect(stockSentence(input)).toBe('Avec 12 L en stock, il y en a pour environ 2,4 jours à 5 L par jour ; 20 L en commande.');
+    // French abbreviates December with a full stop ("déc."), which also ends the sentence: one stop, not two.
+    expect(buySentence({ ...input, due: false, orderBy: '2026-12-16T12:00:00.000Z' }, now)).toBe('Achetez 60 L (3 conditionnements de 20 L) au plus tard le 16 déc.');
   });
 
   it('follows a change of language back to English at once', () => {

@@ -4,9 +4,10 @@
 import type { InputCategory, InputStatus, Movement } from '@shared/schemas';
 import { currentLocale, i18n } from '@/i18n';
 
-// Called when the words are needed, never at module load, so a change of language shows at once.
+// Called when the words are needed, never at module load, so a change of language shows at once. A sentence
+// that ends on an abbreviated month ("déc.") takes no second full stop.
 const t = (key: string, named: Record<string, unknown> = {}, plural?: number): string =>
-  plural === undefined ? i18n.global.t(key, named) : i18n.global.t(key, named, plural);
+  (plural === undefined ? i18n.global.t(key, named) : i18n.global.t(key, named, plural)).replace(/\.\.$/, '.');
 
 const CATEGORY_KEYS: Record<InputCategory, string> = {
   fertilizer: 'fertilizer',
