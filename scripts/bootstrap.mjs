@@ -40,7 +40,7 @@ if ((task === 'test' || task === 'bench') && !existsSync('/usr/bin/chromium')) n
 // The label tests render PDFs with pdftoppm and read them back with pdftotext.
 if (task === 'test' && !has('pdftoppm')) needed.push('poppler-utils');
 // Several server processes (`npm run start:cluster`, SERVERS=N npm start) share a Redis behind haproxy; the tests start both.
-if (task === 'test' || task === 'start:cluster' || (task === 'start' && Number(process.env.SERVERS ?? 1) > 1)) {
+if (task === 'test' || task === 'start:cluster' || (task === 'start' && Number(process.env.SERVERS ?? 1) > 1) || (task === 'bench' && process.argv.includes('board-cluster'))) {
   if (!existsSync('/usr/bin/redis-server')) needed.push('redis-server');
   if (!existsSync('/usr/sbin/haproxy')) needed.push('haproxy');
 }
