@@ -4,8 +4,7 @@ import type { TopUpInput, TopUpPlanRefused } from '@shared/mixing';
 import type { BrewKind, BrewStatus } from '@shared/schemas';
 import { i18n } from '@/i18n';
 
-const t = (key: string, named: Record<string, unknown> = {}, plural?: number) =>
-  plural === undefined ? i18n.global.t(`brews.${key}`, named) : i18n.global.t(`brews.${key}`, named, plural);
+const t = (key: string, named: Record<string, unknown> = {}, plural?: number) => (plural === undefined ? i18n.global.t(key, named) : i18n.global.t(key, named, plural));
 
 const KIND_KEYS: Record<BrewKind, string> = { culture: 'culture', fertilizer: 'fertilizer', 'pest-solution': 'pestSolution' };
 const STATUS_KEYS: Record<BrewStatus, string> = { brewing: 'brewing', ready: 'ready', 'used-up': 'usedUp', discarded: 'discarded' };
@@ -18,27 +17,27 @@ const STATUS_SEVERITIES: Record<BrewStatus, 'info' | 'success' | 'secondary' | '
 
 /** What a brew kind is called on screen. */
 export function brewKindLabel(kind: BrewKind): string {
-  return t(`kinds.${KIND_KEYS[kind]}`);
+  return t(`brews.kinds.${KIND_KEYS[kind]}`);
 }
 
 /** What a brew status is called on screen, and its tag colour. */
 export function brewStatusTag(status: BrewStatus): { label: string; severity: 'info' | 'success' | 'secondary' | 'danger' } {
-  return { label: t(`statuses.${STATUS_KEYS[status]}`), severity: STATUS_SEVERITIES[status] };
+  return { label: t(`brews.statuses.${STATUS_KEYS[status]}`), severity: STATUS_SEVERITIES[status] };
 }
 
 /** The button that moves a brew to `status` ("Mark ready"…). */
 export function brewActionLabel(status: BrewStatus): string {
-  return t(`actions.${STATUS_KEYS[status]}`);
+  return t(`brews.actions.${STATUS_KEYS[status]}`);
 }
 
 /** The toast after a status change: "Compost tea: ready". */
 export function brewStatusChanged(name: string, status: BrewStatus): string {
-  return t(`toast.statusNow.${STATUS_KEYS[status]}`, { name });
+  return t(`brews.toast.statusNow.${STATUS_KEYS[status]}`, { name });
 }
 
 /** "parts water" or "parts total", the way a recorded ratio was meant. */
 export function conventionWords(convention: 'parts-water' | 'parts-total'): string {
-  return t(convention === 'parts-water' ? 'conventions.partsWater' : 'conventions.partsTotal');
+  return t(convention === 'parts-water' ? 'brews.conventions.partsWater' : 'brews.conventions.partsTotal');
 }
 
 /** "ready", "ready in 2 days", "ready in 5 h"; null without a date. */
@@ -46,11 +45,11 @@ export function readyText(readyAt: string | null, now: Date = new Date()): strin
   if (!readyAt) return null;
   const ms = new Date(readyAt).getTime() - now.getTime();
   if (Number.isNaN(ms)) return null;
-  if (ms <= 0) return t('readyIn.now');
+  if (ms <= 0) return t('brews.readyIn.now');
   const hours = Math.ceil(ms / 3_600_000);
-  if (hours < 24) return t('readyIn.hours', { n: hours });
+  if (hours < 24) return t('brews.readyIn.hours', { n: hours });
   const days = Math.ceil(ms / 86_400_000);
-  return t('readyIn.days', { n: days }, days);
+  return t('brews.readyIn.days', { n: days }, days);
 }
 
 /**
@@ -64,17 +63,17 @@ export function topUpRefusalText(plan: TopUpPlanRefused, input: TopUpInput, volu
   const addL = vt - v0;
   switch (plan.code) {
     case 'target-below-current':
-      return t('mix.refusals.targetBelowCurrent', { held: volume(v0), target: volume(vt) });
+      return t('brews.mix.refusals.targetBelowCurrent', { held: volume(v0), target: volume(vt) });
     case 'exceeds-ullage':
-      return t('mix.refusals.exceedsUllage', { target: volume(vt), add: volume(addL), room: volume(ullage) });
+      return t('brews.mix.refusals.exceedsUllage', { target: volume(vt), add: volume(addL), room: volume(ullage) });
     case 'already-too-strong': {
       // As topUpPlan words it: water alone dilutes what the tank holds to the target strength at c0·v0/ct.
       const dilutedL = ct > 0 ? (c0 * v0) / ct : Infinity;
-      const hint = ct > 0 && dilutedL - v0 <= ullage + 1e-9 * Math.max(1, vt) ? t('mix.refusals.waterAloneReaches', { volume: volume(dilutedL) }) : t('mix.refusals.useOrDrain');
-      return `${t('mix.refusals.alreadyTooStrong', { target: volume(vt), strength: strength(ct) })} ${hint}`;
+      const hint = ct > 0 && dilutedL - v0 <= ullage + 1e-9 * Math.max(1, vt) ? t('brews.mix.refusals.waterAloneReaches', { volume: volume(dilutedL) }) : t('brews.mix.refusals.useOrDrain');
+      return `${t('brews.mix.refusals.alreadyTooStrong', { target: volume(vt), strength: strength(ct) })} ${hint}`;
     }
     case 'stock-too-weak':
       // The strongest mix reachable: all of the room to the target filled with concentrate.
-      return t('mix.refusals.stockTooWeak', { target: volume(vt), best: strength((c0 * v0 + cs * addL) / vt), strength: strength(ct) });
+      return t('brews.mix.refusals.stockTooWeak', { target: volume(vt), best: strength((c0 * v0 + cs * addL) / vt), strength: strength(ct) });
   }
 }
