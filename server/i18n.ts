@@ -18,7 +18,7 @@ import {
 } from '@intlify/core-base';
 import { DEFAULT_LANGUAGE, LANGUAGES, LANGUAGE_LOCALES, isLanguage, type Language } from '@shared/i18n/languages';
 import { PLURAL_RULES } from '@shared/i18n/plural';
-import { knownMessages, sayKnown } from '@shared/i18n/known-messages';
+import { knownMessages, localiseFigures, sayKnown } from '@shared/i18n/known-messages';
 import { useCatalogueZodMessages } from '@shared/i18n/zod-messages';
 
 registerMessageCompiler(compile);
@@ -115,4 +115,23 @@ export function browserLanguageOf(req: Pick<Request, 'acceptsLanguages' | 'get'>
 /** The language to answer a request in: the signed-in person's choice, else what the browser asks for. */
 export function requestLanguage(req: Request): Language {
   return isLanguage(req.actor?.language) ? req.actor.language : acceptedLanguage(req);
+}
+
+/** A flag kind's key in area `flagKinds` ("low-stock" → "lowStock"). */
+export function flagKindKey(kind: string): string {
+  return kind.replace(/-(\w)/g, (_m, c: string) => c.toUpperCase());
+}
+
+/** A flag kind's name in `language` ("Running low", "Queda poco"). */
+export function flagLabelIn(kind: string, language: Language): string {
+  return tr(language, `flagKinds.label.${flagKindKey(kind)}`);
+}
+
+let knownFlagMessages: ReturnType<typeof knownMessages> | null = null;
+
+/** A stored flag sentence (English) in `language`, its names and figures kept (figures written as the language writes them). */
+export function flagMessageIn(message: string, language: Language): string {
+  if (language === DEFAULT_LANGUAGE) return message;
+  knownFlagMessages ??= knownMessages('flagKinds.message', (englishArea('flagKinds').message ?? {}) as Messages);
+  return sayKnown(message, knownFlagMessages, (key, named) => tr(language, key, localiseFigures(named, LANGUAGE_LOCALES[language])));
 }

@@ -1,11 +1,14 @@
 // Flags by mail: each person chooses a mail per new flag, a daily summary, or none, for the kinds
 // that concern their role on the farms they may see.
 import { Op } from 'sequelize';
-import { FLAG_CAUTIONS, FLAG_LABELS } from '@shared/flags';
+import { CAUTION_DEFERS } from '@shared/cautions';
+import { flagCautionText } from '@shared/flags';
+import type { Language } from '@shared/i18n/languages';
 import type { FlagKind, Role } from '@shared/schemas';
 import type { AppContext } from '../context';
 import { escapeHtml } from '../mail/mailer';
 import type { Flag, User } from '../models';
+import { flagLabelIn, flagMessageIn, languageOr, tr, translatorFor } from '../i18n';
 
 /** The flag kinds each role hears of: workers their farms' stale tanks, buyers reorders, managers and owners all. */
 export const KINDS_BY_ROLE: Record<Role, readonly FlagKind[] | 'all'> = { owner: 'all', manager: 'all', worker: ['stale-tank'], buyer: ['reorder-due'] };
@@ -24,12 +27,17 @@ async function readersOf(ctx: AppContext, organisationId: number, choice: 'immed
   }));
 }
 
-function render(flags: Flag[], farmNames: Map<number, string>, link: string) {
-  const lines = flags.map((f) => `- [${FLAG_LABELS[f.kind]}] ${farmNames.get(f.farmId) ?? ''}: ${f.message}${FLAG_CAUTIONS[f.kind] ? `\n  Caution: ${FLAG_CAUTIONS[f.kind]}` : ''}`);
-  const items = flags.map((f) => `<li><strong>${escapeHtml(FLAG_LABELS[f.kind])}</strong> — ${escapeHtml(farmNames.get(f.farmId) ?? '')}: ${escapeHtml(f.message)}${FLAG_CAUTIONS[f.kind] ? `<br><em>Caution: ${escapeHtml(FLAG_CAUTIONS[f.kind]!)}</em>` : ''}</li>`);
+function render(flags: Flag[], farmNames: Map<number, string>, link: string, language: Language) {
+  const t = translatorFor(language);
+  const caution = (f: Flag) => flagCautionText(f.kind, language);
+  const lines = flags.map((f) => `- [${flagLabelIn(f.kind, language)}] ${farmNames.get(f.farmId) ?? ''}: ${flagMessageIn(f.message, language)}${caution(f) ? `\n  ${t('mail.flag.caution', { text: caution(f)! })}` : ''}`);
+  const items = flags.map(
+    (f) =>
+      `<li><strong>${escapeHtml(flagLabelIn(f.kind, language))}</strong> — ${escapeHtml(farmNames.get(f.farmId) ?? '')}: ${escapeHtml(flagMessageIn(f.message, language))}${caution(f) ? `<br><em>${escapeHtml(t('mail.flag.caution', { text: caution(f)! }))}</em>` : ''}</li>`,
+  );
   return {
-    text: `${lines.join('\n')}\n\nSee and acknowledge them: ${link}\nCautions defer to your local codes, product labels and licensed practice.\n`,
-    html: `<ul>${items.join('')}</ul><p><a href="${escapeHtml(link)}">See and acknowledge them in Brimstock</a></p><p>Cautions defer to your local codes, product labels and licensed practice.</p>`,
+    text: `${lines.join('\n')}\n\n${t('mail.flag.seeText', { link })}\n${CAUTION_DEFERS[language]}\n`,
+    html: `<ul>${items.join('')}</ul><p><a href="${escapeHtml(link)}">${escapeHtml(t('mail.flag.seeLink'))}</a></p><p>${escapeHtml(CAUTION_DEFERS[language])}</p>`,
   };
 }
 
@@ -44,8 +52,11 @@ export async function mailRaisedFlags(ctx: AppContext, organisationId: number, r
   for (const { user, farmIds } of await readersOf(ctx, organisationId, 'immediate')) {
     const mine = raised.filter((f) => farmIds.has(f.farmId) && concerns(user.role, f.kind));
     if (!mine.length) continue;
-    const body = render(mine, names, `${ctx.config.publicUrl}/flags`);
-    const subject = mine.length === 1 ? `Brimstock: ${FLAG_LABELS[mine[0].kind]} — ${mine[0].message}`.slice(0, 180) : `Brimstock: ${mine.length} new flags`;
+    const language = languageOr(user.language);
+    const t = translatorFor(language);
+    const body = render(mine, names, `${ctx.config.publicUrl}/flags`, language);
+    const subject =
+      mine.length === 1 ? t('mail.flag.subjectOne', { kind: flagLabelIn(mine[0].kind, language), message: flagMessageIn(mine[0].message, language) }).slice(0, 180) : t('mail.flag.subjectMany', { n: mine.length });
     await ctx.mailer.send({ organisationId, kind: 'flag', to: user.email, subject, ...body }).catch((err) => ctx.logger.error({ err }, 'flag mail failed'));
   }
 }
@@ -84,8 +95,10 @@ export async function sendFlagDigests(ctx: AppContext, now = new Date()): Promis
       if (firstFarm === undefined || !digestDue(now, user.lastDigestAt, zones.get(firstFarm)!, ctx.config.flagDigestHour)) continue;
       const mine = active.filter((f) => farmIds.has(f.farmId) && concerns(user.role, f.kind));
       if (!mine.length) continue;
-      const body = render(mine, names, `${ctx.config.publicUrl}/flags`);
-      await ctx.mailer.send({ organisationId: org.id, kind: 'flag', to: user.email, subject: `Brimstock daily summary: ${mine.length} flag${mine.length === 1 ? '' : 's'} need${mine.length === 1 ? 's' : ''} a look`, ...body });
+      const language = languageOr(user.language);
+      const body = render(mine, names, `${ctx.config.publicUrl}/flags`, language);
+      const subject = tr(language, 'mail.flag.subjectDigest', { n: mine.length }, mine.length);
+      await ctx.mailer.send({ organisationId: org.id, kind: 'flag', to: user.email, subject, ...body });
       await user.update({ lastDigestAt: now });
       sent++;
     }

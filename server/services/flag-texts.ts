@@ -10,6 +10,7 @@ import type { Flag, User } from '../models';
 import { isPassingFailure } from '../sms/sender';
 import { digestDue, KINDS_BY_ROLE } from './flag-mail';
 import { digestText, raisedFlagsText } from './flag-text-body';
+import { languageOr } from '../i18n';
 
 const concerns = (role: Role, kind: FlagKind) => KINDS_BY_ROLE[role] === 'all' || (KINDS_BY_ROLE[role] as readonly FlagKind[]).includes(kind);
 
@@ -58,7 +59,7 @@ export async function queueRaisedFlagTexts(ctx: AppContext, organisationId: numb
   const names = await farmNamesOf(ctx, raised);
   for (const { user, farmIds } of readers) {
     const mine = raised.filter((f) => farmIds.has(f.farmId) && concerns(user.role, f.kind));
-    if (mine.length && (await queueText(ctx, user, raisedFlagsText(mine, names, ctx.config.publicUrl))) === 'pending') queued++;
+    if (mine.length && (await queueText(ctx, user, raisedFlagsText(mine, names, ctx.config.publicUrl, languageOr(user.language)))) === 'pending') queued++;
   }
   if (queued) drainSoon(ctx);
   return queued;
@@ -78,7 +79,7 @@ export async function queueTextDigests(ctx: AppContext, now = new Date()): Promi
       if (firstFarm === undefined || !digestDue(now, user.lastTextDigestAt, zones.get(firstFarm)!, ctx.config.flagDigestHour)) continue;
       const mine = active.filter((f) => farmIds.has(f.farmId) && concerns(user.role, f.kind));
       if (!mine.length) continue;
-      await queueText(ctx, user, digestText(mine, ctx.config.publicUrl), now);
+      await queueText(ctx, user, digestText(mine, ctx.config.publicUrl, languageOr(user.language)), now);
       await user.update({ lastTextDigestAt: now });
       queued++;
     }

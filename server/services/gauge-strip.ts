@@ -7,11 +7,13 @@ import { PDFDocument, closePath, fill, lineTo, moveTo, popGraphicsState, pushGra
 import { GAUGE_HEADER_MM, GaugeStripError, gaugePage, gaugeStripLayout, suggestGaugeStep, type GaugePaper, type GaugeStripLayout, type GaugeStripPage } from '@shared/gauge';
 import type { GaugeStripQuery, SessionUser, TankContents } from '@shared/schemas';
 import { formatLength, formatNumberTrimmed, INCH_MM, UNIT_SYMBOLS, type UnitSystem } from '@shared/units';
-import { CAUTION_SENTENCES } from '@shared/cautions';
+import { cautionSentences } from '@shared/cautions';
+import { DEFAULT_LANGUAGE, LANGUAGE_LOCALES, type Language } from '@shared/i18n/languages';
+import { languageOr, translatorFor, type Translate } from '../i18n';
 import type { AppContext } from '../context';
 import { AppError } from '../errors';
 import { embedFonts, GREY, INK, line, printable, PT_PER_MM, pt, round2, text, type Fonts } from './pdf-text';
-import { drawLabelCutLines, drawTankLabel, LABEL_MM, tankLabelOf, type TankLabel } from './tank-labels';
+import { drawLabelCutLines, drawTankLabel, LABEL_MM, printedContents, tankLabelOf, type TankLabel } from './tank-labels';
 import { tankFor, toTankDto } from './tanks';
 
 export { PT_PER_MM } from './pdf-text';
@@ -30,12 +32,12 @@ export const GAUGE_DRAWING = {
   checkBarMm: { metric: 100, us: 4 * INCH_MM },
 } as const;
 
-// The confined-space caution in the shared words: the header carries its first three sentences, the text
-// along a cut strip (narrow) the first and the third.
-const CONFINED = CAUTION_SENTENCES['confined-space'];
-const CAUTION = CONFINED.slice(0, 3).join(' ');
-const CAUTION_ALONG = `${CONFINED[0]} ${CONFINED[2]}`;
-const CONTENTS_NAMES: Record<TankContents, string> = { water: 'Water', fertilizer: 'Fertilizer', 'pest-solution': 'Pest solution', culture: 'Microbial culture' };
+// The confined-space caution in the shared words, in the reader's language: the header carries its first
+// three sentences, the text along a cut strip (narrow) the first and the third.
+const cautionAlong = (language: Language) => {
+  const confined = cautionSentences('confined-space', language);
+  return `${confined[0]} ${confined[2]}`;
+};
 
 /** What the strip prints about its tank. */
 export interface GaugeStripTank {
@@ -54,8 +56,9 @@ export async function gaugeStripPdf(ctx: AppContext, actor: SessionUser, id: num
     const every = query.every === undefined ? suggestGaugeStep(tank.geometry, tank.datumOffsetMm, unitSystem) : { value: query.every, unit: unitSystem === 'us' ? ('usgal' as const) : ('L' as const) };
     return gaugeStripLayout({ geometry: tank.geometry, datumOffsetMm: tank.datumOffsetMm, everyVolume: every, unitSystem, page: gaugePage(paper) });
   });
-  const label = query.label === 'true' ? tankLabelOf(ctx, toTankDto(tank), unitSystem) : undefined;
-  const pdf = await renderGaugeStrip({ name: tank.name, code: tank.code, contents: tank.contents, contentsNote: tank.contentsNote }, layout, label);
+  const language = languageOr(actor.language);
+  const label = query.label === 'true' ? tankLabelOf(ctx, toTankDto(tank), unitSystem, language) : undefined;
+  const pdf = await renderGaugeStrip({ name: tank.name, code: tank.code, contents: tank.contents, contentsNote: tank.contentsNote }, layout, label, language);
   return { filename: `${tank.code}-gauge-strip${label ? '-and-label' : ''}.pdf`, pdf, layout };
 }
 
@@ -77,11 +80,13 @@ function withFieldErrors<T>(work: () => T): T {
  * Draws a layout as a PDF at 1:1 (one page per layout page, Helvetica embedded by pdf-lib, no
  * network). Saved without object streams so each page's content is a plain stream object.
  */
-export async function renderGaugeStrip(tank: GaugeStripTank, layout: GaugeStripLayout, label?: TankLabel): Promise<Uint8Array> {
+export async function renderGaugeStrip(tank: GaugeStripTank, layout: GaugeStripLayout, label?: TankLabel, language: Language = DEFAULT_LANGUAGE): Promise<Uint8Array> {
   const doc = await PDFDocument.create();
   const fonts = await embedFonts(doc);
-  doc.setTitle(`${tank.name} (${tank.code}) — gauge strip`);
-  doc.setSubject('Sight-tube gauge strip, print at 100 % (actual size)');
+  const words: Words = { t: translatorFor(language), locale: LANGUAGE_LOCALES[language], language };
+  doc.setTitle(words.t('pdf.strip.title', { name: tank.name, code: tank.code }));
+  doc.setSubject(words.t('pdf.strip.subject'));
+  doc.setLanguage(words.locale);
   doc.setCreator('Brimstock');
   doc.setProducer('Brimstock');
   // Readers print at the sheet size in the file; 2 decimals of a point (< 0.002 mm) match the
@@ -89,7 +94,7 @@ export async function renderGaugeStrip(tank: GaugeStripTank, layout: GaugeStripL
   const size: [number, number] = [round2(pt(layout.page.widthMm)), round2(pt(layout.page.heightMm))];
   const pages = layout.pages.map((p) => {
     const page = doc.addPage(size);
-    drawPage(page, fonts, tank, layout, p);
+    drawPage(page, fonts, tank, layout, p, words);
     return page;
   });
   if (label) {
@@ -129,41 +134,54 @@ function labelSpot(layout: GaugeStripLayout): { xMm: number; yMm: number } | nul
   return null;
 }
 
-function drawPage(page: PDFPage, fonts: Fonts, tank: GaugeStripTank, layout: GaugeStripLayout, p: GaugeStripPage) {
-  const unitSystem: UnitSystem = layout.scaleUnit === 'in' ? 'us' : 'metric';
-  drawHeader(page, fonts, tank, layout, p, unitSystem);
-  drawStrip(page, fonts, tank, layout, p);
-  drawUprightCheckBar(page, fonts, layout, unitSystem);
+/** How a strip's words are said: the translator, the locale of its figures and the language of its caution. */
+interface Words {
+  t: Translate;
+  locale: string;
+  language: Language;
 }
 
-function drawHeader(page: PDFPage, fonts: Fonts, tank: GaugeStripTank, layout: GaugeStripLayout, p: GaugeStripPage, unitSystem: UnitSystem) {
+function drawPage(page: PDFPage, fonts: Fonts, tank: GaugeStripTank, layout: GaugeStripLayout, p: GaugeStripPage, words: Words) {
+  const unitSystem: UnitSystem = layout.scaleUnit === 'in' ? 'us' : 'metric';
+  drawHeader(page, fonts, tank, layout, p, unitSystem, words);
+  drawStrip(page, fonts, tank, layout, p, words);
+  drawUprightCheckBar(page, fonts, layout, unitSystem, words);
+}
+
+function drawHeader(page: PDFPage, fonts: Fonts, tank: GaugeStripTank, layout: GaugeStripLayout, p: GaugeStripPage, unitSystem: UnitSystem, words: Words) {
+  const { t, locale } = words;
   const { widthMm, heightMm, marginMm } = layout.page;
   const left = marginMm;
   const right = widthMm - marginMm;
   const top = heightMm - marginMm;
-  const pageText = `Page ${p.label}`;
+  const pageText = t('pdf.strip.page', { page: p.label });
   const pageWidth = pt(right - left) - fonts.bold.widthOfTextAtSize(pageText, 11);
   text(page, fonts, pageText, { x: right, y: top - 5, size: 11, bold: true, align: 'right' });
-  text(page, fonts, `${tank.name} (${tank.code}) — gauge strip`, { x: left, y: top - 5, size: 13, bold: true, maxWidthPt: pageWidth - pt(6) });
+  text(page, fonts, t('pdf.strip.title', { name: tank.name, code: tank.code }), { x: left, y: top - 5, size: 13, bold: true, maxWidthPt: pageWidth - pt(6) });
 
-  const contents = CONTENTS_NAMES[tank.contents] + (tank.contentsNote ? ` (${tank.contentsNote})` : '');
-  const volumeWords = layout.volumeUnit === 'L' ? 'litres (L)' : 'US gallons (gal)';
-  const stepText = volumeText(layout.step.value, layout);
+  const contents = printedContents(tank.contents, words.language) + (tank.contentsNote ? ` (${tank.contentsNote})` : '');
+  const volumeWords = t(layout.volumeUnit === 'L' ? 'pdf.strip.litres' : 'pdf.strip.gallons');
+  const stepText = volumeText(layout.step.value, layout, locale);
+  const edge = {
+    unit: t(layout.scaleUnit === 'mm' ? 'pdf.strip.millimetres' : 'pdf.strip.inches'),
+    offset: formatLength(Math.abs(layout.datumOffsetMm), unitSystem, undefined, locale),
+    top: formatLength(layout.topPositionMm, unitSystem, undefined, locale),
+  };
   const lines = [
-    `Contents: ${contents}. A mark every ${stepText}, long marks every ${volumeText(layout.step.value * layout.majorEvery, layout)}; labels in ${volumeWords}.`,
-    `Edge scale: sight-tube reading in ${layout.scaleUnit === 'mm' ? 'millimetres' : 'inches'}. Tube zero mark ${formatLength(Math.abs(layout.datumOffsetMm), unitSystem)} ${layout.datumOffsetMm < 0 ? 'below' : 'above'} the tank floor; top of the tank at ${formatLength(layout.topPositionMm, unitSystem)} on the tube.`,
+    t('pdf.strip.marks', { contents, step: stepText, major: volumeText(layout.step.value * layout.majorEvery, layout, locale), unit: volumeWords }),
+    t(layout.datumOffsetMm < 0 ? 'pdf.strip.edgeBelow' : 'pdf.strip.edgeAbove', edge),
   ];
   lines.forEach((line, i) => text(page, fonts, line, { x: left, y: top - 11 - 4.5 * i, size: 8, maxWidthPt: pt(right - left) }));
-  text(page, fonts, 'Print at 100 % / actual size — do not scale to fit.', { x: left, y: top - 22.5, size: 10.5, bold: true });
+  text(page, fonts, t('pdf.strip.printActual'), { x: left, y: top - 22.5, size: 10.5, bold: true });
 
   const barMm = GAUGE_DRAWING.checkBarMm[unitSystem];
   const barY = top - 28;
   line(page, left, barY, left + barMm, barY, GAUGE_DRAWING.checkBarThicknessMm);
   for (const x of [left, left + barMm]) line(page, x, barY - 1.8, x, barY + 1.8, 0.2);
   const barWords = unitSystem === 'us' ? '4 in' : '100 mm';
-  text(page, fonts, `Check with a ruler: the bar above must measure exactly ${barWords}. If it does not, the print was scaled — do not use this strip.`, { x: left, y: barY - 5, size: 7.5, maxWidthPt: pt(right - left) });
-  text(page, fonts, CAUTION, { x: left, y: top - 39, size: 9.5, bold: true, maxWidthPt: pt(right - left) });
-  text(page, fonts, "Cut the strip out along its two edges and tape it beside the sight tube with the 0 line level with the tube's zero mark. Join pages at the matching join lines.", {
+  text(page, fonts, t('pdf.strip.checkRuler', { bar: barWords }), { x: left, y: barY - 5, size: 7.5, maxWidthPt: pt(right - left) });
+  text(page, fonts, cautionSentences('confined-space', words.language).slice(0, 3).join(' '), { x: left, y: top - 39, size: 9.5, bold: true, maxWidthPt: pt(right - left) });
+  text(page, fonts, t('pdf.strip.cutAndTape'), {
     x: left,
     y: top - 44,
     size: 7,
@@ -171,7 +189,8 @@ function drawHeader(page: PDFPage, fonts: Fonts, tank: GaugeStripTank, layout: G
   });
 }
 
-function drawStrip(page: PDFPage, fonts: Fonts, tank: GaugeStripTank, layout: GaugeStripLayout, p: GaugeStripPage) {
+function drawStrip(page: PDFPage, fonts: Fonts, tank: GaugeStripTank, layout: GaugeStripLayout, p: GaugeStripPage, words: Words) {
+  const { t, locale } = words;
   const D = GAUGE_DRAWING;
   const x0 = layout.page.marginMm;
   const xr = x0 + D.stripWidthMm;
@@ -209,29 +228,29 @@ function drawStrip(page: PDFPage, fonts: Fonts, tank: GaugeStripTank, layout: Ga
 
   // Along the strip, so a strip cut from its page still carries the caution and says what it is;
   // a short last piece that cannot hold them leaves them to the pages below and the header.
-  const scaleWords = layout.scaleUnit === 'mm' ? 'edge scale in mm' : 'edge scale in inches';
+  const scaleWords = t(layout.scaleUnit === 'mm' ? 'pdf.strip.scaleMm' : 'pdf.strip.scaleIn');
   const along: [string, number, number, boolean][] = [
-    [CAUTION_ALONG, 38, 6.5, true],
-    [`${tank.code} · page ${p.label} · a mark every ${volumeText(layout.step.value, layout)} · ${scaleWords}`, 44, 6, false],
+    [cautionAlong(words.language), 38, 6.5, true],
+    [t('pdf.strip.along', { code: tank.code, page: p.label, step: volumeText(layout.step.value, layout, locale), scale: scaleWords }), 44, 6, false],
   ];
-  for (const [words, dx, size, isBold] of along) {
-    const lengthMm = (isBold ? fonts.bold : fonts.regular).widthOfTextAtSize(printable(fonts, words), size) / PT_PER_MM;
-    if (lengthMm + 9 <= yHigh - yLow) text(page, fonts, words, { x: x0 + dx, y: yLow + 6, size, bold: isBold, rotate: 90 });
+  for (const [said, dx, size, isBold] of along) {
+    const lengthMm = (isBold ? fonts.bold : fonts.regular).widthOfTextAtSize(printable(fonts, said), size) / PT_PER_MM;
+    if (lengthMm + 9 <= yHigh - yLow) text(page, fonts, said, { x: x0 + dx, y: yLow + 6, size, bold: isBold, rotate: 90 });
   }
 
   const noteX = xr + 6;
   if (first) {
     line(page, x0 - 3, y(0), xr + 3, y(0), 0.45);
-    text(page, fonts, "0 — level with the tube's zero mark", { x: noteX, y: y(0) - 1, size: 8, bold: true });
+    text(page, fonts, t('pdf.strip.zero'), { x: noteX, y: y(0) - 1, size: 8, bold: true });
   }
   if (layout.floorPositionMm !== null && layout.floorPositionMm >= p.fromMm && layout.floorPositionMm <= p.toMm) {
     // Outside the strip, pointing at the edge scale: the "0 L" mark already shows the floor on the volume side.
     line(page, xr, y(layout.floorPositionMm), xr + 5, y(layout.floorPositionMm), 0.25, GREY);
-    text(page, fonts, 'Tank floor', { x: noteX, y: y(layout.floorPositionMm) + 1, size: 7 });
+    text(page, fonts, t('pdf.strip.floor'), { x: noteX, y: y(layout.floorPositionMm) + 1, size: 7 });
   }
   if (last) {
     line(page, x0 - 3, yHigh, xr + 3, yHigh, 0.45);
-    text(page, fonts, 'Top of the tank', { x: noteX, y: yHigh + 1, size: 8, bold: true });
+    text(page, fonts, t('pdf.strip.top'), { x: noteX, y: yHigh + 1, size: 8, bold: true });
   }
   for (const j of p.joins) {
     const jy = y(j.positionMm);
@@ -248,14 +267,14 @@ function drawStrip(page: PDFPage, fonts: Fonts, tank: GaugeStripTank, layout: Ga
   }
 }
 
-function drawUprightCheckBar(page: PDFPage, fonts: Fonts, layout: GaugeStripLayout, unitSystem: UnitSystem) {
+function drawUprightCheckBar(page: PDFPage, fonts: Fonts, layout: GaugeStripLayout, unitSystem: UnitSystem, words: Words) {
   const barMm = GAUGE_DRAWING.checkBarMm[unitSystem];
   const x = layout.page.widthMm - layout.page.marginMm - 6;
   const y0 = layout.stripBottomMm;
   // Printers can scale height and width differently; the marks run upright, so check upright too.
   line(page, x, y0, x, y0 + barMm, GAUGE_DRAWING.checkBarThicknessMm);
   for (const y of [y0, y0 + barMm]) line(page, x - 1.8, y, x + 1.8, y, 0.2);
-  text(page, fonts, `Check: ${unitSystem === 'us' ? '4 in' : '100 mm'}`, { x: x - 2.5, y: y0 + barMm / 2 - 10, size: 7, bold: true, rotate: 90 });
+  text(page, fonts, words.t('pdf.strip.check', { bar: unitSystem === 'us' ? '4 in' : '100 mm' }), { x: x - 2.5, y: y0 + barMm / 2 - 10, size: 7, bold: true, rotate: 90 });
 }
 
 /** A filled 4 mm wide, 2.5 mm tall triangle with its apex on (x, y), pointing up (dir −1, below) or down (dir 1, above). */
@@ -272,4 +291,4 @@ function triangle(page: PDFPage, xMm: number, yMm: number, dir: number) {
   );
 }
 
-const volumeText = (value: number, layout: GaugeStripLayout) => `${formatNumberTrimmed(value, 6)} ${UNIT_SYMBOLS[layout.step.unit]}`;
+const volumeText = (value: number, layout: GaugeStripLayout, locale = 'en-US') => `${formatNumberTrimmed(value, 6, locale)} ${UNIT_SYMBOLS[layout.step.unit]}`;

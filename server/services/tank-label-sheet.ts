@@ -4,6 +4,7 @@ import { PDFDocument } from 'pdf-lib';
 import { PAPER_SIZES_MM, type GaugePaper } from '@shared/gauge';
 import type { FarmLabelsQuery, SessionUser } from '@shared/schemas';
 import type { AppContext } from '../context';
+import { languageOr, translatorFor } from '../i18n';
 import { AppError } from '../errors';
 import { getFarm } from './farms';
 import { embedFonts, GREY, line, pt, round2, text } from './pdf-text';
@@ -28,6 +29,8 @@ export function labelSheetGrid(paper: GaugePaper) {
 export async function farmLabelsPdf(ctx: AppContext, actor: SessionUser, farmId: number, query: FarmLabelsQuery): Promise<{ filename: string; pdf: Uint8Array }> {
   const farm = await getFarm(ctx, actor, farmId);
   const tanks = await listTanks(ctx, actor, { farmId });
+  const language = languageOr(actor.language);
+  const t = translatorFor(language);
   if (tanks.length === 0) throw new AppError(422, 'no_tanks', `${farm.name} has no active tanks to print labels for`);
   const unitSystem = query.unit ?? actor.unitSystem;
   const paper: GaugePaper = query.paper ?? (unitSystem === 'us' ? 'letter' : 'a4');
@@ -36,14 +39,14 @@ export async function farmLabelsPdf(ctx: AppContext, actor: SessionUser, farmId:
   const sheets = Math.ceil(tanks.length / perSheet);
 
   const doc = await PDFDocument.create();
-  describeLabelDocument(doc, `${farm.name} — tank labels`);
+  describeLabelDocument(doc, t('pdf.sheet.title', { farm: farm.name }), language);
   const fonts = await embedFonts(doc);
   for (let s = 0; s < sheets; s++) {
     const page = doc.addPage([round2(pt(grid.widthMm)), round2(pt(grid.heightMm))]);
     const onSheet = tanks.slice(s * perSheet, (s + 1) * perSheet);
     const rowsUsed = Math.ceil(onSheet.length / LABEL_SHEET.columns);
     const gridTop = grid.bottomMm + grid.gridHeightMm;
-    text(page, fonts, `${farm.name} — tank labels · sheet ${s + 1} of ${sheets} · cut along the dashed lines`, {
+    text(page, fonts, t('pdf.sheet.heading', { farm: farm.name, sheet: s + 1, sheets }), {
       x: grid.leftMm,
       y: gridTop + CUT_OVERRUN_MM + 2,
       size: 8,
@@ -53,7 +56,7 @@ export async function farmLabelsPdf(ctx: AppContext, actor: SessionUser, farmId:
     onSheet.forEach((tank, i) => {
       const col = i % LABEL_SHEET.columns;
       const row = Math.floor(i / LABEL_SHEET.columns);
-      drawTankLabel(page, fonts, tankLabelOf(ctx, tank, unitSystem), grid.leftMm + col * LABEL_MM.widthMm, gridTop - (row + 1) * LABEL_MM.heightMm);
+      drawTankLabel(page, fonts, tankLabelOf(ctx, tank, unitSystem, language), grid.leftMm + col * LABEL_MM.widthMm, gridTop - (row + 1) * LABEL_MM.heightMm);
     });
     const usedBottom = gridTop - rowsUsed * LABEL_MM.heightMm;
     for (let r = 0; r <= rowsUsed; r++) {

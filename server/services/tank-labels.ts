@@ -3,11 +3,13 @@
 // sheet of them for a farm (tank-label-sheet.ts), or beside the gauge strip.
 import { PDFDocument, rgb, type PDFPage } from 'pdf-lib';
 import QRCode from 'qrcode';
-import { CAUTION_TITLES, cautionText } from '@shared/cautions';
+import { CAUTION_WORD, cautionText, cautionTitle } from '@shared/cautions';
+import { DEFAULT_LANGUAGE, LANGUAGE_LOCALES, type Language } from '@shared/i18n/languages';
 import { usableCapacityL } from '@shared/readings';
 import type { SessionUser, Tank, TankContents, TankLabelQuery } from '@shared/schemas';
 import { formatVolume, type UnitSystem } from '@shared/units';
 import type { AppContext } from '../context';
+import { languageOr, translatorFor } from '../i18n';
 import { embedFonts, GREY, INK, line, pt, round2, text, wrapLines, type Fonts } from './pdf-text';
 import { tankFor, toTankDto } from './tanks';
 
@@ -16,7 +18,12 @@ export const LABEL_MM = { widthMm: 95, heightMm: 66 } as const;
 const PAD_MM = 4;
 const QR_MM = 32;
 
-const CONTENTS_NAMES: Record<TankContents, string> = { water: 'Water', fertilizer: 'Fertilizer', 'pest-solution': 'Pest solution', culture: 'Microbial culture' };
+const CONTENTS_KEYS: Record<TankContents, string> = { water: 'water', fertilizer: 'fertilizer', 'pest-solution': 'pestSolution', culture: 'culture' };
+
+/** What a tank's contents are called on its printed label and strip, in `language`. */
+export function printedContents(contents: TankContents, language: Language): string {
+  return translatorFor(language)(`pdf.contents.${CONTENTS_KEYS[contents]}`);
+}
 
 /** What a label prints about its tank, in the reader's units. */
 export interface TankLabel {
@@ -28,6 +35,8 @@ export interface TankLabel {
   capacityL: number;
   usableCapacityL: number;
   unitSystem: UnitSystem;
+  /** The language its words and figures are printed in. */
+  language: Language;
   /** The address the QR code holds: the round, at this tank. */
   link: string;
 }
@@ -38,7 +47,7 @@ export function tankRoundLink(publicUrl: string, tankId: number): string {
 }
 
 /** The label of a tank, its capacities worked out from its shape and levels. */
-export function tankLabelOf(ctx: AppContext, tank: Tank, unitSystem: UnitSystem): TankLabel {
+export function tankLabelOf(ctx: AppContext, tank: Tank, unitSystem: UnitSystem, language: Language = DEFAULT_LANGUAGE): TankLabel {
   return {
     tankId: tank.id,
     code: tank.code,
@@ -48,6 +57,7 @@ export function tankLabelOf(ctx: AppContext, tank: Tank, unitSystem: UnitSystem)
     capacityL: tank.capacityL,
     usableCapacityL: usableCapacityL(tank.geometry, tank),
     unitSystem,
+    language,
     link: tankRoundLink(ctx.config.publicUrl, tank.id),
   };
 }
@@ -55,9 +65,10 @@ export function tankLabelOf(ctx: AppContext, tank: Tank, unitSystem: UnitSystem)
 /** The label PDF of a tank the actor may see: one page the size of the label. */
 export async function tankLabelPdf(ctx: AppContext, actor: SessionUser, id: number, query: TankLabelQuery): Promise<{ filename: string; pdf: Uint8Array }> {
   const tank = toTankDto(await tankFor(ctx, actor, id));
-  const label = tankLabelOf(ctx, tank, query.unit ?? actor.unitSystem);
+  const language = languageOr(actor.language);
+  const label = tankLabelOf(ctx, tank, query.unit ?? actor.unitSystem, language);
   const doc = await PDFDocument.create();
-  describeLabelDocument(doc, `${tank.name} (${tank.code}) — tank label`);
+  describeLabelDocument(doc, translatorFor(language)('pdf.label.title', { name: tank.name, code: tank.code }), language);
   const fonts = await embedFonts(doc);
   const page = doc.addPage([round2(pt(LABEL_MM.widthMm)), round2(pt(LABEL_MM.heightMm))]);
   drawTankLabel(page, fonts, label, 0, 0);
@@ -65,9 +76,10 @@ export async function tankLabelPdf(ctx: AppContext, actor: SessionUser, id: numb
 }
 
 /** Title, subject and makers of a label PDF. */
-export function describeLabelDocument(doc: PDFDocument, title: string) {
+export function describeLabelDocument(doc: PDFDocument, title: string, language: Language = DEFAULT_LANGUAGE) {
   doc.setTitle(title);
-  doc.setSubject('Tank label: scan the code to take this tank’s reading on the round');
+  doc.setSubject(translatorFor(language)('pdf.label.subject'));
+  doc.setLanguage(LANGUAGE_LOCALES[language]);
   doc.setCreator('Brimstock');
   doc.setProducer('Brimstock');
 }
@@ -78,6 +90,8 @@ export function describeLabelDocument(doc: PDFDocument, title: string) {
  * the bottom. The caller draws any cut lines around it.
  */
 export function drawTankLabel(page: PDFPage, fonts: Fonts, label: TankLabel, xMm: number, yMm: number) {
+  const t = translatorFor(label.language);
+  const locale = LANGUAGE_LOCALES[label.language];
   const left = xMm + PAD_MM;
   const right = xMm + LABEL_MM.widthMm - PAD_MM;
   const top = yMm + LABEL_MM.heightMm - PAD_MM;
@@ -93,11 +107,11 @@ export function drawTankLabel(page: PDFPage, fonts: Fonts, label: TankLabel, xMm
     y -= 4.2;
   }
   y -= 1;
-  const contents = CONTENTS_NAMES[label.contents] + (label.contentsNote ? ` (${label.contentsNote})` : '');
+  const contents = printedContents(label.contents, label.language) + (label.contentsNote ? ` (${label.contentsNote})` : '');
   const facts = [
-    `Holds: ${contents}`,
-    `Capacity: ${formatVolume(label.capacityL, label.unitSystem)}`,
-    `Usable: ${formatVolume(label.usableCapacityL, label.unitSystem)} (outlet to safe fill line)`,
+    t('pdf.label.holds', { contents }),
+    t('pdf.label.capacity', { volume: formatVolume(label.capacityL, label.unitSystem, 0, locale) }),
+    t('pdf.label.usable', { volume: formatVolume(label.usableCapacityL, label.unitSystem, 0, locale) }),
   ];
   for (const fact of facts) {
     for (const l of wrapLines(fonts, fact, { widthMm: colWidthMm, size: 7.5, maxLines: 2 })) {
@@ -106,13 +120,14 @@ export function drawTankLabel(page: PDFPage, fonts: Fonts, label: TankLabel, xMm
       y -= 3.3;
     }
   }
-  text(page, fonts, 'Scan to take this tank’s reading on the round.', { x: colX, y: top - QR_MM - 3, size: 6, maxWidthPt: pt(colWidthMm), color: GREY });
+  text(page, fonts, t('pdf.label.scan'), { x: colX, y: top - QR_MM - 3, size: 6, maxWidthPt: pt(colWidthMm), color: GREY });
 
   const rule = top - QR_MM - 6;
   line(page, left, rule, right, rule, 0.3);
-  text(page, fonts, `Caution — ${CAUTION_TITLES['confined-space'].toLowerCase()}`, { x: left, y: rule - 3.8, size: 8, bold: true, maxWidthPt: pt(right - left) });
+  const heading = t('pdf.label.cautionHeading', { caution: CAUTION_WORD[label.language], topic: cautionTitle('confined-space', label.language).toLowerCase() });
+  text(page, fonts, heading, { x: left, y: rule - 3.8, size: 8, bold: true, maxWidthPt: pt(right - left) });
   let cy = rule - 7.2;
-  for (const l of wrapLines(fonts, cautionText('confined-space'), { widthMm: right - left, size: 6.8, maxLines: 4 })) {
+  for (const l of wrapLines(fonts, cautionText('confined-space', label.language), { widthMm: right - left, size: 6.8, maxLines: 4 })) {
     text(page, fonts, l, { x: left, y: cy, size: 6.8, maxWidthPt: pt(right - left) });
     cy -= 2.9;
   }
