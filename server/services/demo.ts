@@ -8,7 +8,7 @@ import type { Database } from '../db';
 import { hashPassword } from './passwords';
 import { insertReadings, type NewReading } from './readings';
 import { readingToVolumes, tankSetupOf } from '@shared/readings';
-import { wallClockOf } from '@shared/time';
+import { farmDayNumberOf, instantOfWallClock, wallClockOf } from '@shared/time';
 import { heightMm } from '@shared/calibration';
 import { QUIET_HOURS } from './forecasts';
 
@@ -64,12 +64,32 @@ export function readScenario(file = resolve(import.meta.dirname, '../../samples/
 const DEMO_USE_PER_DAY = { water: 0.07, fertilizer: 0.035, 'pest-solution': 0.05, culture: 0.025 } as const;
 const DEMO_DAYS = 21;
 
+const MS_PER_DAY = 86_400_000;
+/** The demo's rounds start at 07:00 farm time and each tank is read within the next 40 minutes (invented). */
+const ROUND_START_MINUTES = 7 * 60;
+/**
+ * From 05:30 farm time a demo loaded before today's round has it walked already, a minute before loading:
+ * then the last 30 × 24 h hold 30 rounds whenever it is loaded, a clock change of the month included.
+ */
+const ROUND_DUE_MINUTES = 5 * 60 + 30;
+
+/** The instant of a demo round on farm-local day `dayNumber`, `minutesLate` after the rounds start. */
+function roundAt(dayNumber: number, minutesLate: number, timeZone: string): Date {
+  return new Date(instantOfWallClock(dayNumber * MS_PER_DAY + (ROUND_START_MINUTES + minutesLate) * 60_000, timeZone));
+}
+
+/** The farm-local day number of the newest demo round: today's from 05:30 farm time, else yesterday's. */
+function newestRoundDay(now: number, timeZone: string): number {
+  const today = farmDayNumberOf(now, timeZone);
+  return now >= instantOfWallClock(today * MS_PER_DAY + ROUND_DUE_MINUTES * 60_000, timeZone) ? today : today - 1;
+}
+
 /**
  * Three weeks of morning sight-tube rounds for a demo tank (earlierDemoRounds adds the days before them): a steady draw with a little day-to-day
  * spread, a refill or new brew when the level runs low, and warm cultures (one cooling off). The
  * numbers come from a fixed pseudo-random sequence, so every demo database is the same.
  */
-function demoReadings(tank: import('../models').Tank, index: number, workerId: number | null, timeZone: string): NewReading[] {
+export function demoReadings(tank: import('../models').Tank, index: number, workerId: number | null, timeZone: string): NewReading[] {
   let seed = 9_301 + index * 49_297;
   const random = () => ((seed = (seed * 16_807) % 2_147_483_647) / 2_147_483_647);
   const setup = tankSetupOf(tank);
@@ -77,8 +97,10 @@ function demoReadings(tank: import('../models').Tank, index: number, workerId: n
   const span = top - tank.outletHeightMm;
   let fraction = 0.55 + random() * 0.35;
   const out: NewReading[] = [];
-  // The newest round was walked an hour or so ago, whenever the demo is loaded.
-  const today = new Date(Date.now() - 90 * 60_000);
+  // One round per farm-local morning, so each farm day (the day series' bucket) has its own, whatever the
+  // time the demo is loaded; the newest is this morning's, or yesterday's before 05:30 farm time.
+  const now = Date.now();
+  const newestDay = newestRoundDay(now, timeZone);
   // The gate tank is read only now and then: its last reading is four days old.
   const lastDay = tank.code === 'SO-W2' ? 4 : 0;
   for (let d = DEMO_DAYS; d >= lastDay; d--) {
@@ -87,7 +109,8 @@ function demoReadings(tank: import('../models').Tank, index: number, workerId: n
     const levelMm = Math.round(tank.outletHeightMm + Math.max(0.02, fraction) * span);
     const v = readingToVolumes(setup, { kind: 'level', levelMm });
     if (!v.ok) continue;
-    const takenAt = new Date(today.getTime() - d * 86_400_000 + Math.round(random() * 40) * 60_000);
+    const walked = roundAt(newestDay - d, Math.round(random() * 40), timeZone);
+    const takenAt = d === 0 && walked.getTime() > now - 60_000 ? new Date(now - 60_000) : walked;
     const cooling = tank.code === 'HR-C2' && d <= 2;
     // This morning's round: the cistern's float valve stuck open overnight, and the fertigation tote stood in a hard frost.
     const overfilled = tank.code === 'SO-W1' && d === 0;
@@ -113,9 +136,10 @@ const DEMO_EARLIER_DAYS = 12;
  * a day adds that day's draw, and a level that would pass the fill line was a refill, with the tank
  * low before it. Invented figures, the same in every demo database.
  */
-function earlierDemoRounds(tank: import('../models').Tank, rounds: NewReading[], index: number): NewReading[] {
+export function earlierDemoRounds(tank: import('../models').Tank, rounds: NewReading[], index: number, timeZone: string): NewReading[] {
   const oldest = rounds.find((r) => r.source === 'round');
   if (!oldest) return [];
+  const oldestDay = farmDayNumberOf(oldest.takenAt.getTime(), timeZone);
   let seed = 7_877 + index * 31_337;
   const random = () => ((seed = (seed * 16_807) % 2_147_483_647) / 2_147_483_647);
   const setup = tankSetupOf(tank);
@@ -129,7 +153,7 @@ function earlierDemoRounds(tank: import('../models').Tank, rounds: NewReading[],
     const levelMm = Math.round(tank.outletHeightMm + Math.max(0.02, fraction) * span);
     const v = readingToVolumes(setup, { kind: 'level', levelMm });
     if (!v.ok) continue;
-    const takenAt = new Date(oldest.takenAt.getTime() - d * 86_400_000 + Math.round((random() - 0.5) * 40) * 60_000);
+    const takenAt = roundAt(oldestDay - d, 20 + Math.round((random() - 0.5) * 40), timeZone);
     out.unshift({
       ...oldest, takenAt, levelMm, grossL: v.grossL, usableL: v.usableL,
       temperatureC: tank.contents === 'culture' ? Math.round((21 + random() * 3) * 10) / 10 : null, note: '',
@@ -225,7 +249,7 @@ export async function loadDemoScenario(db: Database, opts: { onlyIfEmpty?: boole
       const made = demoReadings(tank, rounds, readerOf(tank.farmId), timeZoneOf(tank.farmId));
       // Counted before the earlier days are added, so every tank's three weeks come out as they always have.
       rounds += made.filter((r) => r.source === 'round').length;
-      readings.push(...earlierDemoRounds(tank, made, rounds), ...made);
+      readings.push(...earlierDemoRounds(tank, made, rounds, timeZoneOf(tank.farmId)), ...made);
     }
     const supplierIds = new Map<string, number>();
     for (const { key, ...sup } of scenario.suppliers) supplierIds.set(key, (await Supplier.create({ ...sup, organisationId: org.id, archivedAt: null }, { transaction })).id);
