@@ -19,6 +19,7 @@ import { useRoundOutboxStore } from './stores/round-outbox';
 import { registerSW } from 'virtual:pwa-register';
 import { offerUpdate } from './offline/app-update';
 import { i18n } from './i18n';
+import { primeVueLanguage } from './i18n/primevue-locales';
 
 const app = createApp(App);
 // With the plugin that empties a person's stores when someone else signs in on the device.
@@ -34,6 +35,8 @@ app.use(PrimeVue, {
     options: { darkModeSelector: false, cssLayer: false },
   },
 });
+// PrimeVue's own words (Yes/No, month names, aria labels) follow the screens' language.
+app.use(primeVueLanguage);
 app.use(ToastService);
 app.use(ConfirmationService);
 
