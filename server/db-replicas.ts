@@ -9,7 +9,7 @@
 // lagging, too slow to catch up or failing a query leaves its reads to the primary; the watch puts it
 // back when it replicates again.
 import { AsyncLocalStorage } from 'node:async_hooks';
-import mariadb from 'mariadb';
+import mariadb, { type Connection } from 'mariadb';
 import { QueryTypes, type Sequelize } from 'sequelize';
 import type { Config } from './config';
 import { isDatabaseUnavailable } from './db-errors';
@@ -74,7 +74,14 @@ interface QueryOptionsLike {
   [key: string]: unknown;
 }
 type AnyQuery = (sql: unknown, options?: QueryOptionsLike) => Promise<unknown>;
-type Watched = ReplicaState & { host: string; port: number; conn?: mariadb.Connection; checking?: Promise<void> };
+type Watched = ReplicaState & {
+  host: string;
+  port: number;
+  conn?: Connection;
+  checking?: Promise<void>;
+  /** A wait for the primary's position timed out: back in use only at 0 s behind, so one lag does not slow every request. */
+  slow?: boolean;
+};
 
 const keyOf = (host: string | undefined, port: number | string | undefined) => `${host}:${port}`;
 const errorText = (err: unknown) => {
@@ -110,6 +117,8 @@ export function attachReplicaReads(sequelize: Sequelize, db: Config['db'], log: 
         w.conn ??= await mariadb.createConnection({ host: w.host, port: w.port, user: db.user, password: db.password, connectTimeout: Math.min(timeoutMs, 5_000) });
         return (await w.conn.query('SHOW SLAVE STATUS')) as Record<string, unknown>[];
       })();
+      // Past the time limit its late failure is of no interest (the catch below has already judged it).
+      work.catch(() => undefined);
       const rows = await Promise.race([work, new Promise<never>((_, reject) => (timer = setTimeout(() => reject(new Error(`no answer in ${timeoutMs} ms`)), timeoutMs)))]);
       const row = rows[0];
       if (!row) return setState(w, false, 'it has no primary to replicate from', null);
@@ -121,6 +130,8 @@ export function attachReplicaReads(sequelize: Sequelize, db: Config['db'], log: 
         return setState(w, false, `replication stopped: IO thread ${io}, SQL thread ${sql}${error ? `, ${error}` : ''}`, null);
       }
       if (behind > settings.maxLagS) return setState(w, false, `${behind} s behind the primary, over the bound of ${settings.maxLagS} s`, behind);
+      if (w.slow && behind > 0) return setState(w, false, w.reason, behind);
+      w.slow = false;
       setState(w, true, '', behind);
     } catch (err) {
       w.conn?.destroy();
@@ -180,6 +191,11 @@ export function attachReplicaReads(sequelize: Sequelize, db: Config['db'], log: 
         return true;
       }
       counts.waitTimeouts++;
+      const w = conn.replicaKey === undefined ? undefined : byKey.get(conn.replicaKey);
+      if (w?.usable) {
+        w.slow = true;
+        setState(w, false, `it did not reach the primary's position within ${settings.waitMs} ms`, w.secondsBehind);
+      }
       return false;
     } catch {
       counts.failures++;
