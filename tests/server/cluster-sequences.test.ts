@@ -1,0 +1,146 @@
+// The board streams' numbers in Redis (services/board-sequences.ts) and the turns of the delta builds
+// (cluster/turns.ts), each over two connections to a real redis-server as two server processes would
+// hold them; and the sign-in limits' store that counts in memory while Redis cannot be reached.
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import pino from 'pino';
+import { MemoryStore, type Options } from 'express-rate-limit';
+import type { RedisServer } from '../../scripts/lib/redis';
+import { connectRedis, type RedisConnection } from '../../server/cluster/redis';
+import { fallbackStore } from '../../server/cluster/limit-store';
+import { redisTurns } from '../../server/cluster/turns';
+import { EPOCH_KEY, memorySequences, redisSequences } from '../../server/services/board-sequences';
+import { testRedis } from '../support/cluster-processes';
+
+const logger = pino({ level: 'silent' });
+let redis: RedisServer;
+const clients: RedisConnection[] = [];
+
+beforeAll(async () => {
+  redis = await testRedis();
+}, 30_000);
+afterAll(async () => {
+  for (const c of clients) c.destroy();
+  await redis?.stop();
+});
+
+async function connection(): Promise<RedisConnection> {
+  const c = await connectRedis(redis.url, logger, 'test');
+  clients.push(c);
+  return c;
+}
+
+describe('board stream numbers in Redis', () => {
+  it('numbers one stream per farm set across two processes, in one epoch', async () => {
+    const [one, two] = [redisSequences(await connection(), logger), redisSequences(await connection(), logger)];
+    const key = `9:${Date.now()}`;
+    expect((await one.position(key)).seq).toBe(0);
+    const a = await one.next([key, `${key}-other`]);
+    const b = await two.next([key]);
+    expect(a.seqs).toEqual([1, 1]);
+    expect(b.seqs).toEqual([2]);
+    expect(b.epoch).toBe(a.epoch);
+    expect(await two.position(key)).toEqual({ epoch: a.epoch, seq: 2 });
+    expect(one.epoch).toBe(a.epoch);
+  });
+
+  it('starts a new epoch when Redis has lost its keys (flushed or restarted)', async () => {
+    const c = await connection();
+    const seq = redisSequences(c, logger);
+    const key = `10:${Date.now()}`;
+    const before = await seq.next([key]);
+    await c.flushAll();
+    const after = await seq.next([key]);
+    expect(after.epoch).not.toBe(before.epoch);
+    expect(after.seqs).toEqual([1]);
+  });
+
+  it('gives a position of its own while Redis cannot be reached, refuses numbers, and starts a new epoch once it is back', async () => {
+    const c = await connection();
+    const other = redisSequences(await connection(), logger);
+    const seq = redisSequences(c, logger);
+    const key = `11:${Date.now()}`;
+    const known = (await seq.next([key])).epoch;
+    // This process's connection goes away (the others keep theirs).
+    c.destroy();
+    c.emit('error', new Error('gone'));
+    const away = await seq.position(key);
+    expect(away.epoch).not.toBe(known);
+    expect(away.epoch).toMatch(/^away-/);
+    expect(away.seq).toBe(0);
+    await expect(seq.next([key])).rejects.toThrow();
+    // Back: a new connection under the same numbering (the client object reconnects by itself in a server).
+    await c.connect();
+    const back = await seq.next([key]);
+    expect(back.epoch).not.toBe(known);
+    expect(back.epoch).not.toBe(away.epoch);
+    // The other processes adopt the new epoch instead of starting yet another.
+    expect((await other.next([key])).epoch).toBe(back.epoch);
+    expect(await c.get(EPOCH_KEY)).toBe(back.epoch);
+  });
+
+  it('keeps numbering in memory as before without Redis', async () => {
+    const seq = memorySequences();
+    expect(await seq.position('1:1')).toEqual({ epoch: seq.epoch, seq: 0 });
+    expect((await seq.next(['1:1', '1:2'])).seqs).toEqual([1, 1]);
+    expect((await seq.next(['1:1'])).seqs).toEqual([2]);
+    expect(memorySequences().epoch).not.toBe(seq.epoch);
+  });
+});
+
+describe('turns in Redis', () => {
+  it('runs the work of two processes for one key one after the other, and of two keys side by side', async () => {
+    const [one, two] = [redisTurns(await connection()), redisTurns(await connection())];
+    const log: string[] = [];
+    const work = (name: string) => async () => {
+      log.push(`${name} in`);
+      await new Promise((r) => setTimeout(r, 60));
+      log.push(`${name} out`);
+    };
+    const key = `k${Date.now()}`;
+    await Promise.all([one.take(key, work('a')), two.take(key, work('b'))]);
+    expect([log.slice(0, 2), log.slice(2)].map((pair) => pair[0].split(' ')[0] === pair[1].split(' ')[0])).toEqual([true, true]);
+    log.length = 0;
+    await Promise.all([one.take(`${key}-x`, work('c')), two.take(`${key}-y`, work('d'))]);
+    expect(log.slice(0, 2).sort()).toEqual(['c in', 'd in']);
+  });
+
+  it('gives the turn back when the work fails', async () => {
+    const turns = redisTurns(await connection());
+    const key = `f${Date.now()}`;
+    await expect(turns.take(key, async () => Promise.reject(new Error('failed')))).rejects.toThrow('failed');
+    const startedAt = Date.now();
+    expect(await turns.take(key, async () => 'again')).toBe('again');
+    expect(Date.now() - startedAt).toBeLessThan(1_000);
+  });
+});
+
+describe('sign-in limits while Redis is away', () => {
+  const options = { windowMs: 60_000 } as Options;
+
+  it('counts in the shared store while it answers, and in memory when it fails', async () => {
+    const shared = new MemoryStore();
+    let failing = false;
+    const flaky = {
+      init: (o: Options) => shared.init(o),
+      increment: (key: string) => (failing ? Promise.reject(new Error('Redis away')) : shared.increment(key)),
+      decrement: (key: string) => shared.decrement(key),
+      resetKey: (key: string) => shared.resetKey(key),
+      get: (key: string) => (failing ? Promise.reject(new Error('Redis away')) : shared.get(key)),
+    };
+    // Another process's failures, already in the shared store.
+    flaky.init(options);
+    await shared.increment('acct-ip:a');
+    await shared.increment('acct-ip:a');
+    const store = fallbackStore(flaky, logger);
+    store.init!(options);
+    expect((await store.increment('acct-ip:a')).totalHits).toBe(3);
+    failing = true;
+    // Counted here from this process's own failures: one before, one now.
+    expect((await store.increment('acct-ip:a')).totalHits).toBe(2);
+    expect((await store.increment('acct-ip:a')).totalHits).toBe(3);
+    failing = false;
+    expect((await store.increment('acct-ip:a')).totalHits).toBe(4);
+    shared.shutdown();
+    store.shutdown!();
+  });
+});
