@@ -1,6 +1,4 @@
-import type { App } from 'vue';
-import { createI18n, type Composer } from 'vue-i18n';
-import { applyPrimeVueLocale } from './primevue-locale';
+import { createI18n } from 'vue-i18n';
 import { setNumberLocale } from '@shared/units';
 import { DEFAULT_LANGUAGE, LANGUAGES, LANGUAGE_LOCALES, languageFrom, type Language } from '@shared/i18n/languages';
 import { PLURAL_RULES } from '@shared/i18n/plural';
@@ -57,16 +55,6 @@ export const i18n = createI18n({
   fallbackWarn: false,
 });
 
-// The app i18n is installed in, so PrimeVue's own words (installed on the same app) can follow the language.
-let installedOn: App | null = null;
-const installI18n = i18n.install.bind(i18n);
-i18n.install = (app: App, ...options: unknown[]) => {
-  installI18n(app, ...(options as []));
-  installedOn = app;
-  // PrimeVue is installed right after this plugin (src/main.ts); its locale is set once it is there.
-  queueMicrotask(() => applyPrimeVueLocale(installedOn, currentLanguage(), i18n.global as unknown as Composer));
-};
-
 /** The language every screen speaks now. */
 export function currentLanguage(): Language {
   return i18n.global.locale.value as Language;
@@ -102,7 +90,6 @@ export function onLanguageChange(listener: LanguageListener): () => void {
 export function setLanguage(language: Language): void {
   i18n.global.locale.value = language;
   if (typeof document !== 'undefined') document.documentElement.lang = language;
-  applyPrimeVueLocale(installedOn, language, i18n.global as unknown as Composer);
   for (const listener of listeners) listener(language);
 }
 
