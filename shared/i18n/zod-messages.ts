@@ -14,7 +14,8 @@ export function issueMessage(issue: Issue, errors: Record<string, unknown>): str
   switch (issue.code) {
     case 'invalid_type':
       if (issue.input === undefined || issue.input === null || issue.input === '') return say('required');
-      if (issue.expected === 'number' || issue.expected === 'int' || issue.expected === 'bigint') return say('notNumber');
+      if (issue.expected === 'int') return typeof issue.input === 'number' ? say('notInteger') : say('notNumber');
+      if (issue.expected === 'number' || issue.expected === 'bigint') return say('notNumber');
       if (issue.expected === 'string') return say('notText');
       if (issue.expected === 'date') return say('notDate');
       return say('invalid');
