@@ -20,6 +20,7 @@ import ImportsCounts from '@/components/imports/ImportsCounts.vue';
 import ImportsFilePicker from '@/components/imports/ImportsFilePicker.vue';
 import ImportsHistory from '@/components/imports/ImportsHistory.vue';
 import ImportsPolicyChoice from '@/components/imports/ImportsPolicyChoice.vue';
+import ImportsPreviewTable from '@/components/imports/ImportsPreviewTable.vue';
 import ImportsProgressPanel from '@/components/imports/ImportsProgressPanel.vue';
 import ImportsResultCard from '@/components/imports/ImportsResultCard.vue';
 import { formatBytes } from '@/components/imports/importLabels';
@@ -193,6 +194,19 @@ describe('logger file words outside the templates', () => {
     setLanguage('es');
     const built = buildMapping(emptyDraft('Europe/Madrid'), null);
     expect(built.ok ? null : built.errors['timestamp.column']).toBe('Elija la columna que contiene la fecha y la hora');
+  });
+});
+
+describe('sentences set side by side', () => {
+  it('keep the space between them where the template joins two elements', () => {
+    const checks = mount(BrewsBatchChecks, { props: { tankName: 'Tote by the barn', unitSystem: 'metric', context: 'form', fit: { verdict: 'tight', batchL: 95, safeFillL: 400, heldL: 300, freeL: 100, leftL: 5, percentOfFree: 95 } }, ...plugins });
+    expect(checks.text()).toContain('Close to the safe fill line. This brew makes 95.0 L, 95 % of the 100.0 L free in Tote by the barn: 5.0 L would be left. Fill slowly');
+    const rows = [
+      { line: 1, cells: ['Date'], kind: 'header' as const, problems: [], reading: null, notice: null },
+      { line: 2, cells: [''], kind: 'blank' as const, problems: [], reading: null, notice: null },
+    ];
+    const preview = mount(ImportsPreviewTable, { props: { check: { rows, fatal: null, good: 0, bad: 0 }, header: ['Date'], mapped: {}, judged: true, unitSystem: 'metric', fileName: 'tote.csv' }, ...plugins });
+    expect(preview.get('.preview__summary').text()).toBe('First 2 lines of tote.csv. 0 good, 0 with problems.');
   });
 });
 
