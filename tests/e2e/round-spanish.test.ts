@@ -9,6 +9,7 @@ import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
+import { CAUTION_TOPICS, CAUTION_WORD, cautionText, cautionTitle } from '@shared/cautions';
 import { readScenario } from '../../server/services/demo';
 import { launch, pickOption, screenshot, signInAs, type Browser } from '../support/browser';
 
@@ -52,10 +53,15 @@ function wordsOf(text: string): string[] {
     .filter((w) => w.length > 1);
 }
 
-/** English words of the areas' messages whose Spanish differs, less every word Spanish itself uses (no, a, de…). */
+/** The cautions as the page may show them (shared/cautions keeps their words), in `language`. */
+function cautionTexts(language: 'en' | 'es'): string[] {
+  return [CAUTION_WORD[language], ...CAUTION_TOPICS.flatMap((topic) => [cautionTitle(topic, language), cautionText(topic, language)])];
+}
+
+/** English words of the areas' messages and the cautions whose Spanish differs, less every word Spanish itself uses (no, a, de, use…). */
 function englishOnlyWords(): Set<string> {
-  const english = new Set<string>(COMMON_ENGLISH);
-  const spanish = new Set<string>();
+  const english = new Set<string>([...COMMON_ENGLISH, ...cautionTexts('en').flatMap(wordsOf)]);
+  const spanish = new Set<string>(cautionTexts('es').flatMap(wordsOf));
   for (const area of AREAS) {
     const es = flatten(readArea('es', area));
     for (const [key, text] of flatten(readArea('en', area))) {
@@ -137,6 +143,9 @@ describe('the round in Spanish', () => {
       const cards = page.locator('[data-testid^="round-tank-"]');
       await cards.first().waitFor();
       expect(await page.locator('h1').innerText()).toBe('Ronda');
+      // The worker's links fit one row of the bar in Spanish too.
+      const rows = await page.evaluate(() => document.querySelector('.navbar__links')!.getBoundingClientRect().height / document.querySelector('.navbar__link')!.getBoundingClientRect().height);
+      expect(Math.round(rows)).toBe(1);
       const data = await dataTexts(page);
 
       await page.evaluate(() => window.scrollTo(0, 0));
