@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { formatNumber, formatNumberTrimmed } from '../units/index';
+import { checkProblem, figure, type CheckParam, type CheckProblem } from '../check-problems';
 import {
   HORIZONTAL_ENDS,
   MAX_POINT_VOLUME_L,
@@ -26,6 +27,16 @@ const MSG = {
   tooFewPoints: 'must list at least 1 point',
   tooManyPoints: `must list at most ${MAX_POINTS} points`,
 } as const;
+
+// Each message's code in area `checks` (geometry.<key>) with its figures, for screens in other languages.
+const MSG_PARAMS: Partial<Record<keyof typeof MSG, Record<string, CheckParam>>> = {
+  maxSize: { max: figure(MAX_SIZE_MM, 0), maxM: figure(MAX_SIZE_MM / 1000, 3) },
+  maxVolume: { max: figure(MAX_POINT_VOLUME_L, 0) },
+  shape: { list: TANK_SHAPES.join(', ') },
+  ends: { list: HORIZONTAL_ENDS.join(', ') },
+  tooManyPoints: { max: figure(MAX_POINTS, 0) },
+};
+const MSG_CODES = new Map<string, keyof typeof MSG>(Object.entries(MSG).map(([key, message]) => [message, key as keyof typeof MSG]));
 
 const numberError = (iss: { input?: unknown }) => (iss.input === undefined ? MSG.required : MSG.notNumber);
 
@@ -71,6 +82,7 @@ const pointsSchema = z
         code: 'custom',
         path: [0],
         message: `volume ${litres(first.volumeL)} L at level ${mm(first.levelMm)} mm must be above 0 L, the volume taken at level 0 mm; add a point at level 0 mm to give the tank a volume there`,
+        params: { check: 'firstVolume', volume: figure(first.volumeL, 3), level: figure(first.levelMm, 3) },
       });
     }
     for (let i = 1; i < points.length; i++) {
@@ -81,17 +93,19 @@ const pointsSchema = z
           code: 'custom',
           path: [i],
           message: `level ${mm(p.levelMm)} mm is not above the previous point's ${mm(prev.levelMm)} mm`,
+          params: { check: 'levelNotAbove', level: figure(p.levelMm, 3), previous: figure(prev.levelMm, 3) },
         });
       } else if (!(p.volumeL > prev.volumeL)) {
         ctx.addIssue({
           code: 'custom',
           path: [i],
           message: `volume ${litres(p.volumeL)} L is not above the previous point's ${litres(prev.volumeL)} L`,
+          params: { check: 'volumeNotAbove', volume: figure(p.volumeL, 3), previous: figure(prev.volumeL, 3) },
         });
       }
     }
     if (points.length === 1 && first.levelMm === 0) {
-      ctx.addIssue({ code: 'custom', path: [], message: 'must include a point above level 0 mm' });
+      ctx.addIssue({ code: 'custom', path: [], message: 'must include a point above level 0 mm', params: { check: 'pointAboveZero' } });
     }
   });
 
@@ -120,10 +134,24 @@ export const tankGeometrySchema: z.ZodType<TankGeometry> = z.discriminatedUnion(
   error: () => MSG.shape,
 });
 
-/** One problem with a geometry: the dotted field path and a message that starts with it. */
+/**
+ * One problem with a geometry: the dotted field path, a message that starts with it, and the message after
+ * the field as a code of area `checks` ("geometry.positive") with its figures, for screens in other languages.
+ */
 export interface GeometryIssue {
   field: string;
   message: string;
+  problem: CheckProblem;
+}
+
+/** The code and figures of a zod issue of the geometry schema: its own check, one of MSG, else the English as it is. */
+function problemOf(issue: { code: string; message: string; params?: Record<string, unknown> }): CheckProblem {
+  if (issue.code === 'custom' && issue.params && typeof issue.params.check === 'string') {
+    const { check, ...params } = issue.params;
+    return checkProblem(`geometry.${check}`, params as Record<string, CheckParam>);
+  }
+  const key = MSG_CODES.get(issue.message);
+  return key ? checkProblem(`geometry.${key}`, MSG_PARAMS[key] ?? {}) : checkProblem('geometry.other', { detail: issue.message });
 }
 
 /**
@@ -141,7 +169,7 @@ export function validateGeometry(g: unknown): GeometryValidation {
   const issues = parsed.error.issues.map((issue) => {
     // A missing or non-object geometry fails on its discriminator, so report it against `shape`.
     const field = issue.path.length ? issue.path.join('.') : 'shape';
-    return { field, message: `${field}: ${issue.message}` };
+    return { field, message: `${field}: ${issue.message}`, problem: problemOf(issue) };
   });
   return { ok: false, field: issues[0].field, message: issues[0].message, issues };
 }

@@ -14,6 +14,7 @@ import {
   type UnitSystem,
   type VolumeUnit,
 } from '../units/index';
+import { checkProblem, figure, type CheckParam, type CheckProblem } from '../check-problems';
 import { GAUGE_HEADER_MM, gaugePage, MIN_GAUGE_CONTENT_WIDTH_MM, MIN_GAUGE_STRIP_HEIGHT_MM, type GaugePage } from './paper';
 import type { GaugeJoin, GaugeScaleMark, GaugeStripInput, GaugeStripLayout, GaugeStripPage, GaugeTick } from './types';
 
@@ -28,13 +29,18 @@ export const SUGGESTED_TICK_GAP_MM = 5;
 /** Most pages one strip may take. */
 export const MAX_GAUGE_PAGES = 100;
 
-/** A bad gauge-strip request; `field` names the input at fault ("everyL", "datumOffsetMm", "page.heightMm"…). */
+/**
+ * A bad gauge-strip request; `field` names the input at fault ("everyL", "datumOffsetMm", "page.heightMm"…),
+ * the message is English and `problem` says the same after the field as a code of area `checks` ("gauge.tooClose").
+ */
 export class GaugeStripError extends RangeError {
   readonly field: string;
-  constructor(field: string, message: string) {
+  readonly problem: CheckProblem;
+  constructor(field: string, message: string, problem: CheckProblem) {
     super(`${field}: ${message}`);
     this.name = 'GaugeStripError';
     this.field = field;
+    this.problem = problem;
   }
 }
 
@@ -51,7 +57,7 @@ interface Placed {
   volumeL: number;
 }
 
-type Placement = { ok: true; ticks: Placed[] } | { ok: false; message: string; suggestion: number };
+type Placement = { ok: true; ticks: Placed[] } | { ok: false; message: string; code: string; params: Record<string, CheckParam>; suggestion: number };
 
 const num = (v: number, digits = 3) => formatNumberTrimmed(v, digits);
 
@@ -75,12 +81,17 @@ export function gaugeStripLayout(input: GaugeStripInput): GaugeStripLayout {
     throw new GaugeStripError(
       'page',
       `this ${num(topPositionMm, 0)} mm strip needs ${totalPages} pages of ${num(stripHeightMm, 1)} mm; at most ${MAX_GAUGE_PAGES} pages are printed`,
+      checkProblem('gauge.tooManyPages', { length: figure(topPositionMm, 0), pages: String(totalPages), height: figure(stripHeightMm, 1), max: String(MAX_GAUGE_PAGES) }),
     );
   }
 
   const placement = placeTicks(model, datumOffsetMm, topPositionMm, step, MIN_TICK_GAP_MM);
   if (!placement.ok) {
-    throw new GaugeStripError(step.field, `${placement.message}; marks must be at least ${MIN_TICK_GAP_MM} mm apart to read — use ${num(placement.suggestion, 6)} ${UNIT_SYMBOLS[step.unit]} or more`);
+    throw new GaugeStripError(
+      step.field,
+      `${placement.message}; marks must be at least ${MIN_TICK_GAP_MM} mm apart to read — use ${num(placement.suggestion, 6)} ${UNIT_SYMBOLS[step.unit]} or more`,
+      checkProblem(placement.code, { ...placement.params, gap: String(MIN_TICK_GAP_MM), suggestion: figure(placement.suggestion, 6) }),
+    );
   }
 
   const volumeUnit = displayUnits(input.unitSystem).volume;
@@ -162,14 +173,14 @@ export function suggestGaugeStep(geometry: TankGeometry, datumOffsetMm: number, 
 function stepOf(input: GaugeStripInput): Step {
   const { everyL, everyVolume } = input;
   if ((everyL === undefined) === (everyVolume === undefined)) {
-    throw new GaugeStripError('everyL', 'give exactly one of everyL or everyVolume');
+    throw new GaugeStripError('everyL', 'give exactly one of everyL or everyVolume', checkProblem('gauge.oneStep'));
   }
   const step: Step = everyVolume ? { value: everyVolume.value, unit: everyVolume.unit, field: 'everyVolume.value' } : { value: everyL as number, unit: 'L', field: 'everyL' };
   if (!(VOLUME_UNITS as readonly string[]).includes(step.unit)) {
-    throw new GaugeStripError('everyVolume.unit', `must be one of ${VOLUME_UNITS.join(', ')} (got ${String(step.unit)})`);
+    throw new GaugeStripError('everyVolume.unit', `must be one of ${VOLUME_UNITS.join(', ')} (got ${String(step.unit)})`, checkProblem('gauge.unit', { units: VOLUME_UNITS.join(', '), got: String(step.unit) }));
   }
   if (typeof step.value !== 'number' || !Number.isFinite(step.value) || step.value <= 0) {
-    throw new GaugeStripError(step.field, `the step between marks must be a number greater than 0 (got ${String(step.value)})`);
+    throw new GaugeStripError(step.field, `the step between marks must be a number greater than 0 (got ${String(step.value)})`, checkProblem('gauge.stepNotPositive', { got: String(step.value) }));
   }
   return step;
 }
@@ -178,18 +189,27 @@ function checkedPage(page: GaugePage): GaugePage {
   for (const key of ['widthMm', 'heightMm', 'marginMm'] as const) {
     const v = page[key];
     if (typeof v !== 'number' || !Number.isFinite(v) || v < 0 || (key !== 'marginMm' && v === 0)) {
-      throw new GaugeStripError(`page.${key}`, `must be a number of mm ${key === 'marginMm' ? '0 or more' : 'greater than 0'} (got ${String(v)})`);
+      throw new GaugeStripError(
+        `page.${key}`,
+        `must be a number of mm ${key === 'marginMm' ? '0 or more' : 'greater than 0'} (got ${String(v)})`,
+        checkProblem(key === 'marginMm' ? 'gauge.pageNotNegative' : 'gauge.pageNotPositive', { got: String(v) }),
+      );
     }
   }
   const contentWidthMm = page.widthMm - 2 * page.marginMm;
   if (contentWidthMm < MIN_GAUGE_CONTENT_WIDTH_MM) {
-    throw new GaugeStripError('page.widthMm', `leaves ${num(contentWidthMm, 1)} mm inside the margins; the strip and its notes need ${MIN_GAUGE_CONTENT_WIDTH_MM} mm`);
+    throw new GaugeStripError(
+      'page.widthMm',
+      `leaves ${num(contentWidthMm, 1)} mm inside the margins; the strip and its notes need ${MIN_GAUGE_CONTENT_WIDTH_MM} mm`,
+      checkProblem('gauge.tooNarrow', { width: figure(contentWidthMm, 1), min: String(MIN_GAUGE_CONTENT_WIDTH_MM) }),
+    );
   }
   const stripHeightMm = page.heightMm - 2 * page.marginMm - GAUGE_HEADER_MM;
   if (stripHeightMm < MIN_GAUGE_STRIP_HEIGHT_MM) {
     throw new GaugeStripError(
       'page.heightMm',
       `leaves ${num(stripHeightMm, 1)} mm for the strip after the margins and the ${GAUGE_HEADER_MM} mm header; at least ${MIN_GAUGE_STRIP_HEIGHT_MM} mm is needed`,
+      checkProblem('gauge.tooShort', { height: figure(stripHeightMm, 1), header: String(GAUGE_HEADER_MM), min: String(MIN_GAUGE_STRIP_HEIGHT_MM) }),
     );
   }
   return { widthMm: page.widthMm, heightMm: page.heightMm, marginMm: page.marginMm };
@@ -198,13 +218,14 @@ function checkedPage(page: GaugePage): GaugePage {
 /** Tube position of the top of the tank, mm; refuses a zero mark that leaves nothing to mark. */
 function checkedTop(model: TankModel, datumOffsetMm: number): number {
   if (typeof datumOffsetMm !== 'number' || !Number.isFinite(datumOffsetMm)) {
-    throw new GaugeStripError('datumOffsetMm', `must be a finite number of mm (got ${String(datumOffsetMm)})`);
+    throw new GaugeStripError('datumOffsetMm', `must be a finite number of mm (got ${String(datumOffsetMm)})`, checkProblem('gauge.datumNotNumber', { got: String(datumOffsetMm) }));
   }
   const top = model.heightMm - datumOffsetMm;
   if (top <= 0) {
     throw new GaugeStripError(
       'datumOffsetMm',
       `the tube's zero mark (${num(datumOffsetMm, 1)} mm above the floor) is at or above the top of the tank (${num(model.heightMm, 1)} mm); there is nothing to mark`,
+      checkProblem('gauge.nothingToMark', { datum: figure(datumOffsetMm, 1), top: figure(model.heightMm, 1) }),
     );
   }
   return top;
@@ -229,6 +250,8 @@ function placeTicks(model: TankModel, datumOffsetMm: number, topPositionMm: numb
     return {
       ok: false,
       message: `a mark every ${stepText} puts about ${num(count, 0)} marks on this ${num(topPositionMm, 0)} mm strip, ${num(averageMm, 2)} mm apart on average`,
+      code: 'gauge.tooCrowded',
+      params: { step: figure(step.value, 6), unit: UNIT_SYMBOLS[step.unit], count: figure(count, 0), length: figure(topPositionMm, 0), average: figure(averageMm, 2) },
       suggestion: niceCeil((step.value * minGapMm) / averageMm),
     };
   }
@@ -257,6 +280,8 @@ function placeTicks(model: TankModel, datumOffsetMm: number, topPositionMm: numb
     return {
       ok: false,
       message: `a mark every ${stepText} puts two marks only ${num(closest, 2)} mm apart (near ${num(at, 0)} mm on the tube)`,
+      code: 'gauge.tooClose',
+      params: { step: figure(step.value, 6), unit: UNIT_SYMBOLS[step.unit], closest: figure(closest, 2), at: figure(at, 0) },
       suggestion: niceCeil((step.value * minGapMm) / Math.max(closest, 1e-9)),
     };
   }

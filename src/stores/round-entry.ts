@@ -5,6 +5,8 @@ import { firstIssue, roundEntrySchema, type RoundEntry, type RoundEntryResult, t
 import { convert, displayUnits, formatNumberTrimmed, parseDecimal, type DecimalMark, type DecimalProblem, type UnitSystem } from '@shared/units';
 import { COLD_CULTURE_C } from '@shared/flags';
 import { i18n } from '@/i18n';
+import { checkMessage } from '@/i18n/checkMessage';
+import type { CheckProblem } from '@shared/check-problems';
 import { entryChecks } from './round-checks';
 
 /** What the server did with one entry of a submitted round. */
@@ -143,10 +145,11 @@ const mm = (value: number) => formatNumberTrimmed(value, 1);
 
 /**
  * Why a sight-tube reading is refused, in the screens' language: below the tube's zero, or a level
- * outside the tank, with the same figures as the shared function's reason; its own reason otherwise
- * (a tank set up wrongly, which a manager mends).
+ * outside the tank, with the same figures as the shared function's reason; the shared refusal otherwise
+ * (a tank set up wrongly, which a manager mends), said from its code.
  */
-function sightTubeReason(tank: Tank, readingMm: number, sharedReason: string): string {
+function sightTubeReason(tank: Tank, readingMm: number, problem: CheckProblem): string {
+  const sharedReason = checkMessage(problem);
   const { t } = i18n.global;
   const setup = setupOf(tank);
   const setupOk = readingToVolumes(setup, { kind: 'level', levelMm: 0 }).ok;
@@ -171,7 +174,7 @@ export function readingPreview(tank: Tank, entry: RoundEntryDraft, decimalMark: 
   if (!parsed.ok) return { state: 'invalid', reason: parsed.reason };
   const readingMm = convert(parsed.value, entry.readingUnit, 'mm');
   const v = readingToVolumes(setupOf(tank), { kind: 'sight-tube', readingMm });
-  if (!v.ok) return { state: 'invalid', reason: sightTubeReason(tank, readingMm, v.reason) };
+  if (!v.ok) return { state: 'invalid', reason: sightTubeReason(tank, readingMm, v.problem) };
   // Only the reading meant in the person's own convention is offered, without grouping, so it cannot be misread again.
   const readAs = parsed.ambiguous ? i18n.global.t('round.entry.readAs', { value: exampleNumber(String(parsed.value), decimalMark), unit: entry.readingUnit }) : null;
   return { state: 'ok', readingMm, levelMm: v.levelMm, grossL: v.grossL, usableL: v.usableL, percentFull: v.percentFull, readAs };

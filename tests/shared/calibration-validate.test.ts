@@ -84,9 +84,9 @@ describe('validateGeometry', () => {
     expect(r.ok).toBe(false);
     if (!r.ok) {
       expect(r.issues).toEqual([
-        { field: 'lengthMm', message: 'lengthMm: must be greater than 0' },
-        { field: 'widthMm', message: 'widthMm: must be a finite number' },
-        { field: 'heightMm', message: 'heightMm: is required' },
+        { field: 'lengthMm', message: 'lengthMm: must be greater than 0', problem: { code: 'geometry.positive', params: {} } },
+        { field: 'widthMm', message: 'widthMm: must be a finite number', problem: { code: 'geometry.notNumber', params: {} } },
+        { field: 'heightMm', message: 'heightMm: is required', problem: { code: 'geometry.required', params: {} } },
       ]);
     }
   });
