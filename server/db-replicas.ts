@@ -181,8 +181,8 @@ export function attachReplicaReads(sequelize: Sequelize, db: Config['db'], log: 
   // A read connection is handed out only when its replica is usable and has reached the scope's primary position.
   const manager = sequelize.connectionManager as unknown as { getConnection(o: QueryOptionsLike): Promise<ReadConnection>; releaseConnection(c: ReadConnection): void };
   const acquire = manager.getConnection.bind(manager);
-  const reached = async (conn: ReadConnection, pos: string | null): Promise<boolean> => {
-    if (pos === null) return false;
+  const reached = async (conn: ReadConnection, pos: string | null | undefined): Promise<boolean> => {
+    if (pos === null || pos === undefined) return false;
     if (conn.reachedPos === pos) return true;
     try {
       const [row] = (await conn.query('SELECT MASTER_GTID_WAIT(?, ?) AS r', [pos, settings.waitMs / 1000])) as { r: number | bigint | null }[];
@@ -208,7 +208,8 @@ export function attachReplicaReads(sequelize: Sequelize, db: Config['db'], log: 
     if (conn.queryType !== 'read') return conn;
     const scope = scopes.getStore();
     const usable = conn.replicaKey !== undefined && byKey.get(conn.replicaKey)?.usable === true;
-    if (usable && scope?.replica && (await reached(conn, await scope.primaryPos!))) {
+    // Only a read through `sequelize.query` has a position to wait for (a read-only transaction asks the pool directly).
+    if (usable && scope?.replica && scope.primaryPos && (await reached(conn, await scope.primaryPos))) {
       counts.replica++;
       return conn;
     }
