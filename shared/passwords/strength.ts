@@ -4,6 +4,7 @@
 import { ZxcvbnFactory } from '@zxcvbn-ts/core';
 import { adjacencyGraphs, dictionary as commonDictionary } from '@zxcvbn-ts/language-common';
 import { dictionary as englishDictionary } from '@zxcvbn-ts/language-en';
+import { checkProblem, type CheckProblem } from '../check-problems';
 
 /** The lowest zxcvbn score (0–4) a new password may have: 3 is "safely unguessable" in zxcvbn's scale. */
 export const PASSWORD_MIN_SCORE = 3;
@@ -58,13 +59,17 @@ export interface PasswordStrength {
   acceptable: boolean;
   /** What is wrong and what to do, for a refused password; null for an acceptable one. */
   message: string | null;
+  /** The same as a code of message area `checks` (password.tooEasy, with the warning's code inside), for screens; null when acceptable. */
+  problem: CheckProblem | null;
 }
 
 /** The strength verdict (score 0–4, acceptable or not, our message) for a new password, given the person's e-mail and names. */
 export function passwordStrength(password: string, personalInputs: readonly string[] = []): PasswordStrength {
   const result = estimator().check(password, wordsOf(personalInputs));
   const acceptable = result.score >= PASSWORD_MIN_SCORE;
-  if (acceptable) return { score: result.score, acceptable, message: null };
-  const warning = result.feedback.warning ? WARNINGS[result.feedback.warning] : undefined;
-  return { score: result.score, acceptable, message: ['Too easy to guess.', warning, ADVICE].filter(Boolean).join(' ') };
+  if (acceptable) return { score: result.score, acceptable, message: null, problem: null };
+  const key = result.feedback.warning && result.feedback.warning in WARNINGS ? result.feedback.warning : undefined;
+  const warning = key ? WARNINGS[key] : undefined;
+  const problem = key ? checkProblem('password.tooEasyBecause', { warning: checkProblem(`password.warning.${key}`) }) : checkProblem('password.tooEasy');
+  return { score: result.score, acceptable, message: ['Too easy to guess.', warning, ADVICE].filter(Boolean).join(' '), problem };
 }

@@ -5,6 +5,7 @@
 import { afterEach, describe, expect, it } from 'vitest';
 import { validateGeometry, type TankGeometry } from '@shared/calibration';
 import { GaugeStripError, gaugeStripLayout, type GaugeStripInput } from '@shared/gauge';
+import { passwordStrength } from '@shared/passwords';
 import { readingToVolumes, type ReadingInput, type TankSetup } from '@shared/readings';
 import { setLanguage } from '@/i18n';
 import { checkMessage } from '@/i18n/checkMessage';
@@ -92,6 +93,24 @@ const GAUGES: [string, GaugeStripInput][] = [
   ['a zero mark at the top', strip({ datumOffsetMm: 2000 })],
 ];
 
+// Passwords of the shared password tests, each refused for a different reason (or none named).
+const PASSWORDS: [string, string[]][] = [
+  ['password', []],
+  ['password1234', []],
+  ['abcdefgh12', []],
+  ['monkey', []],
+  ['aaaaaaaaaaaa', []],
+  ['tallowbrook', ['owner@tallowbrook.example']],
+];
+const passwordProblem = (password: string, inputs: string[]) => {
+  const verdict = passwordStrength(password, inputs);
+  if (!verdict.problem || verdict.message === null) throw new Error('expected a refusal');
+  return { problem: verdict.problem, message: verdict.message };
+};
+
+/** Every sentence of an area file, nested groups included. */
+const sentences = (group: unknown): string[] => (typeof group === 'string' ? [group] : Object.values(group as Record<string, unknown>).flatMap(sentences));
+
 function gaugeError(input: GaugeStripInput): GaugeStripError {
   try {
     gaugeStripLayout(input);
@@ -120,6 +139,22 @@ describe('checkMessage', () => {
   it.each(GAUGES)('says a gauge strip refusal (%s) in English exactly as the shared error', (_case, input) => {
     const e = gaugeError(input);
     expect(`${e.field}: ${checkMessage(e.problem)}`).toBe(e.message);
+  });
+
+  it.each(PASSWORDS)('says why the password %s is too easy in English exactly as the shared verdict', (password, inputs) => {
+    const { problem, message } = passwordProblem(password, inputs);
+    expect(checkMessage(problem)).toBe(message);
+  });
+
+  it('says a too-easy password in Spanish and French', () => {
+    setLanguage('es');
+    expect(checkMessage(passwordProblem('aaaaaaaaaaaa', []).problem)).toBe(
+      'Demasiado fácil de adivinar. Los caracteres repetidos son fáciles de adivinar. Añada una o dos palabras más que no tengan relación entre sí.',
+    );
+    setLanguage('fr');
+    expect(checkMessage(passwordProblem('tallowbrook', ['owner@tallowbrook.example']).problem)).toBe(
+      'Trop facile à deviner. Il est formé à partir de votre nom ou de votre adresse e-mail. Ajoutez un ou deux mots de plus, sans rapport entre eux.',
+    );
   });
 
   it('says readings, fill-and-mark rows and gauge refusals in Spanish with decimal commas', () => {
@@ -162,8 +197,9 @@ describe('checkMessage', () => {
         return v.ok ? [] : v.issues.map((i) => i.problem);
       }),
       ...GAUGES.map(([, input]) => gaugeError(input).problem),
+      ...PASSWORDS.map(([password, inputs]) => passwordProblem(password, inputs).problem),
     ];
-    const english = Object.values(en).flatMap((group) => Object.values(group as Record<string, string>));
+    const english = sentences(en);
     // English runs of three words or more, placeholders and identifiers left out.
     const runs = english.flatMap((m) => m.split(/\{[^}]*\}|[();:—"]|\b\w*Mm\b|\b\w*[A-Z]\w*\b/).map((s) => s.trim()).filter((s) => s.split(/\s+/).length >= 3));
     for (const problem of problems) {

@@ -29,7 +29,7 @@ describe('passwordStrength', () => {
   });
 
   it('accepts a few unrelated words', () => {
-    expect(passwordStrength('kettle heron basalt plum')).toEqual({ score: 4, acceptable: true, message: null });
+    expect(passwordStrength('kettle heron basalt plum')).toEqual({ score: 4, acceptable: true, message: null, problem: null });
   });
 
   it.each(demo.people.map((p) => [p.email, p.password, p.name]))('accepts the demo password of %s', (email, password, name) => {
