@@ -15,7 +15,6 @@ import { datePickerFormat } from '@/utils/datePickerFormat';
 import { formatDateTime } from '@/utils/format';
 import type { Language } from '@shared/i18n/languages';
 
-const plugins = [[PrimeVue, { unstyled: true }], ConfirmationService, primeVueLanguage] as const;
 
 afterEach(() => {
   setLanguage('en');
@@ -35,7 +34,7 @@ const buttonTexts = () => [...document.body.querySelectorAll('[role="alertdialog
 describe('PrimeVue in the screens’ language', () => {
   it('answers a ConfirmDialog with Sí and No in Spanish, and Oui and Non once the language changes to French', async () => {
     setLanguage('es');
-    const wrapper = mount(Asker, { attachTo: document.body, global: { plugins: [...plugins] } });
+    const wrapper = mount(Asker, { attachTo: document.body, global: { plugins: [[PrimeVue, { unstyled: true }], ConfirmationService, primeVueLanguage] } });
     await wrapper.get('#ask').trigger('click');
     await flushPromises();
     expect(buttonTexts()).toEqual(expect.arrayContaining(['Sí', 'No']));
@@ -52,7 +51,7 @@ describe('PrimeVue in the screens’ language', () => {
 
   it('names the months and days of a DatePicker in Spanish, Monday first, with Hoy and Borrar', async () => {
     setLanguage('es');
-    const wrapper = mount(DatePicker, { attachTo: document.body, props: { modelValue: new Date(2026, 11, 4), inline: true, showButtonBar: true }, global: { plugins: [...plugins] } });
+    const wrapper = mount(DatePicker, { attachTo: document.body, props: { modelValue: new Date(2026, 11, 4), inline: true, showButtonBar: true }, global: { plugins: [[PrimeVue, { unstyled: true }], ConfirmationService, primeVueLanguage] } });
     await flushPromises();
     const text = wrapper.text();
     expect(text).toContain('diciembre');
@@ -76,7 +75,7 @@ describe('PrimeVue in the screens’ language', () => {
     const { dateFormat, hourFormat } = datePickerFormat();
     for (let month = 0; month < 12; month++) {
       const at = new Date(2026, month, 3, 14, 5);
-      const wrapper = mount(DatePicker, { props: { modelValue: at, showTime: true, dateFormat, hourFormat, inputId: 'when' }, global: { plugins: [...plugins] } });
+      const wrapper = mount(DatePicker, { props: { modelValue: at, showTime: true, dateFormat, hourFormat, inputId: 'when' }, global: { plugins: [[PrimeVue, { unstyled: true }], ConfirmationService, primeVueLanguage] } });
       await nextTick();
       expect((wrapper.get('input#when').element as HTMLInputElement).value, `month ${month + 1}`).toBe(formatDateTime(at.toISOString()));
       wrapper.unmount();
