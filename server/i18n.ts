@@ -41,12 +41,18 @@ function readMessages(dir = MESSAGES_DIR): Record<Language, Messages> {
 }
 
 let context: CoreContext<string> | null = null;
+let catalogue: Record<Language, Messages> | null = null;
+
+function messages(): Record<Language, Messages> {
+  catalogue ??= readMessages();
+  return catalogue;
+}
 
 function core(): CoreContext<string> {
   context ??= createCoreContext({
     locale: DEFAULT_LANGUAGE,
     fallbackLocale: DEFAULT_LANGUAGE,
-    messages: readMessages(),
+    messages: messages(),
     pluralRules: PLURAL_RULES,
     missingWarn: false,
     fallbackWarn: false,
@@ -55,7 +61,7 @@ function core(): CoreContext<string> {
 }
 
 function englishArea(area: string): Messages {
-  return ((core().messages[DEFAULT_LANGUAGE] as Messages)[area] ?? {}) as Messages;
+  return (messages()[DEFAULT_LANGUAGE][area] ?? {}) as Messages;
 }
 
 // zod's own messages become the English of area `errors`, which errorIn then says in the person's language.
@@ -83,17 +89,6 @@ export function tr(language: Language, key: string, named: NamedValue = {}, plur
 /** The translating function of one language. */
 export function translatorFor(language: Language): Translate {
   return (key, named, plural) => tr(language, key, named, plural);
-}
-
-/** Whether `key` has a message in English (the catalogue every language follows). */
-export function hasMessage(key: string): boolean {
-  const value = resolveValue(core().messages[DEFAULT_LANGUAGE] as Messages, key);
-  return typeof value === 'string';
-}
-
-/** The BCP 47 locale numbers and dates are written in for `language`. */
-export function localeOf(language: Language): string {
-  return LANGUAGE_LOCALES[language];
 }
 
 /** A stored language, or English when none was chosen or it is not one Brimstock speaks. */

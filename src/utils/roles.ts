@@ -23,7 +23,7 @@ export function roleHasFarmList(role: Role): boolean {
 }
 
 /** Options for a role picker (label and description read in the screens' language when shown). */
-export const ROLE_OPTIONS: readonly { readonly value: Role; readonly label: string; readonly description: string }[] = ROLES.map((role) => ({
+export const ROLE_OPTIONS: { readonly value: Role; readonly label: string; readonly description: string }[] = ROLES.map((role) => ({
   value: role,
   get label() {
     return ROLE_LABELS[role];

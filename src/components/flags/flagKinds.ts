@@ -81,6 +81,6 @@ let knownFlagMessages: ReturnType<typeof knownMessages> | null = null;
 export function sayFlagMessage(message: string): string {
   const language = i18n.global.locale.value as Language;
   if (language === DEFAULT_LANGUAGE) return message;
-  knownFlagMessages ??= knownMessages('flagKinds.message', (i18n.global.getLocaleMessage(DEFAULT_LANGUAGE) as { flagKinds: { message: Record<string, unknown> } }).flagKinds.message);
+  knownFlagMessages ??= knownMessages('flagKinds.message', (i18n.global.getLocaleMessage(DEFAULT_LANGUAGE) as unknown as { flagKinds: { message: Record<string, unknown> } }).flagKinds.message);
   return sayKnown(message, knownFlagMessages, (key, named) => i18n.global.t(key, localiseFigures(named, LANGUAGE_LOCALES[language])));
 }
