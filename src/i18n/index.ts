@@ -1,4 +1,4 @@
-import { createI18n } from 'vue-i18n';
+import { createI18n, type I18nOptions } from 'vue-i18n';
 import { setNumberLocale } from '@shared/units';
 import { DEFAULT_LANGUAGE, LANGUAGES, LANGUAGE_LOCALES, languageFrom, type Language } from '@shared/i18n/languages';
 import { PLURAL_RULES } from '@shared/i18n/plural';
@@ -29,7 +29,7 @@ export function browserLanguage(): Language {
 // Numbers and dates through vue-i18n's n() and d() use the same locale as the shared formatters.
 const numberFormats = Object.fromEntries(
   LANGUAGES.map((language) => [language, { decimal: { style: 'decimal' }, integer: { style: 'decimal', maximumFractionDigits: 0 } }]),
-) as Record<Language, Record<string, Intl.NumberFormatOptions>>;
+) as unknown as Record<Language, Record<string, Intl.NumberFormatOptions>>;
 const datetimeFormats = Object.fromEntries(
   LANGUAGES.map((language) => [
     language,
@@ -39,7 +39,7 @@ const datetimeFormats = Object.fromEntries(
       time: { hour: '2-digit', minute: '2-digit' },
     },
   ]),
-) as Record<Language, Record<string, Intl.DateTimeFormatOptions>>;
+) as unknown as Record<Language, Record<string, Intl.DateTimeFormatOptions>>;
 
 const messages = messagesByLanguage();
 
@@ -47,7 +47,8 @@ export const i18n = createI18n({
   legacy: false,
   locale: DEFAULT_LANGUAGE,
   fallbackLocale: DEFAULT_LANGUAGE,
-  messages,
+  // Loosely typed on purpose: the areas are read from files, and a typed schema would make every t() call deep.
+  messages: messages as NonNullable<I18nOptions['messages']>,
   pluralRules: PLURAL_RULES,
   numberFormats,
   datetimeFormats,

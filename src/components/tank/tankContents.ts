@@ -11,7 +11,7 @@ export const CONTENTS_LABELS: Readonly<Record<TankContents, string>> = Object.de
 );
 
 /** The contents choices of the editor; their labels follow the language. */
-export const CONTENTS_OPTIONS: readonly { value: TankContents; readonly label: string }[] = TANK_CONTENTS.map((value) => ({
+export const CONTENTS_OPTIONS: { value: TankContents; readonly label: string }[] = TANK_CONTENTS.map((value) => ({
   value,
   get label() {
     return CONTENTS_LABELS[value];

@@ -77,7 +77,7 @@ export const ENDS_LABELS: Readonly<Record<HorizontalEnds, string>> = Object.defi
 );
 
 /** The ends choices of the editor; read their labels when shown (they follow the language). */
-export const ENDS_OPTIONS: readonly { value: HorizontalEnds; readonly label: string }[] = HORIZONTAL_ENDS.map((ends) => ({
+export const ENDS_OPTIONS: { value: HorizontalEnds; readonly label: string }[] = HORIZONTAL_ENDS.map((ends) => ({
   value: ends,
   get label() {
     return ENDS_LABELS[ends];
