@@ -7,7 +7,7 @@ import express, { type ErrorRequestHandler, type Router } from 'express';
 import { pinoHttp } from 'pino-http';
 import type { AppContext } from './context';
 import { AppError } from './errors';
-import { errorIn, requestLanguage } from './i18n';
+import { errorIn, requestLanguage, applyCatalogueMessages } from './i18n';
 import { DATABASE_RETRY_AFTER_S, isDatabaseUnavailable } from './db-errors';
 import { requestLogSerializers } from './logger';
 import { loadActor } from './middleware/access';
@@ -31,6 +31,7 @@ import { textWebhooksRouter } from './routes/texts';
 import { invalidateBoards } from './services/board';
 
 export function createApp(ctx: AppContext, opts: { staticDir?: string } = {}) {
+  applyCatalogueMessages();
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', ctx.config.proxyHops || false);

@@ -21,10 +21,6 @@ import { PLURAL_RULES } from '@shared/i18n/plural';
 import { knownMessages, localiseFigures, sayKnown } from '@shared/i18n/known-messages';
 import { useCatalogueZodMessages } from '@shared/i18n/zod-messages';
 
-registerMessageCompiler(compile);
-registerMessageResolver(resolveValue);
-registerLocaleFallbacker(fallbackWithLocaleChain);
-
 const MESSAGES_DIR = resolve(import.meta.dirname, '../shared/i18n/messages');
 
 type Messages = Record<string, unknown>;
@@ -49,7 +45,11 @@ function messages(): Record<Language, Messages> {
 }
 
 function core(): CoreContext<string> {
-  context ??= createCoreContext({
+  if (context) return context;
+  registerMessageCompiler(compile);
+  registerMessageResolver(resolveValue);
+  registerLocaleFallbacker(fallbackWithLocaleChain);
+  context = createCoreContext({
     locale: DEFAULT_LANGUAGE,
     fallbackLocale: DEFAULT_LANGUAGE,
     messages: messages(),
@@ -64,8 +64,11 @@ function englishArea(area: string): Messages {
   return (messages()[DEFAULT_LANGUAGE][area] ?? {}) as Messages;
 }
 
-// zod's own messages become the English of area `errors`, which errorIn then says in the person's language.
-useCatalogueZodMessages(englishArea('errors'));
+/** Makes zod's own messages the English of area `errors`, which errorIn then says in the asker's language (createApp calls it). */
+export function applyCatalogueMessages(): void {
+  useCatalogueZodMessages(englishArea('errors'));
+}
+
 let knownErrors: ReturnType<typeof knownMessages> | null = null;
 
 /** An API error message (English, from a service or a schema, maybe "field: …") in `language` when the catalogue knows it. */
