@@ -5,6 +5,7 @@
 import { afterEach, describe, expect, it } from 'vitest';
 import { validateGeometry, type TankGeometry } from '@shared/calibration';
 import { GaugeStripError, gaugeStripLayout, type GaugeStripInput } from '@shared/gauge';
+import { sniffCsv } from '@shared/imports';
 import { passwordStrength } from '@shared/passwords';
 import { readingToVolumes, type ReadingInput, type TankSetup } from '@shared/readings';
 import { setLanguage } from '@/i18n';
@@ -108,6 +109,25 @@ const passwordProblem = (password: string, inputs: string[]) => {
   return { problem: verdict.problem, message: verdict.message };
 };
 
+// First bytes of uploads that are not CSV text (signatures as in tests/shared/imports.test.ts).
+const bytesOf = (s: string) => [...new TextEncoder().encode(s)];
+const UPLOADS: [string, number[]][] = [
+  ['a ZIP archive', [0x50, 0x4b, 0x03, 0x04, 0x14, 0x00]],
+  ['an empty ZIP archive', [0x50, 0x4b, 0x05, 0x06]],
+  ['a gzip file', [0x1f, 0x8b, 0x08, 0x00]],
+  ['a PDF', bytesOf('%PDF-1.7\n')],
+  ['a program', [0x7f, 0x45, 0x4c, 0x46, 0x02]],
+  ['UTF-16 text', [0xff, 0xfe, 0x74, 0x00]],
+  ['NUL bytes', [...bytesOf('time,level\n1,2'), 0x00]],
+  ['control characters', [...bytesOf('ab'), ...Array.from({ length: 20 }, () => 0x01), ...bytesOf('cd'.repeat(100))]],
+  ['Latin-1 text', [...bytesOf('time;level\n'), ...bytesOf('Temp'), 0xb0, ...bytesOf('C\n')]],
+];
+const sniffProblem = (bytes: number[]) => {
+  const verdict = sniffCsv(Uint8Array.from(bytes));
+  if (verdict.ok) throw new Error('expected a refusal');
+  return verdict;
+};
+
 /** Every sentence of an area file, nested groups included. */
 const sentences = (group: unknown): string[] => (typeof group === 'string' ? [group] : Object.values(group as Record<string, unknown>).flatMap(sentences));
 
@@ -144,6 +164,20 @@ describe('checkMessage', () => {
   it.each(PASSWORDS)('says why the password %s is too easy in English exactly as the shared verdict', (password, inputs) => {
     const { problem, message } = passwordProblem(password, inputs);
     expect(checkMessage(problem)).toBe(message);
+  });
+
+  it.each(UPLOADS)('says why an upload (%s) is not CSV text in English exactly as the shared check', (_case, bytes) => {
+    const verdict = sniffProblem(bytes);
+    expect(checkMessage(verdict.problem)).toBe(verdict.reason);
+  });
+
+  it('says why an upload is not CSV text in Spanish and French', () => {
+    setLanguage('es');
+    expect(checkMessage(sniffProblem(UPLOADS[0][1]).problem)).toBe('es un archivo ZIP (un libro de hoja de cálculo lo es), no texto CSV; exporte los datos del registrador como archivo CSV');
+    setLanguage('fr');
+    expect(checkMessage(sniffProblem(UPLOADS[8][1]).problem)).toBe(
+      'ce n’est pas du texte UTF-8 (la ligne 2 contient des octets qui ne sont pas de l’UTF-8, comme dans un fichier Latin-1 ou Windows-1252) ; enregistrez-le ou exportez-le en CSV UTF-8',
+    );
   });
 
   it('says a too-easy password in Spanish and French', () => {
@@ -198,6 +232,7 @@ describe('checkMessage', () => {
       }),
       ...GAUGES.map(([, input]) => gaugeError(input).problem),
       ...PASSWORDS.map(([password, inputs]) => passwordProblem(password, inputs).problem),
+      ...UPLOADS.map(([, bytes]) => sniffProblem(bytes).problem),
     ];
     const english = sentences(en);
     // English runs of three words or more, placeholders and identifiers left out.

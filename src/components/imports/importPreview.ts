@@ -17,6 +17,7 @@ import {
 } from '@shared/imports';
 import type { TankSetup } from '@shared/readings';
 import { i18n } from '@/i18n';
+import { checkMessage } from '@/i18n/checkMessage';
 
 /** Records the preview shows (and checks). */
 export const PREVIEW_RECORDS = 20;
@@ -34,7 +35,7 @@ export interface FileHead {
 export async function readFileHead(file: Blob): Promise<FileHead> {
   const bytes = new Uint8Array(await file.slice(0, SNIFF_BYTES).arrayBuffer());
   const verdict = sniffCsv(bytes);
-  if (!verdict.ok) return { text: '', truncated: file.size > bytes.length, problem: i18n.global.t('imports.files.cannotImport', { reason: verdict.reason }) };
+  if (!verdict.ok) return { text: '', truncated: file.size > bytes.length, problem: i18n.global.t('imports.files.cannotImport', { reason: checkMessage(verdict.problem) }) };
   // stream: true leaves a multi-byte character cut at the end of the slice out instead of garbling it.
   const text = stripBom(new TextDecoder('utf-8').decode(bytes, { stream: file.size > bytes.length }));
   return { text, truncated: file.size > bytes.length, problem: null };
