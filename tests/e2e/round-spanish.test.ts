@@ -2,9 +2,9 @@
 // sign-in takes the browser's language; a worker whose language an earlier English sign-in already set
 // is switched to Spanish on the Profile API, and set back afterwards), walks every tank of Hollin Ridge
 // typing numbers with a decimal comma ("600,5", "24,5"), answers any question the round asks and sends.
-// Before and after sending, the words the round page shows (navigation included, at 1280 px and with the
-// phone's menu open at 360 px) hold no English word: none of the English messages of the areas on the
-// page that the Spanish ones do not also use, nor a short list of common English words.
+// On Home, and on the round before and after sending (navigation included, at 1280 px and with the
+// phone's menu open at 360 px), the page holds no English word: none of the English messages of the
+// areas and cautions on the page that the Spanish ones do not also use, nor a short list of common ones.
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterEach, describe, expect, inject, it } from 'vitest';
@@ -19,7 +19,7 @@ const DESK = { width: 1280, height: 860 };
 const PHONE = { width: 360, height: 740 };
 
 /** The message areas the round page shows: its own, the frame and navigation, shared words, and the other areas' pieces it embeds. */
-const AREAS = ['app', 'round', 'common', 'words', 'tank', 'errors', 'cautions'];
+const AREAS = ['app', 'round', 'home', 'common', 'words', 'tank', 'errors'];
 /** Common English words a screen in Spanish should never show (the brief's list, and the round's own nouns). */
 const COMMON_ENGLISH = ['the', 'and', 'of', 'tank', 'tanks', 'reading', 'readings', 'send', 'sent', 'litres', 'liters', 'ready', 'round', 'stored', 'usable', 'last', 'yet', 'waiting', 'water', 'culture', 'with', 'your', 'this', 'is', 'are', 'not', 'sign', 'out', 'home', 'farm', 'farms', 'flags', 'inputs', 'brews'];
 
@@ -74,7 +74,7 @@ function englishOnlyWords(): Set<string> {
   return english;
 }
 
-/** The organisation's own data the round page shows (names of the farm, its tanks, the person; notes), which are not the app's words. */
+/** The organisation's own data the pages show (names of the farms, their tanks, the person; places and notes), which are not the app's words. */
 async function dataTexts(page: Page): Promise<string[]> {
   const texts = await page.evaluate(async () => {
     const get = async (path: string) => (await fetch(path, { credentials: 'same-origin' })).json();
@@ -83,7 +83,7 @@ async function dataTexts(page: Page): Promise<string[]> {
     const tanks = await get('/api/tanks');
     const list = (value: unknown, key: string): Record<string, unknown>[] => (Array.isArray(value) ? value : ((value as Record<string, unknown[]>)[key] ?? [])) as Record<string, unknown>[];
     const out: unknown[] = [session.user?.name, session.user?.email, session.user?.organisationName];
-    for (const f of list(farms, 'farms')) out.push(f.name);
+    for (const f of list(farms, 'farms')) out.push(f.name, f.location);
     for (const t of list(tanks, 'tanks')) out.push(t.name, t.code, t.contentsNote);
     return out.filter((v): v is string => typeof v === 'string' && v.trim() !== '');
   });
@@ -138,6 +138,15 @@ describe('the round in Spanish', () => {
     const restore = before && before !== 'es' ? before : 'en';
     if (before !== 'es') await setLanguage(page, 'es');
     try {
+      // Home first: the worker's start page, with the way to the round.
+      await page.goto(`${baseUrl}/`);
+      await page.getByTestId('home-round').waitFor();
+      await page.getByTestId('home-farm-count').waitFor();
+      const data = await dataTexts(page);
+      expect(await page.getByTestId('home-round').innerText()).toMatch(/^Empiece su ronda de lecturas/);
+      expect(await englishOnPage(page, english, data)).toEqual([]);
+      await screenshot(page, 'round-spanish-home');
+
       await page.goto(`${baseUrl}/round`);
       await pickOption(page, 'round-farm', 'Hollin Ridge');
       const cards = page.locator('[data-testid^="round-tank-"]');
@@ -146,7 +155,6 @@ describe('the round in Spanish', () => {
       // The worker's links fit one row of the bar in Spanish too.
       const rows = await page.evaluate(() => document.querySelector('.navbar__links')!.getBoundingClientRect().height / document.querySelector('.navbar__link')!.getBoundingClientRect().height);
       expect(Math.round(rows)).toBe(1);
-      const data = await dataTexts(page);
 
       await page.evaluate(() => window.scrollTo(0, 0));
       await screenshot(page, 'round-spanish-desktop-before');
