@@ -14,6 +14,7 @@ export {
   type TopUpPlanOk,
   type TopUpPlanRefused,
   type TopUpRefusal,
+  type TopUpRefusalFigures,
 } from './topup';
 export {
   injectionRatio,

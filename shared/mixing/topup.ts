@@ -34,12 +34,18 @@ export interface TopUpPlanOk {
   finalVolume: number;
 }
 
-/** A top-up that cannot work, with a reason a person can act on. */
-export interface TopUpPlanRefused {
-  ok: false;
-  code: TopUpRefusal;
-  reason: string;
-}
+/**
+ * The figures a refusal quotes, by its code (volumes in L, strengths in the strength unit), for a screen that
+ * words the reason itself: `dilutedL` is where water alone reaches the target strength, null when that does not fit.
+ */
+export type TopUpRefusalFigures =
+  | { code: 'target-below-current'; heldL: number; targetL: number }
+  | { code: 'exceeds-ullage'; targetL: number; addL: number; roomL: number }
+  | { code: 'already-too-strong'; targetL: number; targetStrength: number; dilutedL: number | null }
+  | { code: 'stock-too-weak'; targetL: number; bestStrength: number; targetStrength: number };
+
+/** A top-up that cannot work, with a reason a person can act on (English) and the figures it quotes. */
+export type TopUpPlanRefused = TopUpRefusalFigures & { ok: false; reason: string };
 
 /** Result of topUpPlan. */
 export type TopUpPlan = TopUpPlanOk | TopUpPlanRefused;
@@ -70,6 +76,8 @@ export function topUpPlan(input: TopUpInput): TopUpPlan {
     return {
       ok: false,
       code: 'target-below-current',
+      heldL: v0,
+      targetL: vt,
       reason: `The tank already holds ${fmt(v0)} L, more than the target of ${fmt(vt)} L; use or drain some first.`,
     };
   }
@@ -77,6 +85,9 @@ export function topUpPlan(input: TopUpInput): TopUpPlan {
     return {
       ok: false,
       code: 'exceeds-ullage',
+      targetL: vt,
+      addL,
+      roomL: ullage,
       reason: `Reaching ${fmt(vt)} L means adding ${fmt(addL)} L, but only ${fmt(ullage)} L fits below the safe fill line.`,
     };
   }
@@ -84,13 +95,14 @@ export function topUpPlan(input: TopUpInput): TopUpPlan {
   const water = addL - concentrate;
   if (concentrate < -tolerance) {
     const dilutedL = (c0 * v0) / ct;
-    const hint =
-      ct > 0 && dilutedL - v0 <= ullage + tolerance
-        ? ` Adding water alone reaches the target strength at ${fmt(dilutedL)} L.`
-        : ' Use or drain some of it first.';
+    const waterAloneFits = ct > 0 && dilutedL - v0 <= ullage + tolerance;
+    const hint = waterAloneFits ? ` Adding water alone reaches the target strength at ${fmt(dilutedL)} L.` : ' Use or drain some of it first.';
     return {
       ok: false,
       code: 'already-too-strong',
+      targetL: vt,
+      targetStrength: ct,
+      dilutedL: waterAloneFits ? dilutedL : null,
       reason: `The tank already holds more active ingredient than ${fmt(vt)} L at strength ${fmt(ct)} contains.${hint}`,
     };
   }
@@ -99,6 +111,9 @@ export function topUpPlan(input: TopUpInput): TopUpPlan {
     return {
       ok: false,
       code: 'stock-too-weak',
+      targetL: vt,
+      bestStrength,
+      targetStrength: ct,
       reason: `Even adding only concentrate, ${fmt(vt)} L reaches strength ${fmt(bestStrength)} at most, short of ${fmt(ct)}.`,
     };
   }

@@ -129,13 +129,14 @@ describe('topUpPlan', () => {
 
   it('refuses a target volume below what the tank holds', () => {
     const plan = topUpPlan({ ...tank, targetVolume: 150 });
-    expect(plan).toMatchObject({ ok: false, code: 'target-below-current' });
+    expect(plan).toMatchObject({ ok: false, code: 'target-below-current', heldL: 200, targetL: 150 });
     expect(!plan.ok && plan.reason).toContain('200 L');
   });
 
   it('refuses to plan past the safe fill line', () => {
     const plan = topUpPlan({ ...tank, ullageL: 500 });
-    expect(plan).toMatchObject({ ok: false, code: 'exceeds-ullage' });
+    // 800 − 200 = 600 L to add against 500 L of room.
+    expect(plan).toMatchObject({ ok: false, code: 'exceeds-ullage', targetL: 800, addL: 600, roomL: 500 });
     expect(!plan.ok && plan.reason).toContain('only 500 L fits');
   });
 
@@ -143,15 +144,22 @@ describe('topUpPlan', () => {
     // 200 L at 5 holds 1000 units; 300 L at 2 needs 600 → concentrate −20 L. Water alone reaches
     // strength 2 at 1000 / 2 = 500 L, which fits in the 700 L ullage.
     const plan = topUpPlan({ ...tank, currentStrength: 5, targetVolume: 300 });
-    expect(plan).toMatchObject({ ok: false, code: 'already-too-strong' });
+    expect(plan).toMatchObject({ ok: false, code: 'already-too-strong', targetL: 300, targetStrength: 2, dilutedL: 500 });
     expect(!plan.ok && plan.reason).toContain('500 L');
+  });
+
+  it('refuses an already too strong tank without a water-only hint when that water does not fit', () => {
+    // As above, but 500 L would need 300 L of water and only 250 L fits (hand derivation).
+    const plan = topUpPlan({ ...tank, currentStrength: 5, targetVolume: 300, ullageL: 250 });
+    expect(plan).toMatchObject({ ok: false, code: 'already-too-strong', dilutedL: null });
+    expect(!plan.ok && plan.reason).toContain('Use or drain some of it first.');
   });
 
   it('refuses when the concentrate is too weak to reach the target strength', () => {
     // 800 L at 19 needs 15,000 units more than the 200 held; 600 L of 20-strength stock gives 12,000.
     // At most (200 + 12,000) / 800 = 15.25.
     const plan = topUpPlan({ ...tank, targetStrength: 19 });
-    expect(plan).toMatchObject({ ok: false, code: 'stock-too-weak' });
+    expect(plan).toMatchObject({ ok: false, code: 'stock-too-weak', targetL: 800, bestStrength: 15.25, targetStrength: 19 });
     expect(!plan.ok && plan.reason).toContain('15.25');
   });
 

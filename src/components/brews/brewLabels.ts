@@ -1,6 +1,6 @@
 // Words the Brews screen shows for kinds, statuses and readiness, in the screen's language. Functions,
 // not constants: each call reads the language in use, so a change of language redraws them.
-import type { TopUpInput, TopUpPlanRefused } from '@shared/mixing';
+import type { TopUpPlanRefused } from '@shared/mixing';
 import type { BrewKind, BrewStatus } from '@shared/schemas';
 import { i18n } from '@/i18n';
 
@@ -52,28 +52,18 @@ export function readyText(readyAt: string | null, now: Date = new Date()): strin
   return t('brews.readyIn.days', { n: days }, days);
 }
 
-/**
- * Why topUpPlan refuses, in the screen's language, from the refusal's code. The shared plan words its own
- * reason in English only, so the figures it quotes are taken again here from the same input (volumes in L,
- * strengths in the person's strength unit), shown with `volume` and `strength`.
- */
-export function topUpRefusalText(plan: TopUpPlanRefused, input: TopUpInput, volume: (litres: number) => string, strength: (value: number) => string): string {
-  const { currentVolume: v0, currentStrength: c0, targetVolume: vt, targetStrength: ct, stockStrength: cs, ullageL } = input;
-  const ullage = Math.max(0, ullageL);
-  const addL = vt - v0;
+/** Why topUpPlan refuses, in the screen's language, from the refusal's code and the figures it quotes (volumes in L, strengths in the person's strength unit), shown with `volume` and `strength`. */
+export function topUpRefusalText(plan: TopUpPlanRefused, volume: (litres: number) => string, strength: (value: number) => string): string {
   switch (plan.code) {
     case 'target-below-current':
-      return t('brews.mix.refusals.targetBelowCurrent', { held: volume(v0), target: volume(vt) });
+      return t('brews.mix.refusals.targetBelowCurrent', { held: volume(plan.heldL), target: volume(plan.targetL) });
     case 'exceeds-ullage':
-      return t('brews.mix.refusals.exceedsUllage', { target: volume(vt), add: volume(addL), room: volume(ullage) });
+      return t('brews.mix.refusals.exceedsUllage', { target: volume(plan.targetL), add: volume(plan.addL), room: volume(plan.roomL) });
     case 'already-too-strong': {
-      // As topUpPlan words it: water alone dilutes what the tank holds to the target strength at c0·v0/ct.
-      const dilutedL = ct > 0 ? (c0 * v0) / ct : Infinity;
-      const hint = ct > 0 && dilutedL - v0 <= ullage + 1e-9 * Math.max(1, vt) ? t('brews.mix.refusals.waterAloneReaches', { volume: volume(dilutedL) }) : t('brews.mix.refusals.useOrDrain');
-      return `${t('brews.mix.refusals.alreadyTooStrong', { target: volume(vt), strength: strength(ct) })} ${hint}`;
+      const hint = plan.dilutedL === null ? t('brews.mix.refusals.useOrDrain') : t('brews.mix.refusals.waterAloneReaches', { volume: volume(plan.dilutedL) });
+      return `${t('brews.mix.refusals.alreadyTooStrong', { target: volume(plan.targetL), strength: strength(plan.targetStrength) })} ${hint}`;
     }
     case 'stock-too-weak':
-      // The strongest mix reachable: all of the room to the target filled with concentrate.
-      return t('brews.mix.refusals.stockTooWeak', { target: volume(vt), best: strength((c0 * v0 + cs * addL) / vt), strength: strength(ct) });
+      return t('brews.mix.refusals.stockTooWeak', { target: volume(plan.targetL), best: strength(plan.bestStrength), strength: strength(plan.targetStrength) });
   }
 }
