@@ -1,4 +1,4 @@
-import { createRouter, createWebHistory, type RouteRecordRaw, type Router, type RouterHistory } from 'vue-router';
+import { createRouter, createWebHistory, type RouteLocationNormalized, type RouteRecordRaw, type Router, type RouterHistory } from 'vue-router';
 import { ROLES, type Role } from '@shared/schemas';
 import { i18n } from '@/i18n';
 import { useSessionStore } from '@/stores/session';
@@ -56,6 +56,13 @@ export const routes: RouteRecordRaw[] = [
   { path: '/:pathMatch(.*)*', name: 'not-found', component: () => import('@/views/NotFoundView.vue'), meta: { titleKey: 'app.titles.notFound', public: true } },
 ];
 
+/** Names the browser tab after the route's page, in the screens' language. */
+export function showPageTitle(route: RouteLocationNormalized): void {
+  if (typeof document === 'undefined') return;
+  const { t } = i18n.global;
+  document.title = route.meta.titleKey ? t('app.titles.page', { page: t(route.meta.titleKey) }) : t('app.name');
+}
+
 /** A `redirect` query value that is safe to follow: a path inside this app, never another origin. */
 export function safeRedirect(value: unknown): string {
   if (typeof value !== 'string' || !value.startsWith('/') || value.startsWith('//') || value.startsWith('/\\')) return '/';
@@ -90,11 +97,7 @@ export function createAppRouter(history: RouterHistory = createWebHistory(import
     return true;
   });
 
-  router.afterEach((to) => {
-    if (typeof document === 'undefined') return;
-    const { t } = i18n.global;
-    document.title = to.meta.titleKey ? t('app.titles.page', { page: t(to.meta.titleKey) }) : t('app.name');
-  });
+  router.afterEach((to) => showPageTitle(to));
 
   return router;
 }

@@ -3,7 +3,8 @@ import { createPinia, setActivePinia } from 'pinia';
 import { createMemoryHistory } from 'vue-router';
 import type { Role } from '@shared/schemas';
 import * as authApi from '@/api/auth';
-import { createAppRouter, safeRedirect } from '@/router';
+import { setLanguage } from '@/i18n';
+import { createAppRouter, safeRedirect, showPageTitle } from '@/router';
 import { makeUser, sessionOf } from './support/fixtures';
 
 vi.mock('@/api/auth', () => ({
@@ -123,5 +124,24 @@ describe('safeRedirect', () => {
     [['/a', '/b'], '/'],
   ])('turns %j into %s', (input, expected) => {
     expect(safeRedirect(input)).toBe(expected);
+  });
+});
+
+describe('page titles', () => {
+  it('names the browser tab after the page in the screens’ language', async () => {
+    const router = routerFor('worker');
+
+    await router.push('/round');
+    expect(document.title).toBe('Round · Brimstock');
+
+    setLanguage('es');
+    try {
+      showPageTitle(router.currentRoute.value);
+      expect(document.title).toBe('Ronda · Brimstock');
+      await router.push('/farms');
+      expect(document.title).toBe('Fincas · Brimstock');
+    } finally {
+      setLanguage('en');
+    }
   });
 });
