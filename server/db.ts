@@ -24,6 +24,7 @@ import * as m0015 from './migrations/0015-first-owner-setup';
 import * as m0016 from './migrations/0016-order-numbers-currency-close-short';
 import * as m0017 from './migrations/0017-frost-ahead';
 import * as m0018 from './migrations/0018-text-messages';
+import * as m0019 from './migrations/0019-user-language';
 
 /** Migrations in order; add a new numbered file and list it here. */
 const MIGRATIONS = [
@@ -45,6 +46,7 @@ const MIGRATIONS = [
   { name: '0016-order-numbers-currency-close-short', module: m0016 },
   { name: '0017-frost-ahead', module: m0017 },
   { name: '0018-text-messages', module: m0018 },
+  { name: '0019-user-language', module: m0019 },
 ];
 
 export interface Database {
