@@ -14,6 +14,7 @@ import {
   resolveValue,
   translate,
   type CoreContext,
+  type LocaleMessage,
   type NamedValue,
 } from '@intlify/core-base';
 import { DEFAULT_LANGUAGE, LANGUAGES, LANGUAGE_LOCALES, isLanguage, type Language } from '@shared/i18n/languages';
@@ -23,7 +24,7 @@ import { useCatalogueZodMessages } from '@shared/i18n/zod-messages';
 
 const MESSAGES_DIR = resolve(import.meta.dirname, '../shared/i18n/messages');
 
-type Messages = Record<string, unknown>;
+type Messages = LocaleMessage<string>;
 
 /** Every area file of every language, read once: messages[language][area]. */
 function readMessages(dir = MESSAGES_DIR): Record<Language, Messages> {
