@@ -2,7 +2,7 @@
 import { Op } from 'sequelize';
 import type { SessionUser, TokenInfo } from '@shared/schemas';
 import { passwordStrength } from '@shared/passwords';
-import { isLanguage } from '@shared/i18n/languages';
+import { isLanguage, type Language } from '@shared/i18n/languages';
 import type { AppContext } from '../context';
 import { defer } from '../deferred';
 import { AppError } from '../errors';
@@ -10,6 +10,7 @@ import { emitEvent } from '../events';
 import type { User } from '../models';
 import { burnPasswordCheck, checkPassword, hashPassword, hashToken, needsRehash, newToken } from './passwords';
 import { escapeHtml } from '../mail/mailer';
+import { languageOr, translatorFor } from '../i18n';
 
 /** The session view of a user, or null when the user is gone or inactive. */
 export async function sessionUserFor(ctx: AppContext, userId: number): Promise<SessionUser | null> {
@@ -77,13 +78,16 @@ export async function endSession(ctx: AppContext, sid: string): Promise<void> {
   emitEvent(ctx, 'session-ended', { sid });
 }
 
-/** Makes a single-use link token for a user and mails it, after the answer has gone out; a failure is logged. */
-export function queueTokenMail(ctx: AppContext, user: User, purpose: 'invite' | 'reset', invitedBy?: string): void {
-  defer(ctx, `${purpose} mail`, () => sendTokenMail(ctx, user, purpose, invitedBy));
+/**
+ * Makes a single-use link token for a user and mails it, after the answer has gone out; a failure is logged.
+ * The mail is in the person's language, else `language` (an invitation: the inviter's), else English.
+ */
+export function queueTokenMail(ctx: AppContext, user: User, purpose: 'invite' | 'reset', invitedBy?: string, language?: Language | null): void {
+  defer(ctx, `${purpose} mail`, () => sendTokenMail(ctx, user, purpose, invitedBy, language));
 }
 
 /** Makes a single-use link token for a user and mails it. */
-async function sendTokenMail(ctx: AppContext, user: User, purpose: 'invite' | 'reset', invitedBy?: string): Promise<void> {
+async function sendTokenMail(ctx: AppContext, user: User, purpose: 'invite' | 'reset', invitedBy?: string, fallback?: Language | null): Promise<void> {
   const { AuthToken, Organisation } = ctx.db.models;
   // A newer link replaces any older unused one of the same purpose.
   await AuthToken.update({ usedAt: new Date() }, { where: { userId: user.id, purpose, usedAt: null } });
@@ -93,14 +97,16 @@ async function sendTokenMail(ctx: AppContext, user: User, purpose: 'invite' | 'r
   const org = await Organisation.findByPk(user.organisationId);
   const link = `${ctx.config.publicUrl}/set-password?token=${token}`;
   const hours = Math.round(ttl / 3_600_000);
-  const orgName = org?.name ?? 'your organisation';
-  const subject = purpose === 'invite' ? `You are invited to ${orgName} on Brimstock` : 'Set a new Brimstock password';
+  const t = translatorFor(languageOr(user.language, languageOr(fallback)));
+  const orgName = org?.name ?? t('mail.account.yourOrganisation');
+  const subject = purpose === 'invite' ? t('mail.account.inviteSubject', { organisation: orgName }) : t('mail.account.resetSubject');
   const lead =
     purpose === 'invite'
-      ? `${invitedBy ?? 'The owner'} has invited you to ${orgName} on Brimstock as ${user.role}.`
-      : `Someone (hopefully you) asked to set a new password for your Brimstock account at ${orgName}.`;
-  const text = `Hello ${user.name},\n\n${lead}\n\nOpen this link to set your password (it works once, for ${hours} hours):\n${link}\n\nIf you did not expect this message, ignore it.\n`;
-  const html = `<p>Hello ${escapeHtml(user.name)},</p><p>${escapeHtml(lead)}</p><p><a href="${escapeHtml(link)}">Set your password</a> — the link works once, for ${hours} hours.</p><p>If you did not expect this message, ignore it.</p>`;
+      ? t('mail.account.inviteLead', { inviter: invitedBy ?? t('mail.account.theOwner'), organisation: orgName, role: t(`words.roles.${user.role}`).toLowerCase() })
+      : t('mail.account.resetLead', { organisation: orgName });
+  const hello = t('mail.account.hello', { name: user.name });
+  const text = `${hello}\n\n${lead}\n\n${t('mail.account.openLink', { hours })}\n${link}\n\n${t('mail.account.ignore')}\n`;
+  const html = `<p>${escapeHtml(hello)}</p><p>${escapeHtml(lead)}</p><p><a href="${escapeHtml(link)}">${escapeHtml(t('mail.account.setLink'))}</a> ${escapeHtml(t('mail.account.linkWorks', { hours }))}</p><p>${escapeHtml(t('mail.account.ignore'))}</p>`;
   await ctx.mailer.send({ organisationId: user.organisationId, kind: 'account', to: user.email, subject, text, html });
 }
 

@@ -57,7 +57,7 @@ export async function invitePerson(ctx: AppContext, actor: SessionUser, input: I
     throw err;
   });
   await setFarmAccess(ctx, actor, user.id, farmIds);
-  queueTokenMail(ctx, user, 'invite', actor.name);
+  queueTokenMail(ctx, user, 'invite', actor.name, actor.language);
   return toPerson(ctx, user);
 }
 
@@ -71,7 +71,7 @@ async function personOf(ctx: AppContext, actor: SessionUser, id: number) {
 export async function resendInvitation(ctx: AppContext, actor: SessionUser, id: number): Promise<void> {
   const user = await personOf(ctx, actor, id);
   if (user.passwordHash) throw new AppError(409, 'already_joined', 'This person has already set a password');
-  queueTokenMail(ctx, user, 'invite', actor.name);
+  queueTokenMail(ctx, user, 'invite', actor.name, actor.language);
 }
 
 /** Changes role, farm access or active state; deactivation ends the person's sessions at once. */

@@ -1,7 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { useTestApp } from '../support/db';
-import { PASSWORD, call, makeOrganisation, signedIn, type Agent } from '../support/fixtures';
+import { PASSWORD, anonymousAgent, call, makeOrganisation, signedIn, type Agent } from '../support/fixtures';
+import { waitForMail } from '../support/mail';
 
 const env = useTestApp();
 
@@ -45,5 +46,22 @@ describe("a person's language", () => {
     const res = await call(agent, 'patch', '/api/auth/me', { language: 'de' }).expect(400);
     expect(res.body.error.field).toBe('language');
     expect((await agent.get('/api/auth/me').expect(200)).body.language).toBe('es');
+  });
+
+  it("mails a reset link in the person's language and an invitation in the inviter's", async () => {
+    const org = await makeOrganisation(env);
+    const { agent: owner } = await signInWith(org.users.owner.email, 'fr-FR');
+    await signInWith(org.users.buyer.email, 'es-ES');
+    const anonymous = await anonymousAgent(env);
+    await call(anonymous, 'post', '/api/auth/password-reset', { email: org.users.buyer.email }).expect(202);
+    const reset = await waitForMail(env.config.outboxDir, org.users.buyer.email);
+    expect(reset.subject).toBe('Elija una nueva contraseña de Brimstock');
+    expect(reset.text).toContain('Abra este enlace para elegir su contraseña');
+
+    const email = `newcomer-${org.organisationId}@test.example`;
+    await call(owner, 'post', '/api/invitations', { email, name: 'Noa Reyes', role: 'worker', farmIds: [org.farmIds[0]] }).expect(201);
+    const invite = await waitForMail(env.config.outboxDir, email);
+    expect(invite.subject).toMatch(/^Vous êtes invité à rejoindre .+ sur Brimstock$/);
+    expect(invite.text).toContain('en tant que ouvrier');
   });
 });
