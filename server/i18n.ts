@@ -19,7 +19,7 @@ import {
 } from '@intlify/core-base';
 import { DEFAULT_LANGUAGE, LANGUAGES, LANGUAGE_LOCALES, isLanguage, type Language } from '@shared/i18n/languages';
 import { PLURAL_RULES } from '@shared/i18n/plural';
-import { knownMessages, localiseFigures, sayKnown } from '@shared/i18n/known-messages';
+import { knownMessages, localiseDayTime, localiseFigures, sayKnown } from '@shared/i18n/known-messages';
 import { useCatalogueZodMessages } from '@shared/i18n/zod-messages';
 
 const MESSAGES_DIR = resolve(import.meta.dirname, '../shared/i18n/messages');
@@ -132,5 +132,10 @@ let knownFlagMessages: ReturnType<typeof knownMessages> | null = null;
 export function flagMessageIn(message: string, language: Language): string {
   if (language === DEFAULT_LANGUAGE) return message;
   knownFlagMessages ??= knownMessages('flagKinds.message', (englishArea('flagKinds').message ?? {}) as Messages);
-  return sayKnown(message, knownFlagMessages, (key, named) => tr(language, key, localiseFigures(named, LANGUAGE_LOCALES[language])));
+  const locale = LANGUAGE_LOCALES[language];
+  return sayKnown(message, knownFlagMessages, (key, named) => {
+    const values = localiseFigures(named, locale);
+    if (values.when) values.when = localiseDayTime(values.when, locale);
+    return tr(language, key, values);
+  });
 }

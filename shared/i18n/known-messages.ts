@@ -91,3 +91,24 @@ export function localiseFigures(named: Record<string, string>, locale: string): 
     }),
   );
 }
+
+const WEEKDAYS = ['Sun', 'Mon', 'Tue', 'Wed', 'Thu', 'Fri', 'Sat'];
+const MONTHS = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', 'Oct', 'Nov', 'Dec'];
+const EN_DAY_TIME = /^(Sun|Mon|Tue|Wed|Thu|Fri|Sat) (\d{1,2}) (Jan|Feb|Mar|Apr|May|Jun|Jul|Aug|Sep|Oct|Nov|Dec),? (\d{2}):(\d{2})$/;
+
+/**
+ * A day and time as the flag rules write it in English ("Thu 4 Dec, 03:00", the farm's local time) as
+ * `locale` writes it ("jue, 4 dic, 3:00"); any other text as given. The year is the first from 2024 on
+ * whose calendar puts that date on that weekday, so the weekday and date stay as written.
+ */
+export function localiseDayTime(value: string, locale: string): string {
+  const m = EN_DAY_TIME.exec(value);
+  if (!m) return value;
+  const [, weekday, day, month, hour, minute] = m;
+  for (let year = 2024; year < 2040; year++) {
+    const at = new Date(Date.UTC(year, MONTHS.indexOf(month), Number(day), Number(hour), Number(minute)));
+    if (at.getUTCDay() !== WEEKDAYS.indexOf(weekday) || at.getUTCDate() !== Number(day)) continue;
+    return new Intl.DateTimeFormat(locale, { timeZone: 'UTC', weekday: 'short', day: 'numeric', month: 'short', hour: '2-digit', minute: '2-digit', hourCycle: 'h23' }).format(at);
+  }
+  return value;
+}

@@ -49,6 +49,11 @@ describe('flag sentences in another language', () => {
     expect(flagMessageIn(low, 'fr')).toBe('Tank P1 a 12\u202f346 L utiles, sous son seuil de 20\u202f000 L');
     expect(flagMessageIn(low, 'en')).toBe(low);
     expect(flagMessageIn('Something new happened', 'es')).toBe('Something new happened');
+    // 2026-03-04 12:00 UTC is a Wednesday, 13:00 in Madrid (CET, UTC+1 until the last Sunday of March).
+    const frost = sentences[6][1];
+    expect(frost).toContain('around Wed 4 Mar, 13:00');
+    expect(flagMessageIn(frost, 'es')).toContain('hacia mié, 4 mar, 13:00');
+    expect(flagMessageIn(frost, 'fr')).toContain('vers mer. 4 mars, 13:00');
   });
 });
 

@@ -3,7 +3,7 @@
 // The words come from area `flagKinds` in the screens' language, read each time they are shown.
 import type { FlagKind, FlagStatus } from '@shared/schemas';
 import { i18n } from '@/i18n';
-import { knownMessages, localiseFigures, sayKnown } from '@shared/i18n/known-messages';
+import { knownMessages, localiseDayTime, localiseFigures, sayKnown } from '@shared/i18n/known-messages';
 import { DEFAULT_LANGUAGE, LANGUAGE_LOCALES, type Language } from '@shared/i18n/languages';
 
 /** What marks a flag kind on screen. */
@@ -82,5 +82,10 @@ export function sayFlagMessage(message: string): string {
   const language = i18n.global.locale.value as Language;
   if (language === DEFAULT_LANGUAGE) return message;
   knownFlagMessages ??= knownMessages('flagKinds.message', (i18n.global.getLocaleMessage(DEFAULT_LANGUAGE) as unknown as { flagKinds: { message: Record<string, unknown> } }).flagKinds.message);
-  return sayKnown(message, knownFlagMessages, (key, named) => i18n.global.t(key, localiseFigures(named, LANGUAGE_LOCALES[language])));
+  const locale = LANGUAGE_LOCALES[language];
+  return sayKnown(message, knownFlagMessages, (key, named) => {
+    const values = localiseFigures(named, locale);
+    if (values.when) values.when = localiseDayTime(values.when, locale);
+    return i18n.global.t(key, values);
+  });
 }
