@@ -256,10 +256,10 @@ function drawStrip(page: PDFPage, fonts: Fonts, tank: GaugeStripTank, layout: Ga
     const jy = y(j.positionMm);
     if (j.role === 'cut') {
       line(page, x0 - 4, jy, layout.page.widthMm - layout.page.marginMm - 14, jy, 0.3, INK, [pt(2), pt(1.5)]);
-      text(page, fonts, j.text, { x: noteX, y: jy - 4, size: 8, bold: true });
+      text(page, fonts, t('pdf.strip.joinCut', { join: j.join, page: j.otherPage }), { x: noteX, y: jy - 4, size: 8, bold: true });
     } else {
       line(page, x0 - 4, jy, layout.page.widthMm - layout.page.marginMm - 14, jy, 0.3);
-      text(page, fonts, j.text, { x: noteX, y: jy + 1.5, size: 8, bold: true });
+      text(page, fonts, t('pdf.strip.joinMatch', { join: j.join, page: j.otherPage }), { x: noteX, y: jy + 1.5, size: 8, bold: true });
     }
     // Half a diamond on each side of the join: the two halves meet when the pages line up.
     const dir = j.role === 'cut' ? -1 : 1;

@@ -101,6 +101,9 @@ describe.skipIf(!hasPdftoppm)('printed PDFs in the language of the person who pr
     expect(strip).toContain('Contenido: Fertilizante.');
     expect(strip).toContain(cautionSentences('confined-space', 'es').slice(0, 3).join(' '));
     expect(strip).toContain('Contiene: Fertilizante');
+    // The 1,500 mm tank takes several A4 pages, joined where the strip says.
+    expect(strip).toContain('Unión 1: corte aquí — la página 2 sigue desde aquí');
+    expect(strip).toContain('Unión 1: ponga aquí el borde superior recortado de la página 1');
     const sheet = flat(pdfText(await fetchPdf(manager, `/api/farms/${org.farmIds[0]}/labels.pdf?unit=metric`)));
     expect(sheet).toContain('etiquetas de tanques · hoja 1 de 1 · recorte por las líneas discontinuas');
     expect(sheet).toContain('Un tanque es un espacio confinado.');
