@@ -8,8 +8,15 @@ export interface CheckFigure {
   digits: number;
 }
 
-/** One value in a refusal's sentence: a figure, text written as it is (a unit symbol, a typed value), or a refusal inside it. */
-export type CheckParam = CheckFigure | string | CheckProblem;
+/** A moment of a refusal (epoch ms) written as a date, or a date and time, in `timeZone` the language's way ("29 Mar 2026, 02:00"). */
+export interface CheckMoment {
+  atMs: number;
+  timeZone: string;
+  dateOnly: boolean;
+}
+
+/** One value in a refusal's sentence: a figure, a moment, text written as it is (a unit symbol, a typed value), or a refusal inside it. */
+export type CheckParam = CheckFigure | CheckMoment | string | CheckProblem;
 
 /** Why a shared check refused: `code` is a key of area `checks` ("reading.belowZero"), `params` the values its sentence names. */
 export interface CheckProblem {
@@ -20,6 +27,16 @@ export interface CheckProblem {
 /** A figure of `value` written with at most `digits` decimals. */
 export function figure(value: number, digits: number): CheckFigure {
   return { value, digits };
+}
+
+/** The moment `atMs` (epoch ms) in `timeZone`, as a date and time or a date only. */
+export function moment(atMs: number, timeZone: string, dateOnly = false): CheckMoment {
+  return { atMs, timeZone, dateOnly };
+}
+
+/** True when `param` is a moment. */
+export function isCheckMoment(param: CheckParam): param is CheckMoment {
+  return typeof param === 'object' && 'atMs' in param;
 }
 
 /** The refusal `code` with its values. */

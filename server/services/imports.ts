@@ -174,7 +174,7 @@ export async function dryRunUploads(ctx: AppContext, actor: SessionUser, input: 
         noticeCount: o.noticeCount ?? 0,
         error: run.error,
         duplicateOfId: null,
-        rejectedPreview: run.problems.map((p) => ({ line: p.line, field: p.field, column: p.column, value: p.value, reason: p.reason })),
+        rejectedPreview: run.problems.map((p) => ({ line: p.line, field: p.field, column: p.column, value: p.value, reason: p.reason, problem: p.problem })),
         rejectedProblems: run.problemCount,
         notices: o.notices ?? [],
       });

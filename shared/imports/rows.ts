@@ -4,13 +4,14 @@
 // (clocks going back) is read by the order of the rows and comes back with a notice saying how. Pure:
 // the browser preview, the server's import and dry run and the property tests all feed it the records
 // papaparse gives.
+import { checkProblem, moment, type CheckProblem } from '../check-problems';
 import { readingToVolumes, type ReadingInput, type TankSetup } from '../readings/index';
 import { toSI, type LengthUnit, type PressureUnit } from '../units/index';
 import { isBlankRow, lineBreaksInside, stripBom, type LineBreak } from './csv';
 import type { ColumnRef, DateFormat, ImportMapping, TimestampFormat } from './mapping';
 import { parseLoggerNumber } from './numbers';
 import { createInstantTally } from './repeats';
-import { dateTimeParser, formatInstant, formatOffset, timestampParser, type RepeatedTime, type TimestampResult } from './timestamps';
+import { cellWhat, dateTimeParser, formatInstant, formatOffset, refusal, timestampParser, type Refusal, type RepeatedTime, type TimestampResult } from './timestamps';
 import { IMPORT_POLICY_TITLES, isDateFormat } from './mapping';
 
 /** Bounds of a logged temperature in °C (the same bounds a round's temperature has). */
@@ -29,6 +30,8 @@ export interface ImportProblem {
   column: string;
   value: string;
   reason: string;
+  /** The reason as a code of message area `checks` (imports.*) with its values, for screens in other languages. */
+  problem: CheckProblem;
 }
 
 /** A remark on a row that was read, not refused: how a local time that occurs twice was read. */
@@ -38,6 +41,8 @@ export interface ImportNotice {
   column: string;
   value: string;
   note: string;
+  /** The note as a code of message area `checks` (imports.note.*) with its values. */
+  problem: CheckProblem;
 }
 
 /** A good row: UTC instant (epoch ms), level in mm above the floor, volumes in L, temperature in °C or null. */
@@ -56,7 +61,7 @@ export type FeedResult =
   | { kind: 'header'; line: number; columns: string[] }
   | { kind: 'reading'; reading: ImportedReading; notice?: ImportNotice }
   | { kind: 'rejected'; line: number; problems: ImportProblem[] }
-  | { kind: 'fatal'; reason: string };
+  | ({ kind: 'fatal' } & Refusal);
 
 /** Running counts of a file: data rows seen (blank lines and the header not included), rows refused, blank records skipped (the empty record after a final line break included), rows read with a notice. */
 export interface ImportCounts {
@@ -69,7 +74,7 @@ export interface ImportCounts {
 /** Reads one file's records in order; `end()` says whether the file as a whole was usable. */
 export interface ImportReader {
   feed(cells: readonly string[]): FeedResult;
-  end(): { ok: true } | { ok: false; reason: string };
+  end(): { ok: true } | ({ ok: false } & Refusal);
   readonly counts: Readonly<ImportCounts>;
   /** Good rows whose instant an earlier good row of this file already had (each instant is stored once). */
   repeatedInFile(): number;
@@ -87,9 +92,13 @@ export interface ImportReaderOptions {
 }
 
 /** Why this mapping cannot be used with this tank at all (null when it can): e.g. distances need the sensor height. */
-export function mappingProblem(mapping: ImportMapping, tank: TankSetup): { field: string; message: string } | null {
+export function mappingProblem(mapping: ImportMapping, tank: TankSetup): { field: string; message: string; problem: CheckProblem } | null {
   if (mapping.value.kind === 'ultrasonic' && !(typeof tank.sensorHeightMm === 'number' && Number.isFinite(tank.sensorHeightMm))) {
-    return { field: 'mapping.value.kind', message: "mapping.value.kind: distances from an ultrasonic sensor need the tank's sensor height (sensorHeightMm); set it on the tank first" };
+    return {
+      field: 'mapping.value.kind',
+      message: "mapping.value.kind: distances from an ultrasonic sensor need the tank's sensor height (sensorHeightMm); set it on the tank first",
+      problem: checkProblem('imports.mapping.needsSensorHeight'),
+    };
   }
   return null;
 }
@@ -100,6 +109,11 @@ interface Column {
 }
 
 const describeRef = (ref: ColumnRef) => (typeof ref === 'number' ? `column ${ref + 1} (index ${ref})` : `"${ref}"`);
+const refProblem = (ref: ColumnRef) => (typeof ref === 'number' ? checkProblem('imports.column.number', { n: String(ref + 1), index: String(ref) }) : checkProblem('imports.column.name', { name: ref }));
+/** What a mapped column is called at the start of a reason about it. */
+const WHICH_WORDS = { timestamp: 'Timestamp', date: 'Date', time: 'Time', value: 'Value', temperature: 'Temperature' } as const;
+const whichColumn = (which: keyof typeof WHICH_WORDS, bad: Refusal): Refusal =>
+  refusal(`${WHICH_WORDS[which]} column: ${bad.reason}`, `column.which.${which}`, { detail: bad.problem });
 
 /** A reader for one file. Throws RangeError only for a mapping that failed its schema (unknown zone or format). */
 export function createImportReader({ mapping, tank, nowMs, newline = '\n', displayTimeZone = 'UTC' }: ImportReaderOptions): ImportReader {
@@ -114,38 +128,46 @@ export function createImportReader({ mapping, tank, nowMs, newline = '\n', displ
   let nextLine = 1;
   let first = true;
   let header: string[] | null = null;
-  let fatal: string | null = null;
+  let fatal: Refusal | null = null;
   let columns: { timestamp: Column; time: Column | null; value: Column; temperature: Column | null } | null = null;
 
-  const resolve = (ref: ColumnRef, names: string[] | null): Column | string => {
+  const resolve = (ref: ColumnRef, names: string[] | null): Column | Refusal => {
     if (typeof ref === 'number') {
-      if (names && ref >= names.length) return `The ${describeRef(ref)} is not in the file: the header row has ${names.length} column${names.length === 1 ? '' : 's'}`;
+      if (names && ref >= names.length) {
+        return refusal(`The ${describeRef(ref)} is not in the file: the header row has ${names.length} column${names.length === 1 ? '' : 's'}`, names.length === 1 ? 'column.notInFileOne' : 'column.notInFileMany', {
+          ref: refProblem(ref),
+          count: String(names.length),
+        });
+      }
       return { index: ref, label: names?.[ref]?.trim() || `column ${ref + 1}` };
     }
     const want = ref.trim().toLowerCase();
     const index = (names ?? []).findIndex((n) => n.trim().toLowerCase() === want);
     if (index < 0) {
       const found = (names ?? []).map((n) => `"${n.trim()}"`).join(', ');
-      return `The column ${describeRef(ref)} is not in the header row (it has ${found || 'no names'})`;
+      return found
+        ? refusal(`The column ${describeRef(ref)} is not in the header row (it has ${found})`, 'column.notInHeader', { ref: refProblem(ref), found })
+        : refusal(`The column ${describeRef(ref)} is not in the header row (it has no names)`, 'column.notInHeaderNoNames', { ref: refProblem(ref) });
     }
     return { index, label: names![index].trim() };
   };
 
-  const resolveAll = (names: string[] | null): string | null => {
+  const isRefusal = (r: Column | Refusal): r is Refusal => 'reason' in r;
+  const resolveAll = (names: string[] | null): Refusal | null => {
     const stamp = resolve(ts.column, names);
-    if (typeof stamp === 'string') return `${split ? 'Date' : 'Timestamp'} column: ${stamp}`;
+    if (isRefusal(stamp)) return whichColumn(split ? 'date' : 'timestamp', stamp);
     let time: Column | null = null;
     if (split) {
       const t = resolve(ts.time!.column, names);
-      if (typeof t === 'string') return `Time column: ${t}`;
+      if (isRefusal(t)) return whichColumn('time', t);
       time = t;
     }
     const value = resolve(mapping.value.column, names);
-    if (typeof value === 'string') return `Value column: ${value}`;
+    if (isRefusal(value)) return whichColumn('value', value);
     let temperature: Column | null = null;
     if (mapping.temperature) {
       const t = resolve(mapping.temperature.column, names);
-      if (typeof t === 'string') return `Temperature column: ${t}`;
+      if (isRefusal(t)) return whichColumn('temperature', t);
       temperature = t;
     }
     columns = { timestamp: stamp, time, value, temperature };
@@ -166,14 +188,18 @@ export function createImportReader({ mapping, tank, nowMs, newline = '\n', displ
   const pickRepeated = (rep: RepeatedTime, text: string, col: Column, field: ImportField, line: number): { ms: number; notice: ImportNotice } => {
     const second = previousMs !== null && previousMs >= rep.earlierMs;
     const ms = second ? rep.laterMs : rep.earlierMs;
-    const why = second
-      ? `read as the second time round (${formatOffset(rep.laterOffsetMin)}), because the row before it is at or past the first`
-      : previousMs === null
-        ? `read as the first time round (${formatOffset(rep.earlierOffsetMin)}), as no row before it tells which`
-        : `read as the first time round (${formatOffset(rep.earlierOffsetMin)}), because the row before it comes earlier`;
+    const how: 'second' | 'firstAlone' | 'firstAfterEarlier' = second ? 'second' : previousMs === null ? 'firstAlone' : 'firstAfterEarlier';
+    const offset = second ? rep.laterOffsetMin : rep.earlierOffsetMin;
+    const why =
+      how === 'second'
+        ? `read as the second time round (${formatOffset(offset)}), because the row before it is at or past the first`
+        : how === 'firstAlone'
+          ? `read as the first time round (${formatOffset(offset)}), as no row before it tells which`
+          : `read as the first time round (${formatOffset(offset)}), because the row before it comes earlier`;
     // Both passes show the same wall-clock time, so the instant is said in UTC, which tells them apart.
     const note = `"${text}" happens twice in ${zoneName} (the clocks go back an hour that night); ${why}. It is stored as ${formatInstant(ms, 'UTC')} UTC.`;
-    return { ms, notice: { line, field, column: col.label, value: text, note } };
+    const problem = checkProblem(`imports.note.${how}`, { text, zone: zoneName, offset: formatOffset(offset), stored: moment(ms, 'UTC') });
+    return { ms, notice: { line, field, column: col.label, value: text, note, problem } };
   };
 
   const readWhen = (
@@ -194,7 +220,7 @@ export function createImportReader({ mapping, tank, nowMs, newline = '\n', displ
       text = `${dateText.trim()} ${timeText.trim()}`;
       if (!two.ok) {
         const bad = two.part === 'date' ? { field: 'timestamp' as const, col: cols.timestamp, value: dateText } : { field: 'time' as const, col: cols.time, value: timeText };
-        problems.push({ line, field: bad.field, column: bad.col.label, value: bad.value, reason: two.reason });
+        problems.push({ line, field: bad.field, column: bad.col.label, value: bad.value, reason: two.reason, problem: two.problem });
         return null;
       }
       r = two;
@@ -203,14 +229,16 @@ export function createImportReader({ mapping, tank, nowMs, newline = '\n', displ
     } else r = parseOne!(dateText);
     const value = field === 'time' ? timeText : dateText;
     if (!r.ok) {
-      problems.push({ line, field, column: col.label, value, reason: r.reason });
+      problems.push({ line, field, column: col.label, value, reason: r.reason, problem: r.problem });
       return null;
     }
     let ms = r.ms;
     let notice: ImportNotice | undefined;
     if (r.repeated) ({ ms, notice } = pickRepeated(r.repeated, text, col, field, line));
     if (ms > nowMs + FUTURE_TOLERANCE_MS) {
-      problems.push({ line, field, column: col.label, value, reason: `${split ? 'Date and time' : 'Timestamp'} "${text}" is in the future (after ${formatInstant(nowMs, displayTimeZone)}, the farm's time now)` });
+      const what = cellWhat(split ? 'dateTime' : 'timestamp', text);
+      const future = refusal(`${what.text} is in the future (after ${formatInstant(nowMs, displayTimeZone)}, the farm's time now)`, 'row.future', { what: what.problem, now: moment(nowMs, displayTimeZone) });
+      problems.push({ line, field, column: col.label, value, ...future });
       return null;
     }
     previousMs = ms;
@@ -222,7 +250,11 @@ export function createImportReader({ mapping, tank, nowMs, newline = '\n', displ
     const problems: ImportProblem[] = [];
     const cell = (c: Column, field: ImportField): string | null => {
       if (c.index < cells.length) return cells[c.index];
-      problems.push({ line, field, column: c.label, value: '', reason: `Missing: the row has ${cells.length} field${cells.length === 1 ? '' : 's'}, so there is no ${c.label}` });
+      const missing = refusal(`Missing: the row has ${cells.length} field${cells.length === 1 ? '' : 's'}, so there is no ${c.label}`, cells.length === 1 ? 'row.missingOne' : 'row.missingMany', {
+        count: String(cells.length),
+        column: c.label,
+      });
+      problems.push({ line, field, column: c.label, value: '', ...missing });
       return null;
     };
     const when = readWhen(cols, cell, line, problems);
@@ -231,10 +263,13 @@ export function createImportReader({ mapping, tank, nowMs, newline = '\n', displ
     let volumes: { levelMm: number; grossL: number; usableL: number } | null = null;
     if (valueText !== null) {
       const n = parseLoggerNumber(valueText, mapping.decimalComma);
-      if (!n.ok) problems.push({ line, field: 'value', column: cols.value.label, value: valueText, reason: n.reason });
+      if (!n.ok) problems.push({ line, field: 'value', column: cols.value.label, value: valueText, reason: n.reason, problem: n.problem });
       else {
         const r = readingToVolumes(tank, toInput(n.value));
-        if (!r.ok) problems.push({ line, field: 'value', column: cols.value.label, value: valueText, reason: `${valueText.trim()} ${unit}: ${r.reason}` });
+        if (!r.ok) {
+          const reading = refusal(`${valueText.trim()} ${unit}: ${r.reason}`, 'row.reading', { value: valueText.trim(), unit, detail: r.problem });
+          problems.push({ line, field: 'value', column: cols.value.label, value: valueText, ...reading });
+        }
         else volumes = { levelMm: r.levelMm, grossL: r.grossL, usableL: r.usableL };
       }
     }
@@ -244,11 +279,17 @@ export function createImportReader({ mapping, tank, nowMs, newline = '\n', displ
       // A logger without a probe reading leaves the cell empty (or the record short): no temperature, not a bad row.
       if (text !== undefined && text.trim() !== '') {
         const n = parseLoggerNumber(text, mapping.decimalComma, 'Temperature');
-        if (!n.ok) problems.push({ line, field: 'temperature', column: cols.temperature.label, value: text, reason: n.reason });
+        if (!n.ok) problems.push({ line, field: 'temperature', column: cols.temperature.label, value: text, reason: n.reason, problem: n.problem });
         else {
           const c = toSI(n.value, mapping.temperature.unit);
           if (c < TEMPERATURE_RANGE_C.min || c > TEMPERATURE_RANGE_C.max) {
-            problems.push({ line, field: 'temperature', column: cols.temperature.label, value: text, reason: `Temperature ${text.trim()} °${mapping.temperature.unit} is outside ${TEMPERATURE_RANGE_C.min} to ${TEMPERATURE_RANGE_C.max} °C` });
+            const range = refusal(`Temperature ${text.trim()} °${mapping.temperature.unit} is outside ${TEMPERATURE_RANGE_C.min} to ${TEMPERATURE_RANGE_C.max} °C`, 'row.temperatureRange', {
+              value: text.trim(),
+              unit: `°${mapping.temperature.unit}`,
+              min: String(TEMPERATURE_RANGE_C.min),
+              max: String(TEMPERATURE_RANGE_C.max),
+            });
+            problems.push({ line, field: 'temperature', column: cols.temperature.label, value: text, ...range });
           } else temperatureC = c;
         }
       }
@@ -260,7 +301,7 @@ export function createImportReader({ mapping, tank, nowMs, newline = '\n', displ
   };
 
   const feed = (raw: readonly string[]): FeedResult => {
-    if (fatal) return { kind: 'fatal', reason: fatal };
+    if (fatal) return { kind: 'fatal', ...fatal };
     let cells = raw;
     const atStart = first;
     if (first) {
@@ -278,7 +319,7 @@ export function createImportReader({ mapping, tank, nowMs, newline = '\n', displ
       const bad = resolveAll(header);
       if (bad) {
         fatal = bad;
-        return { kind: 'fatal', reason: bad };
+        return { kind: 'fatal', ...bad };
       }
       return { kind: 'header', line, columns: header };
     }
@@ -288,11 +329,11 @@ export function createImportReader({ mapping, tank, nowMs, newline = '\n', displ
     return r;
   };
 
-  const end = (): { ok: true } | { ok: false; reason: string } => {
-    if (fatal) return { ok: false, reason: fatal };
+  const end = (): { ok: true } | ({ ok: false } & Refusal) => {
+    if (fatal) return { ok: false, ...fatal };
     if (counts.rows > 0) return { ok: true };
-    if (mapping.hasHeader && header) return { ok: false, reason: 'The file has a header row but no data rows: nothing to import' };
-    return { ok: false, reason: 'The file is empty: it has no rows to import' };
+    if (mapping.hasHeader && header) return { ok: false, ...refusal('The file has a header row but no data rows: nothing to import', 'file.headerOnly') };
+    return { ok: false, ...refusal('The file is empty: it has no rows to import', 'file.empty') };
   };
 
   return { feed, end, counts, repeatedInFile: () => tally.repeated() };

@@ -7,6 +7,7 @@
 // - a local time that occurs twice (clocks go back, e.g. Europe/Madrid 25 Oct 2026 03:00→02:00) comes back
 //   with both instants, and the row reader picks one by the order of the rows (see rows.ts), saying so.
 import { tzOffset, tzScan } from '@date-fns/tz';
+import { checkProblem, moment, type CheckProblem } from '../check-problems';
 import type { DateFormat, TimeFormat, TimestampFormat } from './mapping';
 
 /** A local time that occurs twice: both UTC instants (epoch ms) and the offsets (minutes east of UTC) they are read with. */
@@ -18,13 +19,37 @@ export interface RepeatedTime {
 }
 
 /** A parsed timestamp: epoch milliseconds (UTC; for a repeated local time the earlier one, with both in `repeated`), or why the text is not one. */
-export type TimestampResult = { ok: true; ms: number; repeated?: RepeatedTime } | { ok: false; reason: string };
+export type TimestampResult = { ok: true; ms: number; repeated?: RepeatedTime } | ({ ok: false } & Refusal);
 
 /** Which of the two cells of a split date and time a problem is about. */
 export type DateTimePart = 'date' | 'time';
 
 /** A parsed date cell plus time cell, or why not and in which of the two cells. */
-export type DateTimeResult = { ok: true; ms: number; repeated?: RepeatedTime } | { ok: false; part: DateTimePart; reason: string };
+export type DateTimeResult = { ok: true; ms: number; repeated?: RepeatedTime } | ({ ok: false; part: DateTimePart } & Refusal);
+
+/** Why a cell was refused: in English (`reason`, the API's) and as a code of message area `checks` (imports.*) with its values. */
+export interface Refusal {
+  reason: string;
+  problem: CheckProblem;
+}
+
+/** What a reason is about, in English and as a code: `Timestamp "…"`, `Date "…"`, `Time "…"`, `Date and time "…"`. */
+export interface CellWhat {
+  text: string;
+  problem: CheckProblem;
+}
+
+const WHAT_WORDS = { timestamp: 'Timestamp', date: 'Date', time: 'Time', dateTime: 'Date and time' } as const;
+
+/** The cell `text` of kind `kind`, as reasons name it. */
+export function cellWhat(kind: keyof typeof WHAT_WORDS, text: string): CellWhat {
+  return { text: `${WHAT_WORDS[kind]} "${text}"`, problem: checkProblem(`imports.what.${kind}`, { text }) };
+}
+
+/** A refusal: `reason` in English and `code` (under imports.) with its values. */
+export function refusal(reason: string, code: string, params: CheckProblem['params'] = {}): Refusal {
+  return { reason, problem: checkProblem(`imports.${code}`, params) };
+}
 
 /** Earliest year accepted: time-zone data before 1970 is patchy, and no logger file reaches that far back. */
 export const MIN_TIMESTAMP_YEAR = 1970;
@@ -85,18 +110,23 @@ export function daysInMonth(year: number, month: number): number {
 
 const pad2 = (n: number) => String(n).padStart(2, '0');
 
-function checkDate(f: DateFields, what: string): string | null {
-  if (f.year < MIN_TIMESTAMP_YEAR) return `${what} is before ${MIN_TIMESTAMP_YEAR}: check the logger's clock`;
-  if (f.month < 1 || f.month > 12) return `${what}: month ${f.month} does not exist`;
+function checkDate(f: DateFields, what: CellWhat): Refusal | null {
+  const w = what.problem;
+  if (f.year < MIN_TIMESTAMP_YEAR) return refusal(`${what.text} is before ${MIN_TIMESTAMP_YEAR}: check the logger's clock`, 'cell.beforeYear', { what: w, year: String(MIN_TIMESTAMP_YEAR) });
+  if (f.month < 1 || f.month > 12) return refusal(`${what.text}: month ${f.month} does not exist`, 'cell.noMonth', { what: w, month: String(f.month) });
   const dim = daysInMonth(f.year, f.month);
-  if (f.day < 1 || f.day > dim) return `${what}: day ${f.day} does not exist in ${f.year}-${pad2(f.month)} (it has ${dim} days)`;
+  if (f.day < 1 || f.day > dim) {
+    const yearMonth = `${f.year}-${pad2(f.month)}`;
+    return refusal(`${what.text}: day ${f.day} does not exist in ${yearMonth} (it has ${dim} days)`, 'cell.noDay', { what: w, day: String(f.day), yearMonth, days: String(dim) });
+  }
   return null;
 }
 
-function checkTime(f: TimeFields, what: string): string | null {
-  if (f.hour > 23) return `${what}: hour ${f.hour} is not 0–23`;
-  if (f.minute > 59) return `${what}: minute ${f.minute} is not 0–59`;
-  if (f.second > 59) return `${what}: second ${f.second} is not 0–59`;
+function checkTime(f: TimeFields, what: CellWhat): Refusal | null {
+  const w = what.problem;
+  if (f.hour > 23) return refusal(`${what.text}: hour ${f.hour} is not 0–23`, 'cell.hour', { what: w, hour: String(f.hour) });
+  if (f.minute > 59) return refusal(`${what.text}: minute ${f.minute} is not 0–59`, 'cell.minute', { what: w, minute: String(f.minute) });
+  if (f.second > 59) return refusal(`${what.text}: second ${f.second} is not 0–59`, 'cell.second', { what: w, second: String(f.second) });
   return null;
 }
 
@@ -133,7 +163,7 @@ export function formatOffset(offsetMin: number): string {
 }
 
 /** Where a wall-clock time falls in a zone: one instant, none (a spring-forward gap), or two (the repeated hour). */
-export type WallClockInstant = { kind: 'single'; ms: number } | { kind: 'gap'; reason: string } | ({ kind: 'repeated' } & RepeatedTime);
+export type WallClockInstant = { kind: 'single'; ms: number } | ({ kind: 'gap' } & Refusal) | ({ kind: 'repeated' } & RepeatedTime);
 
 /**
  * A converter of wall-clock times (local time read as if it were UTC, ms) in `timeZone` to UTC instants.
@@ -153,7 +183,11 @@ export function zoneConverter(timeZone: string): (wallClockMs: number) => WallCl
     if (change) for (let m = at - 59 * MINUTE_MS; m < at; m += MINUTE_MS) if (offsetAt(m) === after) at = m;
     const from = at + before * MINUTE_MS;
     const to = at + after * MINUTE_MS;
-    return `does not exist in ${timeZone}: the clocks went forward from ${hourOfWall(from)} to ${hourOfWall(to)} on ${formatWall(from).split(',')[0]}, so no reading was taken at that local time (check the logger's clock and its time zone)`;
+    return refusal(
+      `does not exist in ${timeZone}: the clocks went forward from ${hourOfWall(from)} to ${hourOfWall(to)} on ${formatWall(from).split(',')[0]}, so no reading was taken at that local time (check the logger's clock and its time zone)`,
+      'cell.gap',
+      { zone: timeZone, from: hourOfWall(from), to: hourOfWall(to), day: moment(from, 'UTC', true) },
+    );
   };
   return (wall) => {
     const minute = Math.floor(wall / MINUTE_MS);
@@ -167,7 +201,7 @@ export function zoneConverter(timeZone: string): (wallClockMs: number) => WallCl
       cache.set(minute, known);
     }
     const { before, after, fits } = known;
-    if (fits.length === 0) return { kind: 'gap', reason: gapReason(wall, before, after) };
+    if (fits.length === 0) return { kind: 'gap', ...gapReason(wall, before, after) };
     if (fits.length === 1) return { kind: 'single', ms: wall - fits[0] * MINUTE_MS };
     const [hi, lo] = fits[0] > fits[1] ? [fits[0], fits[1]] : [fits[1], fits[0]];
     return { kind: 'repeated', earlierMs: wall - hi * MINUTE_MS, laterMs: wall - lo * MINUTE_MS, earlierOffsetMin: hi, laterOffsetMin: lo };
@@ -177,8 +211,9 @@ export function zoneConverter(timeZone: string): (wallClockMs: number) => WallCl
 function parseIso(text: string): TimestampResult {
   const m = ISO_RE.exec(text);
   if (!m) {
-    const why = /^\d{4}-\d{2}-\d{2}[Tt ]\d{2}:\d{2}(:\d{2}([.,]\d+)?)?$/.test(text) ? ' (it has no UTC offset: add Z or ±hh:mm, or pick a local layout and a time zone)' : '';
-    return { ok: false, reason: `Timestamp "${text}" is not ISO 8601 with an offset, e.g. 2026-03-01T06:00:00+01:00${why}` };
+    const noOffset = /^\d{4}-\d{2}-\d{2}[Tt ]\d{2}:\d{2}(:\d{2}([.,]\d+)?)?$/.test(text);
+    const why = noOffset ? ' (it has no UTC offset: add Z or ±hh:mm, or pick a local layout and a time zone)' : '';
+    return { ok: false, ...refusal(`Timestamp "${text}" is not ISO 8601 with an offset, e.g. 2026-03-01T06:00:00+01:00${why}`, noOffset ? 'cell.notIsoNoOffset' : 'cell.notIso', { what: cellWhat('timestamp', text).problem }) };
   }
   const f: Fields = {
     year: +m[1],
@@ -190,14 +225,15 @@ function parseIso(text: string): TimestampResult {
     // Sub-millisecond digits are dropped: readings are stored to the millisecond.
     ms: m[7] ? +m[7].slice(0, 3).padEnd(3, '0') : 0,
   };
-  const what = `Timestamp "${text}"`;
+  const what = cellWhat('timestamp', text);
   const bad = checkDate(f, what) ?? checkTime(f, what);
-  if (bad) return { ok: false, reason: bad };
+  if (bad) return { ok: false, ...bad };
   let offsetMin = 0;
   if (!m[8]) {
     const oh = +m[10];
     const om = m[11] ? +m[11] : 0;
-    if (oh > 18 || om > 59) return { ok: false, reason: `Timestamp "${text}": offset ${m[9]}${m[10]}:${m[11] ?? '00'} is not a UTC offset` };
+    const offset = `${m[9]}${m[10]}:${m[11] ?? '00'}`;
+    if (oh > 18 || om > 59) return { ok: false, ...refusal(`Timestamp "${text}": offset ${offset} is not a UTC offset`, 'cell.badOffset', { what: what.problem, offset }) };
     offsetMin = (m[9] === '-' ? -1 : 1) * (oh * 60 + om);
   }
   return { ok: true, ms: wallMs(f) - offsetMin * MINUTE_MS };
@@ -208,9 +244,9 @@ function dateOf(a: number, b: number, c: number, order: Order): DateFields {
   return { year, month, day };
 }
 
-function toInstant(toUtc: (wall: number) => WallClockInstant, f: Fields, what: string): TimestampResult {
+function toInstant(toUtc: (wall: number) => WallClockInstant, f: Fields, what: CellWhat): TimestampResult {
   const at = toUtc(wallMs(f));
-  if (at.kind === 'gap') return { ok: false, reason: `${what} ${at.reason}` };
+  if (at.kind === 'gap') return { ok: false, reason: `${what.text} ${at.reason}`, problem: checkProblem('imports.cell.whatGap', { what: what.problem, gap: at.problem }) };
   if (at.kind === 'single') return { ok: true, ms: at.ms };
   const { earlierMs, laterMs, earlierOffsetMin, laterOffsetMin } = at;
   return { ok: true, ms: earlierMs, repeated: { earlierMs, laterMs, earlierOffsetMin, laterOffsetMin } };
@@ -221,57 +257,59 @@ function toInstant(toUtc: (wall: number) => WallClockInstant, f: Fields, what: s
  * Local layouts need `timeZone` (an IANA name); throws RangeError when it is missing or unknown.
  */
 export function timestampParser(format: TimestampFormat, timeZone?: string): (text: string) => TimestampResult {
-  if (format === 'iso8601') return (text) => (text.trim() ? parseIso(text.trim()) : { ok: false, reason: 'Timestamp is empty' });
+  if (format === 'iso8601') return (text) => (text.trim() ? parseIso(text.trim()) : { ok: false, ...refusal('Timestamp is empty', 'cell.empty.timestamp') });
   const pattern = LOCAL_PATTERNS[format];
   if (!pattern) throw new RangeError(`Unknown timestamp format "${String(format)}"`);
   if (!timeZone) throw new RangeError(`${format} needs a time zone`);
   const toUtc = zoneConverter(timeZone);
   return (raw) => {
     const text = raw.trim();
-    if (!text) return { ok: false, reason: 'Timestamp is empty' };
+    if (!text) return { ok: false, ...refusal('Timestamp is empty', 'cell.empty.timestamp') };
+    const what = cellWhat('timestamp', text);
     const m = pattern.re.exec(text);
-    if (!m) return { ok: false, reason: `Timestamp "${text}" does not match ${format}` };
+    if (!m) return { ok: false, ...refusal(`${what.text} does not match ${format}`, 'cell.noMatch', { what: what.problem, format }) };
     const f: Fields = { ...dateOf(+m[1], +m[2], +m[3], pattern.order), hour: +m[4], minute: +m[5], second: pattern.seconds ? +m[6] : 0, ms: 0 };
-    const what = `Timestamp "${text}"`;
     const bad = checkDate(f, what) ?? checkTime(f, what);
-    if (bad) return { ok: false, reason: bad };
+    if (bad) return { ok: false, ...bad };
     return toInstant(toUtc, f, what);
   };
 }
 
 /** A parser for a date-only cell: its fields, or why not (for guessing columns and for dateTimeParser). */
-export function dateCellParser(format: DateFormat): (text: string) => { ok: true; date: DateFields } | { ok: false; reason: string } {
+export function dateCellParser(format: DateFormat): (text: string) => { ok: true; date: DateFields } | ({ ok: false } & Refusal) {
   const pattern = DATE_PATTERNS[format];
   if (!pattern) throw new RangeError(`Unknown date format "${String(format)}"`);
   return (raw) => {
     const text = raw.trim();
-    if (!text) return { ok: false, reason: 'Date is empty' };
+    if (!text) return { ok: false, ...refusal('Date is empty', 'cell.empty.date') };
+    const what = cellWhat('date', text);
     const m = pattern.re.exec(text);
-    if (!m) return { ok: false, reason: `Date "${text}" does not match ${format}` };
+    if (!m) return { ok: false, ...refusal(`${what.text} does not match ${format}`, 'cell.noMatch', { what: what.problem, format }) };
     const date = dateOf(+m[1], +m[2], +m[3], pattern.order);
-    const bad = checkDate(date, `Date "${text}"`);
-    return bad ? { ok: false, reason: bad } : { ok: true, date };
+    const bad = checkDate(date, what);
+    return bad ? { ok: false, ...bad } : { ok: true, date };
   };
 }
 
 /** A parser for a time-only cell: its fields, or why not. */
-export function timeCellParser(format: TimeFormat): (text: string) => { ok: true; time: TimeFields } | { ok: false; reason: string } {
+export function timeCellParser(format: TimeFormat): (text: string) => { ok: true; time: TimeFields } | ({ ok: false } & Refusal) {
   const pattern = TIME_PATTERNS[format];
   if (!pattern) throw new RangeError(`Unknown time format "${String(format)}"`);
   return (raw) => {
     const text = raw.trim();
-    if (!text) return { ok: false, reason: 'Time is empty' };
+    if (!text) return { ok: false, ...refusal('Time is empty', 'cell.empty.time') };
+    const what = cellWhat('time', text);
     const m = pattern.re.exec(text);
-    if (!m) return { ok: false, reason: `Time "${text}" does not match ${format}` };
+    if (!m) return { ok: false, ...refusal(`${what.text} does not match ${format}`, 'cell.noMatch', { what: what.problem, format }) };
     let hour = +m[1];
     if (pattern.twelveHour) {
-      if (hour < 1 || hour > 12) return { ok: false, reason: `Time "${text}": hour ${hour} is not 1–12 on a 12-hour clock` };
+      if (hour < 1 || hour > 12) return { ok: false, ...refusal(`${what.text}: hour ${hour} is not 1–12 on a 12-hour clock`, 'cell.hour12', { what: what.problem, hour: String(hour) }) };
       const pm = m[5].toLowerCase() === 'p';
       hour = (hour % 12) + (pm ? 12 : 0);
     }
     const time: TimeFields = { hour, minute: +m[2], second: m[3] ? +m[3] : 0, ms: m[4] ? +m[4].padEnd(3, '0') : 0 };
-    const bad = checkTime(time, `Time "${text}"`);
-    return bad ? { ok: false, reason: bad } : { ok: true, time };
+    const bad = checkTime(time, what);
+    return bad ? { ok: false, ...bad } : { ok: true, time };
   };
 }
 
@@ -285,10 +323,10 @@ export function dateTimeParser(dateFormat: DateFormat, timeFormat: TimeFormat, t
   const toUtc = zoneConverter(timeZone);
   return (dateText, timeText) => {
     const d = readDate(dateText);
-    if (!d.ok) return { ok: false, part: 'date', reason: d.reason };
+    if (!d.ok) return { ok: false, part: 'date', reason: d.reason, problem: d.problem };
     const t = readTime(timeText);
-    if (!t.ok) return { ok: false, part: 'time', reason: t.reason };
-    const r = toInstant(toUtc, { ...d.date, ...t.time }, `Date and time "${dateText.trim()} ${timeText.trim()}"`);
-    return r.ok ? r : { ok: false, part: 'time', reason: r.reason };
+    if (!t.ok) return { ok: false, part: 'time', reason: t.reason, problem: t.problem };
+    const r = toInstant(toUtc, { ...d.date, ...t.time }, cellWhat('dateTime', `${dateText.trim()} ${timeText.trim()}`));
+    return r.ok ? r : { ok: false, part: 'time', reason: r.reason, problem: r.problem };
   };
 }

@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { IMPORT_POLICIES, importMappingSchema, type ImportField, type ImportMapping, type ImportPolicy } from '../imports/index';
 import { idSchema } from './common';
+import type { CheckProblem } from '../check-problems';
 
 /** Where a logger import stands: waiting, running, stored, refused, stopped by an error, or a file imported already. */
 export const IMPORT_STATUSES = ['queued', 'importing', 'imported', 'rejected', 'failed', 'duplicate'] as const;
@@ -51,6 +52,8 @@ export interface ImportRejectedRow {
   column: string;
   value: string;
   reason: string;
+  /** The reason as a code of message area `checks` for screens in other languages: in a dry run's answer, not in stored rows. */
+  problem?: CheckProblem;
 }
 
 /** A logger import as the API returns it; sizes in bytes, counts in rows, times ISO 8601 UTC. */
@@ -99,6 +102,8 @@ export interface ImportNoticeRow {
   column: string;
   value: string;
   note: string;
+  /** The note as a code of message area `checks`: absent from notices stored before codes were kept. */
+  problem?: CheckProblem;
 }
 
 /** One import with the first refused rows (the full list is GET /api/imports/:id/rejected.csv) and the first notices. */

@@ -60,7 +60,9 @@ describe('POST /api/imports?dryRun=true', () => {
     expect(dry.body.dryRun).toBe(true);
     const [preview] = dry.body.imports;
     expect(counts(preview)).toEqual({ status: 'imported', rowsTotal: 61, rowsNew: 55, rowsDuplicate: 4, rowsRepeated: 1, rowsRejected: 1, noticeCount: 0 });
-    expect(preview.rejectedPreview).toEqual([{ line: 52, field: 'value', column: 'level_mm', value: 'ERR', reason: 'Value "ERR" is not a number' }]);
+    expect(preview.rejectedPreview).toMatchObject([{ line: 52, field: 'value', column: 'level_mm', value: 'ERR', reason: 'Value "ERR" is not a number' }]);
+    // The reason's code comes along, so a screen in another language words it (area checks).
+    expect(preview.rejectedPreview[0].problem).toEqual({ code: 'imports.number.value.notNumber', params: { text: 'ERR' } });
     expect(await env.ctx.db.models.Reading.count({ where: { tankId: tank.id } })).toBe(readingsBefore);
     expect(await env.ctx.db.models.LoggerImport.count({ where: { tankId: tank.id } })).toBe(importsBefore);
     expect(await env.ctx.db.models.TankLatest.findByPk(tank.id)).toMatchObject({ levelMm: 1110 });

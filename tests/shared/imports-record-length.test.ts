@@ -92,7 +92,7 @@ describe('createRecordGuard', () => {
 describe('sniffCsv and UTF-8', () => {
   it('refuses Latin-1 bytes naming the line they are on', () => {
     const latin1 = Uint8Array.from([...enc.encode('time,level\n2025-01-01T00:00:00Z,5\nTemp '), 0xb0, ...enc.encode('C\n')]);
-    expect(sniffCsv(latin1)).toEqual({ ok: false, reason: 'it is not UTF-8 text (line 3 has bytes that are not UTF-8, as in a Latin-1 or Windows-1252 file); save or export it as UTF-8 CSV' });
+    expect(sniffCsv(latin1)).toMatchObject({ ok: false, reason: 'it is not UTF-8 text (line 3 has bytes that are not UTF-8, as in a Latin-1 or Windows-1252 file); save or export it as UTF-8 CSV' });
   });
 
   it('passes UTF-8 whose last character is cut off at the end of the sniffed bytes', () => {

@@ -24,6 +24,7 @@ import type { TankSetup } from '@shared/readings';
 import { fieldErrors } from '@shared/schemas';
 import { LENGTH_UNITS, PRESSURE_UNITS, type LengthUnit, type PressureUnit, type TemperatureUnit } from '@shared/units';
 import { i18n } from '@/i18n';
+import { checkMessage } from '@/i18n/checkMessage';
 
 /** What the form holds: every choice, a column left empty as null. */
 export interface MappingDraft {
@@ -149,7 +150,7 @@ export function buildMapping(d: MappingDraft, tank: TankSetup | null): BuiltMapp
     return { ok: false, errors };
   }
   const problem = tank ? mappingProblem(parsed.data, tank) : null;
-  if (problem) return { ok: false, errors: { 'value.kind': problem.message.replace(/^mapping\.value\.kind: /, '') } };
+  if (problem) return { ok: false, errors: { 'value.kind': checkMessage(problem.problem) } };
   return { ok: true, mapping: parsed.data };
 }
 

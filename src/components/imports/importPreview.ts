@@ -98,7 +98,7 @@ export function checkPreview(records: readonly (readonly string[])[], mapping: I
     }
     const r = reader.feed(cells);
     if (r.kind === 'fatal') {
-      fatal = r.reason;
+      fatal = checkMessage(r.problem);
       rows.push({ line, cells, kind: 'unchecked', problems: [], reading: null, notice: null });
     } else if (r.kind === 'reading') {
       line = r.reading.line;

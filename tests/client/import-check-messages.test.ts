@@ -1,0 +1,140 @@
+// A logger file's line reasons and notes, a mapped column missing from the file and an empty file, said from
+// their codes (area `checks`, imports.*): in English exactly the English the shared row reader gives the
+// API, so no screen's English changes; in Spanish and French as whole sentences with the language's dates.
+// The files are made up here; the expected sentences in Spanish and French are written by hand.
+import Papa from 'papaparse';
+import { afterEach, describe, expect, it } from 'vitest';
+import type { CheckProblem } from '@shared/check-problems';
+import { createImportReader, csvParseOptions, importMappingSchema, mappingProblem, type ImportMappingInput } from '@shared/imports';
+import type { TankSetup } from '@shared/readings';
+import { setLanguage } from '@/i18n';
+import { checkMessage } from '@/i18n/checkMessage';
+import en from '@shared/i18n/messages/en/checks.json';
+
+afterEach(() => setLanguage('en'));
+
+// A 1,000 mm wide, 1,500 mm tall upright cylinder, as in tests/shared/imports.test.ts.
+const TANK: TankSetup = { geometry: { shape: 'vertical-cylinder', diameterMm: 1000, heightMm: 1500 }, datumOffsetMm: 0, outletHeightMm: 100, safeFillLevelMm: 1400, specificGravity: 1 };
+const NOW = Date.parse('2027-01-01T00:00:00Z');
+
+interface Said {
+  reason: string;
+  problem: CheckProblem;
+}
+
+/** Every reason, note and file verdict the reader gives for `text` read with `mapping`. */
+function reasonsOf(text: string, mapping: ImportMappingInput, displayTimeZone = 'UTC'): Said[] {
+  const parsed = Papa.parse<string[]>(text, csvParseOptions(','));
+  const reader = createImportReader({ mapping: importMappingSchema.parse(mapping), tank: TANK, nowMs: NOW, displayTimeZone });
+  const out: Said[] = [];
+  for (const cells of parsed.data) {
+    const r = reader.feed(cells);
+    if (r.kind === 'rejected') out.push(...r.problems);
+    else if (r.kind === 'reading' && r.notice) out.push({ reason: r.notice.note, problem: r.notice.problem });
+    else if (r.kind === 'fatal') out.push(r);
+  }
+  const end = reader.end();
+  if (!end.ok && !out.some((s) => s.reason === end.reason)) out.push(end);
+  return out;
+}
+
+const ISO: ImportMappingInput = { timestamp: { column: 'time', format: 'iso8601' }, value: { column: 'level', kind: 'level', unit: 'mm' }, temperature: { column: 'temp', unit: 'C' } };
+const LOCAL: ImportMappingInput = { timestamp: { column: 'time', format: 'DD/MM/YYYY HH:mm', timeZone: 'Europe/Madrid' }, value: { column: 'level', kind: 'level', unit: 'mm' } };
+const SPLIT: ImportMappingInput = {
+  timestamp: { column: 'date', format: 'DD/MM/YYYY', timeZone: 'Europe/Madrid', time: { column: 'time', format: 'hh:mm AM/PM' } },
+  value: { column: 'level', kind: 'level', unit: 'mm' },
+  decimalComma: true,
+};
+
+const FILES: [string, string, ImportMappingInput][] = [
+  [
+    'bad ISO timestamps, numbers and temperatures',
+    [
+      'time,level,temp',
+      'yesterday,500,10',
+      '2025-06-01T06:00:00,500,10',
+      '2025-06-01T06:00:00+19:00,500,10',
+      '2025-13-01T06:00:00Z,500,10',
+      '2025-02-30T06:00:00Z,500,10',
+      '1969-06-01T06:00:00Z,500,10',
+      '2025-06-01T24:00:00Z,500,10',
+      '2025-06-01T06:61:00Z,500,10',
+      '2028-06-01T06:00:00Z,500,10',
+      '2025-06-01T06:00:00Z,lots,10',
+      '2025-06-01T06:00:00Z,12,5,10',
+      '2025-06-01T06:00:00Z,1e999,10',
+      '2025-06-01T06:00:00Z,-20,10',
+      '2025-06-01T06:00:00Z,500,warm',
+      '2025-06-01T06:00:00Z,500,95',
+      '2025-06-01T06:00:00Z',
+      ',500,10',
+    ].join('\n'),
+    ISO,
+  ],
+  ['local times in the spring gap and the autumn repeat', 'time,level\n29/03/2026 02:30,500\n25/10/2026 02:30,500\n25/10/2026 02:10,500\n25/10/2026 01:00,500\n25/10/2026 02:20,500\n12-03-2026 06:00,500\n', LOCAL],
+  ['a date and a 12-hour time in two cells, with a decimal comma', 'date,time,level\n31/04/2026,06:00 AM,500\n01/04/2026,13:00 PM,500\n01/04/2026,06:00 AM,500.5\n29/03/2026,02:30 AM,500\n,06:00 AM,500\n', SPLIT],
+  ['a mapped column not in the header', 'when,level\n2025-06-01T00:00:00Z,5\n', { timestamp: { column: 'time', format: 'iso8601' }, value: { column: 1, kind: 'level', unit: 'mm' } }],
+  ['a column number past the header', 'time,level\n2025-06-01T00:00:00Z,5\n', { timestamp: { column: 0, format: 'iso8601' }, value: { column: 4, kind: 'level', unit: 'mm' } }],
+  ['a header without names', ',\n', { timestamp: { column: 'time', format: 'iso8601' }, value: { column: 1, kind: 'level', unit: 'mm' } }],
+  ['a header and no rows', 'time,level\n', { timestamp: { column: 'time', format: 'iso8601' }, value: { column: 'level', kind: 'level', unit: 'mm' } }],
+  ['no rows at all', '', { timestamp: { column: 0, format: 'iso8601' }, value: { column: 1, kind: 'level', unit: 'mm' }, hasHeader: false }],
+];
+
+const all = FILES.flatMap(([, text, mapping]) => reasonsOf(text, mapping));
+const codes = new Set(all.map((s) => s.problem.code));
+
+/** Every sentence of an area file, nested groups included. */
+const sentences = (group: unknown): string[] => (typeof group === 'string' ? [group] : Object.values(group as Record<string, unknown>).flatMap(sentences));
+
+describe('checkMessage for logger files', () => {
+  it.each(FILES)('says every reason and note of %s in English exactly as the row reader', (_case, text, mapping) => {
+    const said = reasonsOf(text, mapping);
+    expect(said.length).toBeGreaterThan(0);
+    for (const s of said) expect(checkMessage(s.problem), s.problem.code).toBe(s.reason);
+  });
+
+  it('meets most of the codes of the area (the cases are not all alike)', () => {
+    expect(codes.size).toBeGreaterThanOrEqual(25);
+  });
+
+  it('says the distances-need-a-sensor-height refusal as the mapping form did (without the field path)', () => {
+    const problem = mappingProblem(importMappingSchema.parse({ timestamp: { column: 0, format: 'iso8601' }, value: { column: 1, kind: 'ultrasonic', unit: 'mm' } }), TANK)!;
+    expect(checkMessage(problem.problem)).toBe(problem.message.replace(/^mapping\.value\.kind: /, ''));
+    setLanguage('es');
+    expect(checkMessage(problem.problem)).toBe('las distancias de un sensor ultrasónico necesitan la altura del sensor del tanque (sensorHeightMm); indíquela primero en el tanque');
+  });
+
+  it('says a spring-gap time, a future one and a repeated hour in Spanish with Spanish dates', () => {
+    setLanguage('es');
+    const gap = reasonsOf('time,level\n29/03/2026 02:30,500\n', LOCAL)[0];
+    expect(checkMessage(gap.problem)).toBe(
+      'La marca de tiempo "29/03/2026 02:30" no existe en Europe/Madrid: los relojes se adelantaron de 02:00 a 03:00 el 29 mar 2026, así que no se tomó ninguna lectura a esa hora local (revise el reloj del registrador y su zona horaria)',
+    );
+    const future = reasonsOf('time,level,temp\n2028-06-01T06:00:00Z,500,10\n', ISO)[0];
+    expect(checkMessage(future.problem)).toBe('La marca de tiempo "2028-06-01T06:00:00Z" está en el futuro (después de 1 ene 2027, 0:00, la hora actual de la finca)');
+    const note = reasonsOf('time,level\n25/10/2026 02:30,500\n', LOCAL)[0];
+    expect(checkMessage(note.problem)).toBe(
+      '"25/10/2026 02:30" ocurre dos veces en Europe/Madrid (esa noche los relojes se atrasan una hora); se lee como la primera vez (UTC+02:00), ya que ninguna fila anterior indica cuál. Se guarda como 25 oct 2026, 0:30 UTC.',
+    );
+  });
+
+  it('says a decimal point in a decimal-comma file and a missing column in French', () => {
+    setLanguage('fr');
+    const [point] = reasonsOf('date,time,level\n01/04/2026,06:00 AM,500.5\n', SPLIT);
+    expect(checkMessage(point.problem)).toBe('La valeur « 500.5 » a un point décimal, mais la correspondance des colonnes indique que les nombres utilisent une virgule décimale');
+    const [missing] = reasonsOf('when,level\n2025-06-01T00:00:00Z,5\n', FILES[3][2]);
+    expect(checkMessage(missing.problem)).toBe('Colonne d’horodatage : La colonne « time » n’est pas dans la ligne d’en-tête (elle contient "when", "level")');
+  });
+
+  it.each(['es', 'fr'] as const)('leaves no English run of the area in %s', (language) => {
+    setLanguage(language);
+    const english = sentences(en.imports);
+    // English runs of three words or more, placeholders and identifiers left out.
+    const runs = english.flatMap((m) => m.split(/\{[^}]*\}|[();:—"]|\b\w*Mm\b|\b\w*[A-Z]\w*\b/).map((s) => s.trim()).filter((s) => s.split(/\s+/).length >= 3));
+    expect(runs.length).toBeGreaterThan(20);
+    for (const s of all) {
+      const said = checkMessage(s.problem);
+      for (const run of runs) expect(said, `${s.problem.code}: "${run}"`).not.toContain(run);
+    }
+  });
+});
