@@ -40,12 +40,13 @@ function cpuShares(from: ReturnType<typeof cpuNow>, to: ReturnType<typeof cpuNow
   return { wallS, server: (100 * (to.server - from.server)) / wallS, self: (100 * (to.self - from.self)) / wallS };
 }
 
-/** (a) autocannon against the board data endpoint. */
-export async function boardLoad(base: string, manager: Session, server: ChildProcess): Promise<BenchFigure[]> {
+/** (a) autocannon against the board data endpoint (`encodings`: which of the two ways of asking; both by default). */
+export async function boardLoad(base: string, manager: Session, server: ChildProcess, opts: { encodings?: ('gzip' | 'identity')[] } = {}): Promise<BenchFigure[]> {
   const serverPid = server.pid;
   const figures: BenchFigure[] = [];
+  const asked = opts.encodings ?? ['gzip', 'identity'];
   // As a browser asks (gzip accepted), then uncompressed, as a plain HTTP client would.
-  for (const [encoding, how] of [['gzip, deflate, br', 'gzip, as browsers ask'], ['identity', 'uncompressed']] as const) {
+  for (const [encoding, how] of ([['gzip, deflate, br', 'gzip, as browsers ask'], ['identity', 'uncompressed']] as const).filter(([e]) => asked.includes(e === 'identity' ? 'identity' : 'gzip'))) {
     const opts = { url: `${base}/api/board`, headers: { cookie: manager.cookie, 'accept-encoding': encoding } };
     // Warm-up, not a figure: one connection shows what a single request costs with no queueing.
     const single = await autocannon({ ...opts, connections: 1, duration: 5 });

@@ -2,13 +2,14 @@
 // Figures are measured here, never asserted by timed unit tests.
 import { runCalibrationBench, type BenchFigure } from './calibration';
 import { runBundleBench } from './bundle';
-import { runBoardBench } from './board';
+import { runBoardBench, runBoardClusterBench } from './board';
 import { runIngestBench } from './ingest';
 
 const BENCHES: Record<string, () => BenchFigure[] | Promise<BenchFigure[]>> = {
   calibration: runCalibrationBench,
   bundle: runBundleBench,
   board: runBoardBench,
+  'board-cluster': runBoardClusterBench,
   ingest: runIngestBench,
 };
 

@@ -11,6 +11,8 @@ export interface HaproxyOptions {
   port: number;
   /** The server processes, each on 127.0.0.1. */
   serverPorts: number[];
+  /** 'source' (default): one client address to one process, as browsers need; 'roundrobin': request by request (the bench, whose clients share one address and use WebSockets only). */
+  balance?: 'source' | 'roundrobin';
 }
 
 export interface Haproxy {
@@ -50,8 +52,7 @@ export function haproxyConfig(opts: Omit<HaproxyOptions, 'baseDir'>): string {
     '  default_backend servers',
     '',
     'backend servers',
-    '  balance source',
-    '  hash-type consistent',
+    ...(opts.balance === 'roundrobin' ? ['  balance roundrobin'] : ['  balance source', '  hash-type consistent']),
     '  option httpchk GET /api/health',
     '  http-check expect status 200',
     ...servers,
