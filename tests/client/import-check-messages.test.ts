@@ -5,10 +5,11 @@
 import Papa from 'papaparse';
 import { afterEach, describe, expect, it } from 'vitest';
 import type { CheckProblem } from '@shared/check-problems';
-import { createImportReader, csvParseOptions, importMappingSchema, mappingProblem, type ImportMappingInput } from '@shared/imports';
+import { createImportReader, csvParseOptions, importMappingSchema, mappingProblem, refusedFileReason, type ImportMappingInput } from '@shared/imports';
 import type { TankSetup } from '@shared/readings';
 import { setLanguage } from '@/i18n';
 import { checkMessage } from '@/i18n/checkMessage';
+import { importErrorText } from '@/components/imports/importErrors';
 import en from '@shared/i18n/messages/en/checks.json';
 
 afterEach(() => setLanguage('en'));
@@ -136,5 +137,31 @@ describe('checkMessage for logger files', () => {
       const said = checkMessage(s.problem);
       for (const run of runs) expect(said, `${s.problem.code}: "${run}"`).not.toContain(run);
     }
+  });
+});
+
+describe('importErrorText', () => {
+  // The server's English as server/services/import-run.ts and imports.ts write it.
+  const refused = refusedFileReason(4, 1216);
+  const noneGood = 'None of the 1,216 rows could be imported; see the refused rows';
+  const duplicate = 'This file was imported into this tank already (import 12, 4 Dec 2026, 02:03); nothing was added';
+
+  it('keeps the English of a refused file, an import with no good rows and a duplicate exactly', () => {
+    for (const text of [refused, noneGood, duplicate]) expect(importErrorText(text)).toBe(text);
+    expect(importErrorText(null)).toBeNull();
+  });
+
+  it('says them in Spanish and French with the counts and the policy title of the language', () => {
+    setLanguage('es');
+    expect(importErrorText(refused)).toBe('4 de 1216 filas tienen problemas, así que no se registró nada de este archivo (se eligió «Rechazar el archivo entero si alguna fila es errónea»)');
+    expect(importErrorText(noneGood)).toBe('No se pudo importar ninguna de las 1216 filas; vea las filas rechazadas');
+    setLanguage('fr');
+    expect(importErrorText(refused)).toMatch(/^4 lignes sur 1\u202f216 ont des problèmes, donc rien de ce fichier n’a été enregistré \(« .+ » a été choisi\)$/);
+    expect(importErrorText(duplicate)).toBe('Ce fichier a déjà été importé dans cette cuve (import 12, 4 Dec 2026, 02:03) ; rien n’a été ajouté');
+  });
+
+  it('leaves any other text as the server wrote it', () => {
+    setLanguage('es');
+    expect(importErrorText('The import stopped (disk full); nothing from this file was kept. Retry it.')).toBe('The import stopped (disk full); nothing from this file was kept. Retry it.');
   });
 });
