@@ -107,7 +107,7 @@ export async function submitRound(ctx: AppContext, actor: SessionUser, input: Ro
     const calibration = calibrations.get(tank.id)!;
     const v = readingToVolumes(calibration.setup, { kind: 'sight-tube', readingMm: e.readingMm } satisfies ReadingInput);
     if (!v.ok) {
-      results.push({ tankId: e.tankId, status: 'refused', reason: v.reason });
+      results.push({ tankId: e.tankId, status: 'refused', reason: v.reason, problem: v.problem });
       continue;
     }
     seenTanks.add(tank.id);

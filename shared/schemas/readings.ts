@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { idSchema } from './common';
+import type { CheckProblem } from '../check-problems';
 
 /** Where a reading came from. */
 export const READING_SOURCES = ['round', 'logger', 'correction'] as const;
@@ -37,6 +38,8 @@ export interface RoundEntryResult {
   tankId: number;
   status: 'stored' | 'duplicate' | 'refused' | 'conflict';
   reason?: string;
+  /** A reading the tank refuses: the reason as a code of message area `checks`, for screens in other languages. */
+  problem?: CheckProblem;
   reading?: Reading;
 }
 

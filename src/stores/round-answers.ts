@@ -11,7 +11,7 @@ export function applyResults(draft: RoundDraft, results: RoundEntryResult[], now
   for (const result of results) {
     const entry = draft.entries[String(result.tankId)];
     if (!entry) continue;
-    entry.result = { status: result.status, reason: result.reason, takenAt: result.reading?.takenAt, grossL: result.reading?.grossL, usableL: result.reading?.usableL };
+    entry.result = { status: result.status, reason: result.reason, problem: result.problem, takenAt: result.reading?.takenAt, grossL: result.reading?.grossL, usableL: result.reading?.usableL };
     entry.outboxSeq = null;
     changed = true;
     // Another reading holds this moment: a new round time (every entry sent has its answer now)

@@ -16,6 +16,8 @@ export type EntryOutcome = RoundEntryResult['status'];
 export interface EntryResult {
   status: EntryOutcome;
   reason?: string;
+  /** The server's reason as a code of area `checks` (a reading outside the tank), said in the screens' language. */
+  problem?: CheckProblem;
   takenAt?: string;
   grossL?: number;
   usableL?: number;

@@ -3,7 +3,11 @@
 // (forms.*) that sayError reads back, the way useFormErrors shows every schema message. English unchanged.
 import { afterEach, describe, expect, it } from 'vitest';
 import { fieldErrors, orderCreateSchema } from '@shared/schemas';
+import { readingToVolumes } from '@shared/readings';
 import { sayError, setLanguage } from '@/i18n';
+import { checkMessage } from '@/i18n/checkMessage';
+import { applyResults } from '@/stores/round-answers';
+import type { RoundDraft } from '@/stores/round-entry';
 import en from '@shared/i18n/messages/en/errors.json';
 
 afterEach(() => setLanguage('en'));
@@ -37,5 +41,29 @@ describe('sayError for the schemas’ form refusals', () => {
       const text = message.replace('{max}', '10');
       expect(sayError(text), text).not.toBe(text);
     }
+  });
+});
+
+describe('the server’s answers to a round’s entries', () => {
+  it('says a refused tank in Spanish and French, the tank’s name kept', () => {
+    expect(sayError('This tank is archived')).toBe('This tank is archived');
+    setLanguage('es');
+    expect(sayError('This tank is archived')).toBe('Este tanque está archivado');
+    setLanguage('fr');
+    expect(sayError('Ridge water tank (HR-W1): this entry\'s key is used by another entry of the round')).toBe(
+      'Ridge water tank (HR-W1) : la clé de cette saisie est utilisée par une autre saisie de la tournée',
+    );
+  });
+
+  it('keeps the code of a reading the tank refuses with the entry, so the card says it in the language', () => {
+    // A 1,000 mm upright cylinder 1,500 mm tall: a 2,000 mm tube reading is above its top.
+    const refused = readingToVolumes({ geometry: { shape: 'vertical-cylinder', diameterMm: 1000, heightMm: 1500 }, datumOffsetMm: 0, outletHeightMm: 100, safeFillLevelMm: 1400, specificGravity: 1 }, { kind: 'sight-tube', readingMm: 2000 });
+    if (refused.ok) throw new Error('expected a refusal');
+    const draft = { entries: { '7': { tankId: 7, result: null, outboxSeq: null } } } as unknown as RoundDraft;
+    applyResults(draft, [{ tankId: 7, status: 'refused', reason: refused.reason, problem: refused.problem }]);
+    const result = draft.entries['7'].result!;
+    expect(checkMessage(result.problem!)).toBe(result.reason);
+    setLanguage('es');
+    expect(checkMessage(result.problem!)).toMatch(/^La lectura de 2000 mm deja el nivel 500 mm por encima/);
   });
 });

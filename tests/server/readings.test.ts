@@ -64,6 +64,8 @@ describe('POST /api/rounds', () => {
     const res = await call(worker, 'post', '/api/rounds', { farmId: org.farmIds[0], entries: [{ tankId: a.id, readingMm: 1600, idempotencyKey: key() }, { tankId: b.id, readingMm: 300, idempotencyKey: key() }] }).expect(201);
     expect(res.body.results[0]).toMatchObject({ status: 'refused' });
     expect(res.body.results[0].reason).toMatch(/above the top/);
+    // With its code, so a screen in another language words it (area checks).
+    expect(res.body.results[0].problem.code).toMatch(/^reading\.sightTube.*AboveTop$/);
     expect(res.body.results[1].status).toBe('stored');
     expect(await env.ctx.db.models.Reading.count({ where: { tankId: a.id } })).toBe(0);
   });
