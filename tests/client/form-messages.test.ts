@@ -26,6 +26,12 @@ describe('sayError for the schemas’ form refusals', () => {
     expect(sayError(message)).toBe('ajoutez au moins une ligne');
   });
 
+  it('says a tank editor’s fill line above the top of the tank in Spanish with the top’s figure', () => {
+    expect(sayError('must be at or below the top of the tank (1500 mm)')).toBe('must be at or below the top of the tank (1500 mm)');
+    setLanguage('es');
+    expect(sayError('must be at or below the top of the tank (1500 mm)')).toBe('debe estar a la altura de la parte superior del tanque (1500 mm) o por debajo');
+  });
+
   it('keeps a temperature bound’s figure in the language’s sentence', () => {
     setLanguage('fr');
     expect(sayError('must be 45 °C or less')).toBe('doit être de 45 °C au plus');
@@ -34,11 +40,12 @@ describe('sayError for the schemas’ form refusals', () => {
   });
 
   it.each(['es', 'fr'] as const)('has a sentence of its own in %s for every form refusal, none left in English', (language) => {
-    const english = FORM_MESSAGES.map((m) => sayError(m.replace('{max}', '10')));
-    expect(english).toEqual(FORM_MESSAGES.map((m) => m.replace('{max}', '10')));
+    const fill = (m: string) => m.replace('{max}', '10').replace('{top}', '1500');
+    const english = FORM_MESSAGES.map((m) => sayError(fill(m)));
+    expect(english).toEqual(FORM_MESSAGES.map(fill));
     setLanguage(language);
     for (const message of FORM_MESSAGES) {
-      const text = message.replace('{max}', '10');
+      const text = fill(message);
       expect(sayError(text), text).not.toBe(text);
     }
   });
