@@ -10,6 +10,7 @@ import type { TankSetup } from '@shared/readings';
 import { setLanguage } from '@/i18n';
 import { checkMessage } from '@/i18n/checkMessage';
 import { importErrorText } from '@/components/imports/importErrors';
+import { buildMapping, emptyDraft } from '@/components/imports/importMapping';
 import en from '@shared/i18n/messages/en/checks.json';
 
 afterEach(() => setLanguage('en'));
@@ -163,5 +164,22 @@ describe('importErrorText', () => {
   it('leaves any other text as the server wrote it', () => {
     setLanguage('es');
     expect(importErrorText('The import stopped (disk full); nothing from this file was kept. Retry it.')).toBe('The import stopped (disk full); nothing from this file was kept. Retry it.');
+  });
+});
+
+describe('buildMapping’s field messages', () => {
+  // A draft whose value column is the timestamp's: the schema says so under the value's column.
+  const draft = { ...emptyDraft('Europe/Madrid'), timestampColumn: 0, timestampFormat: 'iso8601' as const, valueColumn: 0 };
+
+  it('says the schema’s refusal in English as the schema writes it, and in Spanish and French', () => {
+    const built = buildMapping(draft, TANK);
+    expect(built.ok).toBe(false);
+    expect(!built.ok && built.errors['value.column']).toBe('is the same column as the timestamp');
+    setLanguage('es');
+    const spanish = buildMapping(draft, TANK);
+    expect(!spanish.ok && spanish.errors['value.column']).toBe('es la misma columna que la marca de tiempo');
+    setLanguage('fr');
+    const french = buildMapping(draft, TANK);
+    expect(!french.ok && french.errors['value.column']).toBe('est la même colonne que l’horodatage');
   });
 });

@@ -23,7 +23,7 @@ import {
 import type { TankSetup } from '@shared/readings';
 import { fieldErrors } from '@shared/schemas';
 import { LENGTH_UNITS, PRESSURE_UNITS, type LengthUnit, type PressureUnit, type TemperatureUnit } from '@shared/units';
-import { i18n } from '@/i18n';
+import { i18n, sayError } from '@/i18n';
 import { checkMessage } from '@/i18n/checkMessage';
 
 /** What the form holds: every choice, a column left empty as null. */
@@ -144,8 +144,9 @@ export function buildMapping(d: MappingDraft, tank: TankSetup | null): BuiltMapp
       const field =
         MAPPING_FIELDS.find((f) => path === f || path.startsWith(`${f}.`)) ??
         (path === 'timestamp.time' ? 'timestamp.time.column' : path.split('.')[0] === 'temperature' ? 'temperature.column' : undefined);
-      if (field) errors[field] ??= message;
-      else errors['value.column'] ??= `${path}: ${message}`;
+      // The schema writes English; the catalogue (area errors) says what it knows in the screens' language.
+      if (field) errors[field] ??= sayError(message);
+      else errors['value.column'] ??= `${path}: ${sayError(message)}`;
     }
     return { ok: false, errors };
   }
