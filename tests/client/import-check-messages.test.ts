@@ -161,9 +161,17 @@ describe('importErrorText', () => {
     expect(importErrorText(duplicate)).toBe('Ce fichier a déjà été importé dans cette cuve (import 12, 4 Dec 2026, 02:03) ; rien n’a été ajouté');
   });
 
+  it('says a mapped column missing from the file, with its parts, and a stopped import', () => {
+    const [missing] = reasonsOf('time,level\n2025-06-01T00:00:00Z,5\n', FILES[4][2]);
+    expect(importErrorText(missing.reason)).toBe(missing.reason);
+    setLanguage('es');
+    expect(importErrorText(missing.reason)).toBe('Columna de valor: La columna 5 (índice 4) no está en el archivo: la fila de encabezado tiene 2 columnas');
+    expect(importErrorText('The import stopped (disk full); nothing from this file was kept. Retry it.')).toBe('La importación se detuvo (disk full); no se conservó nada de este archivo. Vuelva a intentarlo.');
+  });
+
   it('leaves any other text as the server wrote it', () => {
     setLanguage('es');
-    expect(importErrorText('The import stopped (disk full); nothing from this file was kept. Retry it.')).toBe('The import stopped (disk full); nothing from this file was kept. Retry it.');
+    expect(importErrorText('Something else went wrong')).toBe('Something else went wrong');
   });
 });
 
