@@ -4,7 +4,7 @@
 // (clocks going back) is read by the order of the rows and comes back with a notice saying how. Pure:
 // the browser preview, the server's import and dry run and the property tests all feed it the records
 // papaparse gives.
-import { checkProblem, moment, type CheckProblem } from '../check-problems';
+import { checkProblem, moment, type CheckParam, type CheckProblem } from '../check-problems';
 import { readingToVolumes, type ReadingInput, type TankSetup } from '../readings/index';
 import { toSI, type LengthUnit, type PressureUnit } from '../units/index';
 import { isBlankRow, lineBreaksInside, stripBom, type LineBreak } from './csv';
@@ -106,6 +106,8 @@ export function mappingProblem(mapping: ImportMapping, tank: TankSetup): { field
 interface Column {
   index: number;
   label: string;
+  /** The label in a reason: the header text as it is, or "column N" said in the screens' language. */
+  said: CheckParam;
 }
 
 const describeRef = (ref: ColumnRef) => (typeof ref === 'number' ? `column ${ref + 1} (index ${ref})` : `"${ref}"`);
@@ -139,7 +141,8 @@ export function createImportReader({ mapping, tank, nowMs, newline = '\n', displ
           count: String(names.length),
         });
       }
-      return { index: ref, label: names?.[ref]?.trim() || `column ${ref + 1}` };
+      const named = names?.[ref]?.trim();
+      return { index: ref, label: named || `column ${ref + 1}`, said: named || checkProblem('imports.column.unnamed', { n: String(ref + 1) }) };
     }
     const want = ref.trim().toLowerCase();
     const index = (names ?? []).findIndex((n) => n.trim().toLowerCase() === want);
@@ -149,7 +152,7 @@ export function createImportReader({ mapping, tank, nowMs, newline = '\n', displ
         ? refusal(`The column ${describeRef(ref)} is not in the header row (it has ${found})`, 'column.notInHeader', { ref: refProblem(ref), found })
         : refusal(`The column ${describeRef(ref)} is not in the header row (it has no names)`, 'column.notInHeaderNoNames', { ref: refProblem(ref) });
     }
-    return { index, label: names![index].trim() };
+    return { index, label: names![index].trim(), said: names![index].trim() };
   };
 
   const isRefusal = (r: Column | Refusal): r is Refusal => 'reason' in r;
@@ -252,7 +255,7 @@ export function createImportReader({ mapping, tank, nowMs, newline = '\n', displ
       if (c.index < cells.length) return cells[c.index];
       const missing = refusal(`Missing: the row has ${cells.length} field${cells.length === 1 ? '' : 's'}, so there is no ${c.label}`, cells.length === 1 ? 'row.missingOne' : 'row.missingMany', {
         count: String(cells.length),
-        column: c.label,
+        column: c.said,
       });
       problems.push({ line, field, column: c.label, value: '', ...missing });
       return null;

@@ -120,6 +120,14 @@ describe('checkMessage for logger files', () => {
     );
   });
 
+  it('names a column of a file without a header row in the language when a row is too short for it', () => {
+    const mapping: ImportMappingInput = { timestamp: { column: 0, format: 'iso8601' }, value: { column: 1, kind: 'level', unit: 'mm' }, hasHeader: false };
+    const [short] = reasonsOf('2025-06-01T00:00:00Z\n', mapping);
+    expect(checkMessage(short.problem)).toBe('Missing: the row has 1 field, so there is no column 2');
+    setLanguage('es');
+    expect(checkMessage(short.problem)).toBe('Falta: la fila tiene 1 campo, así que no llega a la columna 2');
+  });
+
   it('says a decimal point in a decimal-comma file and a missing column in French', () => {
     setLanguage('fr');
     const [point] = reasonsOf('date,time,level\n01/04/2026,06:00 AM,500.5\n', SPLIT);
