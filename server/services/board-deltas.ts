@@ -53,6 +53,8 @@ const SENT_TOPIC = 'board-sent';
 const builtKey = (organisationId: number) => `brimstock:board:built:${organisationId}`;
 /** How long a build waits for the bus to bring the previous build's farm changes before reading the farms whole. */
 const CATCH_UP_MS = 100;
+/** How often the count of builds that read the farms whole is logged (when there were any). */
+const MISSES_LOG_MS = 60_000;
 
 /** Builds the deltas of one server: keeps each organisation's farms as last sent to compare new reads with. */
 export function createDeltaBuilder(ctx: AppContext) {
@@ -64,6 +66,7 @@ export function createDeltaBuilder(ctx: AppContext) {
   const turns = redis ? redisTurns(redis) : null;
   /** Per organisation, the last build (of any process) whose farm changes the kept farms include. */
   const applied = new Map<number, number>();
+  const misses = { builds: 0, missed: 0, since: Date.now() };
 
   const keepFarm = (farms: Map<number, KeptFarm>, fresh: FarmBoard, readAt: number) => {
     const tiles = new Map(fresh.tanks.map((tile) => [tile.tankId, { tile, shown: shownOf(tile) }]));
@@ -95,7 +98,16 @@ export function createDeltaBuilder(ctx: AppContext) {
     const n = await withinMs(redis!.incr(builtKey(organisationId)), 1_000, 'the board build count');
     const until = Date.now() + CATCH_UP_MS;
     while ((applied.get(organisationId) ?? 0) < n - 1 && Date.now() < until) await new Promise((r) => setTimeout(r, 2));
-    if ((applied.get(organisationId) ?? 0) !== n - 1) kept.get(organisationId)?.clear();
+    misses.builds++;
+    if ((applied.get(organisationId) ?? 0) !== n - 1) {
+      misses.missed++;
+      kept.get(organisationId)?.clear();
+    }
+    if (Date.now() - misses.since > MISSES_LOG_MS) {
+      // Each miss makes a bigger delta (whole farms): a bus that keeps missing shows here.
+      if (misses.missed) ctx.logger.warn({ builds: misses.builds, missed: misses.missed }, 'board deltas read whole farms after missing another process build');
+      Object.assign(misses, { builds: 0, missed: 0, since: Date.now() });
+    }
     applied.set(organisationId, n);
     return n;
   };

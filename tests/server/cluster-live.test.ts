@@ -165,7 +165,9 @@ describe('three server processes on one Redis', () => {
     expect(after.status).toBe(200);
     expect(after.headers.get('etag')).not.toBe(beforeTag);
     const onBoard = ((await after.json()) as StockBoard).farms.flatMap((f) => f.tanks).find((t) => t.tankId === tankId)!;
-    expect({ ...onBoard, daysOfCover: null }).toEqual({ ...tile, daysOfCover: null });
+    // The reading's own figures (the use rate may have been worked out again in the background meanwhile).
+    const figures = (t: typeof tile) => ({ levelMm: t.levelMm, grossL: t.grossL, usableL: t.usableL, takenAt: t.takenAt });
+    expect(figures(onBoard)).toEqual(figures(tile));
     socket.close();
   }, 60_000);
 
