@@ -9,7 +9,7 @@ import { createImportReader, csvParseOptions, importMappingSchema, mappingProble
 import type { TankSetup } from '@shared/readings';
 import { setLanguage } from '@/i18n';
 import { checkMessage } from '@/i18n/checkMessage';
-import { importErrorText } from '@/components/imports/importErrors';
+import { importErrorText, importReasonText } from '@/components/imports/importErrors';
 import { buildMapping, emptyDraft } from '@/components/imports/importMapping';
 import en from '@shared/i18n/messages/en/checks.json';
 
@@ -197,5 +197,28 @@ describe('buildMapping’s field messages', () => {
     setLanguage('fr');
     const french = buildMapping(draft, TANK);
     expect(!french.ok && french.errors['value.column']).toBe('est la même colonne que l’horodatage');
+  });
+});
+
+describe('importReasonText for lines stored without their code', () => {
+  it('keeps every stored English reason and note exactly', () => {
+    for (const s of all) expect(importReasonText(s.reason)).toBe(s.reason);
+  });
+
+  it('says stored reasons in Spanish, the parts inside too, and most of them at all', () => {
+    setLanguage('es');
+    expect(importReasonText('Value "ERR" is not a number')).toBe('El valor "ERR" no es un número');
+    expect(importReasonText('Timestamp "2099-09-05T05:00:00Z" is in the future (after 4 Dec 2026, 02:03, the farm\'s time now)')).toBe(
+      'La marca de tiempo "2099-09-05T05:00:00Z" está en el futuro (después de 4 Dec 2026, 02:03, la hora actual de la finca)',
+    );
+    const said = all.map((s) => importReasonText(s.reason));
+    const translated = said.filter((text, i) => text !== all[i].reason).length;
+    expect(translated / all.length).toBeGreaterThan(0.9);
+  });
+
+  it('prefers the code when the server sent one', () => {
+    const [bad] = reasonsOf('time,level,temp\n2025-06-01T06:00:00Z,lots,10\n', ISO);
+    setLanguage('fr');
+    expect(importReasonText(bad.reason, bad.problem)).toBe('La valeur « lots » n’est pas un nombre');
   });
 });

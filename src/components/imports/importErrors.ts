@@ -7,7 +7,9 @@ import { IMPORT_POLICY_TITLES, type ImportPolicy } from '@shared/imports';
 import { knownMessages } from '@shared/i18n/known-messages';
 import { formatNumber } from '@shared/units';
 import en from '@shared/i18n/messages/en/checks.json';
+import type { CheckProblem } from '@shared/check-problems';
 import { i18n } from '@/i18n';
+import { checkMessage } from '@/i18n/checkMessage';
 import { policyLabel } from './importLabels';
 
 const fileMessages = knownMessages('checks.imports.file', en.imports.file);
@@ -40,4 +42,46 @@ export function importErrorText(error: string | null): string | null {
     named[name] = policy ? policyLabel(policy).title : name === 'rejected' || name === 'rows' ? sayCount(value) : value;
   }
   return i18n.global.t(known.key, named);
+}
+
+// A stored line's reason (kept in English, without its code, by imports read before codes came along).
+const lineMessages = knownMessages('checks.imports', { cell: en.imports.cell, number: en.imports.number, row: en.imports.row, what: en.imports.what, column: en.imports.column, note: en.imports.note, file: en.imports.file });
+const readingMessages = knownMessages('checks.reading', en.reading);
+/** Values of a reason that are reasons or descriptions themselves. */
+const NESTED = new Set(['what', 'detail', 'gap', 'ref']);
+
+/**
+ * `text` read back as a sentence of area checks and said in `locale`, its parts too; null when it is none. A
+ * reading of the text counts only when its parts are sentences too and saying it in English gives the text again.
+ */
+function sayLine(text: string, locale: string, depth = 0): string | null {
+  if (depth > 3) return null;
+  for (const known of [readingMessages.match(text), lineMessages.match(text)]) {
+    if (!known) continue;
+    const english: Record<string, string> = {};
+    const said: Record<string, string> = {};
+    let whole = true;
+    for (const [name, value] of Object.entries(known.named)) {
+      if (!NESTED.has(name)) {
+        english[name] = said[name] = value;
+        continue;
+      }
+      const inner = sayLine(value, 'en', depth + 1);
+      if (inner !== value) whole = false;
+      english[name] = value;
+      said[name] = sayLine(value, locale, depth + 1) ?? value;
+    }
+    if (whole && i18n.global.t(known.key, english, { locale: 'en' }) === text) return i18n.global.t(known.key, said, { locale });
+  }
+  return null;
+}
+
+/**
+ * A refused line's reason in the screens' language: from its code when the server sent one, else the stored
+ * English read back as its sentence, used only when saying that sentence in English gives the stored text
+ * again (a pattern that read it wrongly would not); figures and moments inside stay as stored. Otherwise as stored.
+ */
+export function importReasonText(reason: string, problem?: CheckProblem): string {
+  if (problem) return checkMessage(problem);
+  return sayLine(reason, i18n.global.locale.value) ?? reason;
 }
