@@ -1,7 +1,9 @@
 // Development and test stand-in for the hourly forecast service: a node:http server on 127.0.0.1
 // that answers GET /v1/forecast like the real one, from a scenario file in samples/weather moved to
-// start at today's midnight (UTC), so the demo's frost is always tomorrow night. Started by
-// scripts/tasks.ts and the tests only, like the mail receiver; never imported by the server itself.
+// start at today's midnight (UTC) by the fake's clock (the machine's, or one a test gives it), so the
+// demo's frost is always the coming night, before dawn tomorrow: inside the 48 hours the frost check
+// looks at whatever the time of day. Started by scripts/tasks.ts and the tests only, like the mail
+// receiver; never imported by the server itself.
 // PUT /fake/scenario { "name": … } switches what it answers: a file's name, or down (503),
 // slow (the default forecast after slowMs), garbage (200 with text that is no forecast); GET /fake/requests lists what was asked.
 import { createServer } from 'node:http';
@@ -10,7 +12,7 @@ import { join, resolve } from 'node:path';
 
 /** What the fake answers besides a scenario file. */
 export const FAKE_FAULTS = ['down', 'slow', 'garbage'] as const;
-/** The scenario the fake starts with: the demo farm's frost tomorrow night. */
+/** The scenario the fake starts with: the demo farm's frost before dawn tomorrow. */
 export const DEFAULT_WEATHER_SCENARIO = 'frost-tomorrow';
 
 const samplesDir = resolve(import.meta.dirname, '../../samples/weather');
@@ -26,8 +28,8 @@ export function shiftedScenario(name: string, nowMs: number): Record<string, unk
   return { ...answer, hourly: { ...doc.hourly, time } };
 }
 
-/** Starts the fake forecast service; resolves once it listens (port 0 picks a free one). */
-export async function startFakeWeather(opts: { port: number; scenario?: string; slowMs?: number }): Promise<{ port: number; url: string; close(): Promise<void> }> {
+/** Starts the fake forecast service (`clock` in epoch ms, default the machine's); resolves once it listens (port 0 picks a free one). */
+export async function startFakeWeather(opts: { port: number; scenario?: string; slowMs?: number; clock?: () => number }): Promise<{ port: number; url: string; close(): Promise<void> }> {
   let scenario = opts.scenario ?? DEFAULT_WEATHER_SCENARIO;
   const requests: { at: string; latitude: string | null; longitude: string | null; scenario: string }[] = [];
   const timers = new Set<NodeJS.Timeout>();
@@ -60,7 +62,9 @@ export async function startFakeWeather(opts: { port: number; scenario?: string; 
     if (url.pathname !== '/v1/forecast' || req.method !== 'GET') return send(404, { error: true, reason: 'Not found' });
     const latitude = url.searchParams.get('latitude');
     const longitude = url.searchParams.get('longitude');
-    requests.push({ at: new Date().toISOString(), latitude, longitude, scenario });
+    // One reading of the clock per request: the hours it answers and the time it logs agree.
+    const nowMs = (opts.clock ?? Date.now)();
+    requests.push({ at: new Date(nowMs).toISOString(), latitude, longitude, scenario });
     const lat = Number(latitude);
     const lon = Number(longitude);
     if (latitude === null || longitude === null || !Number.isFinite(lat) || !Number.isFinite(lon) || Math.abs(lat) > 90 || Math.abs(lon) > 180) {
@@ -70,7 +74,7 @@ export async function startFakeWeather(opts: { port: number; scenario?: string; 
     if (scenario === 'garbage') return send(200, { hourly: { time: ['yesterday-ish'], temperature_2m: ['cold'] } });
     // Slow answers the default forecast, too late for a client that keeps to its time limit.
     const file = scenario === 'slow' ? DEFAULT_WEATHER_SCENARIO : scenario;
-    const answer = () => send(200, { ...shiftedScenario(file, Date.now()), latitude: lat, longitude: lon });
+    const answer = () => send(200, { ...shiftedScenario(file, nowMs), latitude: lat, longitude: lon });
     if (scenario === 'slow') {
       const timer = setTimeout(() => {
         timers.delete(timer);

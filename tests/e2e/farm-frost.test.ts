@@ -1,5 +1,5 @@
 // Browser test of frost ahead on the demo: the fake forecast service (started by tests/support/global-app.ts)
-// answers with samples/weather/frost-tomorrow.json, so Hollin Ridge has a frost tomorrow night. The farm
+// answers with samples/weather/frost-tomorrow.json, so Hollin Ridge has a frost before dawn tomorrow. The farm
 // page shows the 48-hour chart with the threshold line and the frost with its caution; the board shows the
 // frost-forecast flag with its own icon and words. Screenshots at 1280 px and 360 px.
 import { afterEach, describe, expect, inject, it } from 'vitest';

@@ -57,7 +57,8 @@ describe('frost ahead', () => {
     expect(r).toEqual({ changed: true, problem: null });
     expect(await frostFlags()).toEqual(['Tank FC-1 (FC-1)', 'Tank FF-1 (FF-1)', 'Tank FW-1 (FW-1)']);
     const flags = (await manager.get(`/api/flags?farmId=${farmId}&kind=frost-ahead`).expect(200)).body as Flag[];
-    // samples/weather/frost-tomorrow.json: coldest hour -1.8 °C at 04:00 UTC the day after tomorrow (the same hour in Dublin, on UTC in winter; an hour later in summer time).
+    // samples/weather/frost-tomorrow.json: coldest hour -1.8 °C at 04:00 UTC tomorrow, inside the 48 hours at any time of day (tests/server/weather-fake.test.ts);
+    // the same hour in Dublin, on UTC in winter, an hour later in summer time.
     expect(flags.every((f) => f.value === -1.8)).toBe(true);
     expect(flags.find((f) => f.subjectName.includes('FW-1'))!.message).toMatch(/air forecast to fall to -1\.8 °C around \w{3} \d{1,2} \w{3}, 0[45]:00 \(under 2 °C\)/);
     const frost = await frostOf();
