@@ -12,6 +12,7 @@ import type { Farm, Flag } from '../models';
 import { ForecastUnavailable, fetchHourlyAirForecast } from '../weather/client';
 import { assertFarmAccess } from './access';
 import { mailRaisedFlags } from './flag-mail';
+import { queueRaisedFlagTexts } from './flag-texts';
 import { reconcile } from './flags';
 
 const located = (f: Farm): f is Farm & { latitude: number; longitude: number } => f.latitude !== null && f.latitude !== undefined && f.longitude !== null && f.longitude !== undefined;
@@ -34,7 +35,9 @@ async function reconcileFrostFlags(ctx: AppContext, farm: Farm, frost: { atMs: n
     await f.update({ status: 'cleared', activeKey: null, clearedAt: new Date() });
     changed = true;
   }
+  // Like every other flag: a mail and a text to those who chose one per flag.
   await mailRaisedFlags(ctx, farm.organisationId, raised);
+  await queueRaisedFlagTexts(ctx, farm.organisationId, raised);
   return changed;
 }
 

@@ -186,7 +186,8 @@ describe('the round in Spanish', () => {
       await page.getByTestId('round-submit').click();
       await expect.poll(() => page.getByTestId('round-summary').innerText(), { timeout: 8000 }).toContain(`${codes.length} registradas`);
       for (const code of codes) expect(await page.getByTestId(`round-result-${code}`).innerText()).toBe('Registrada');
-      expect(await page.getByTestId('round-announcement').innerText()).toBe(`Ronda enviada: ${codes.length} registradas. Ronda registrada.`);
+      // The live region is emptied and then filled a tick after the summary shows, so it is polled.
+      await expect.poll(() => page.getByTestId('round-announcement').innerText()).toBe(`Ronda enviada: ${codes.length} registradas. Ronda registrada.`);
       await page.waitForTimeout(400);
       expect(await englishOnPage(page, english, data)).toEqual([]);
       await page.evaluate(() => window.scrollTo(0, 0));

@@ -7,6 +7,8 @@ import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import type { FarmFrost, Flag } from '@shared/schemas';
 import { startFakeWeather } from '../../server/weather/fake';
 import { checkAllFarmsFrost, checkFarmFrost } from '../../server/services/frost';
+import { drainTextQueue } from '../../server/services/flag-texts';
+import { readFakeTexts } from '../../server/sms/outbox';
 import { useTestApp } from '../support/db';
 import { call, makeOrganisation, signedIn, type Agent, type OrgFixture } from '../support/fixtures';
 import { makeTank } from '../support/tanks';
@@ -130,5 +132,33 @@ describe('frost ahead', () => {
     expect(await frostFlags()).toEqual([]);
     expect(((await (await fetch(`${weather.url}/fake/requests`)).json()) as { requests: unknown[] }).requests.length).toBe(asked);
     expect(await frostOf()).toMatchObject({ located: false, stale: false, hours: [] });
+  });
+  it('texts a raised frost flag at once to those who chose a text per flag, once, and to nobody else', async () => {
+    const other = await makeOrganisation(env, { farms: 1 });
+    const [managerPhone, ownerPhone] = ['+61491570901', '+61491570902']; // the Australian range kept for drama (ACMA, recalled from memory)
+    const otherManager = await signedIn(env, other.users.manager.email);
+    const otherOwner = await signedIn(env, other.users.owner.email);
+    await call(otherManager, 'patch', '/api/auth/me', { phone: managerPhone, flagTexts: 'immediate' }).expect(200);
+    await call(otherOwner, 'patch', '/api/auth/me', { phone: ownerPhone, flagTexts: 'off' }).expect(200);
+    await call(otherManager, 'patch', `/api/farms/${other.farmIds[0]}`, { latitude: 52.5, longitude: -8.1 }).expect(200);
+    const geometry = { shape: 'vertical-cylinder', diameterMm: 1000, heightMm: 1500 };
+    const tank = (await call(otherManager, 'post', '/api/tanks', { farmId: other.farmIds[0], name: 'Yard trough feed', code: 'YT-1', contents: 'water', geometry }).expect(201)).body as { id: number };
+    const textsTo = (phone: string) => readFakeTexts(env.config.outboxDir).filter((t) => t.to === phone);
+    const farm = async () => (await env.ctx.db.models.Farm.findByPk(other.farmIds[0]))!;
+
+    await scenario('frost-tomorrow');
+    expect((await checkFarmFrost(env.ctx, await farm())).changed).toBe(true);
+    await drainTextQueue(env.ctx);
+    const mine = textsTo(managerPhone);
+    expect(mine).toHaveLength(1);
+    expect(mine[0].body).toMatch(/^Brimstock Frost forecast, Farm 1 \w+: Yard trough feed: air forecast to fall to -1\.8 °C/);
+    expect(mine[0].body.endsWith(`${env.config.publicUrl}/tanks/${tank.id}`)).toBe(true);
+    expect(mine[0].body.length).toBeLessThanOrEqual(160);
+    expect(textsTo(ownerPhone)).toHaveLength(0);
+
+    // The next check finds the same frost: the flag stays, no second text.
+    expect((await checkFarmFrost(env.ctx, await farm())).changed).toBe(false);
+    await drainTextQueue(env.ctx);
+    expect(textsTo(managerPhone)).toHaveLength(1);
   });
 });
