@@ -71,7 +71,8 @@ function openClient(base: string, cookie: string): Promise<Client> {
           socket.on('board:delta', (delta: BoardDelta) => {
             const at = Date.now();
             pushes++;
-            for (const farm of delta.farms) for (const tile of farm.tanks) note(tile.tankId, tile.takenAt, at, true);
+            // A tile's reading time travels when it changed.
+            for (const farm of delta.farms) for (const tile of farm.tanks) if (tile.takenAt !== undefined) note(tile.tankId, tile.takenAt, at, true);
           });
           resolve(client);
         })

@@ -1,7 +1,7 @@
 // socket.io: the handshake is authenticated with the API's own session; the server (never the
 // client) puts each socket in the rooms of the farms its user may see and in the room of that
 // set of farms. Farms whose readings commit are gathered and pushed at most every THROTTLE_MS: one
-// numbered delta per farm set (only the tiles that changed and the totals they move), built once and
+// numbered delta per farm set (only what changed of the tiles; receivers work the totals out), built once and
 // sent to the set's room, however many commits came meanwhile. On each connection the socket is told
 // where its set's stream stands (`board:stream`); the client fetches GET /api/board and applies the
 // deltas numbered after the board's. Event names and payloads come from shared/schemas/board-delta.ts.

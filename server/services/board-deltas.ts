@@ -1,7 +1,7 @@
 // The live board's delta stream: each farm set (the farms one person may see) has a numbered stream
-// of deltas. A delta holds the tank tiles that changed since the last one, the totals of the farms
-// they are on and the totals across the set; it is built once per change and farm set and sent to
-// the set's socket.io room. GET /api/board says up to which number it includes (its `stream`), so a
+// of deltas. A delta holds what changed of each tank tile since the last one (the fields that
+// changed; a new tile whole); the receiver works the totals out from its tiles. It is built once per
+// change and farm set and sent to the set's socket.io room. GET /api/board says up to which number it includes (its `stream`), so a
 // client applies the deltas after that in order and fetches the board again on a gap.
 //
 // With several server processes (Redis), the process where a change happened builds its delta. The
@@ -10,8 +10,7 @@
 // to its own copy of the farms, so whichever process builds next compares with what the clients
 // were sent. A process that missed a build (the bus dropped it, it started late) forgets its copy
 // of that organisation's farms and reads them whole once.
-import { totalsOf } from '@shared/board';
-import { BOARD_DELTA_VERSION, type BoardDelta, type FarmBoard, type FarmDelta, type TankTile } from '@shared/schemas';
+import { BOARD_DELTA_VERSION, tankTileSchema, type BoardDelta, type FarmBoard, type FarmDelta, type TankTile, type TankTilePatch } from '@shared/schemas';
 import { clusterOf } from '../cluster';
 import { withinMs } from '../cluster/redis';
 import { redisTurns } from '../cluster/turns';
@@ -25,11 +24,10 @@ export interface WatchedSet {
   farmIds: ReadonlySet<number>;
 }
 
-/** A farm as last sent: its name and totals, and each tile with what it showed. */
+/** A farm as last sent: its name and each tile. */
 interface KeptFarm {
   name: string;
-  totals: FarmBoard['totals'];
-  tiles: Map<number, { tile: TankTile; shown: string }>;
+  tiles: Map<number, TankTile>;
   readAt: number;
 }
 
@@ -39,8 +37,22 @@ interface KeptFarm {
  */
 const KEPT_FARM_MS = 30_000;
 
-// Days of cover count down with the clock: a tile whose other figures stayed is not a change.
-const shownOf = (tile: TankTile) => JSON.stringify({ ...tile, daysOfCover: null });
+/**
+ * What changed of a tile since it was last sent: the fields whose value differs (the whole tile when
+ * it was not sent before), or null when nothing did. Days of cover count down with the clock: they
+ * go along with another change, never alone.
+ */
+export function tilePatch(before: TankTile | undefined, tile: TankTile): TankTilePatch | null {
+  if (!before) return tile;
+  const patch: Record<string, unknown> = {};
+  let changed = false;
+  for (const key of Object.keys(tile) as (keyof TankTile)[]) {
+    if (tile[key] === before[key] || key === 'tankId') continue;
+    patch[key] = tile[key];
+    if (key !== 'daysOfCover') changed = true;
+  }
+  return changed ? { tankId: tile.tankId, ...patch } : null;
+}
 
 /** What one build sent, on the bus: its number in the organisation's count and its farm changes (null: lost, forget the farms). */
 interface SentFarms {
@@ -69,8 +81,7 @@ export function createDeltaBuilder(ctx: AppContext) {
   const misses = { builds: 0, missed: 0, since: Date.now() };
 
   const keepFarm = (farms: Map<number, KeptFarm>, fresh: FarmBoard, readAt: number) => {
-    const tiles = new Map(fresh.tanks.map((tile) => [tile.tankId, { tile, shown: shownOf(tile) }]));
-    farms.set(fresh.farmId, { name: fresh.name, totals: fresh.totals, tiles, readAt });
+    farms.set(fresh.farmId, { name: fresh.name, tiles: new Map(fresh.tanks.map((tile) => [tile.tankId, tile])), readAt });
   };
 
   /** Another process's build: its farm changes applied to the kept farms, or the farms forgotten when one was missed. */
@@ -85,8 +96,16 @@ export function createDeltaBuilder(ctx: AppContext) {
       const farm = farms.get(change.farmId);
       if (!farm) continue;
       farm.name = change.name;
-      farm.totals = change.totals;
-      for (const tile of change.tanks) farm.tiles.set(tile.tankId, { tile, shown: shownOf(tile) });
+      for (const patch of change.tanks) {
+        const tile = farm.tiles.get(patch.tankId);
+        // A patch of a tile this process never had: it reads the farm whole next time.
+        if (tile) farm.tiles.set(patch.tankId, { ...tile, ...patch });
+        else {
+          const whole = tankTileSchema.safeParse(patch);
+          if (whole.success) farm.tiles.set(patch.tankId, whole.data);
+          else farm.readAt = 0;
+        }
+      }
       for (const id of change.removedTankIds) farm.tiles.delete(id);
     }
     for (const id of removedFarmIds) farms.delete(id);
@@ -195,25 +214,18 @@ export function createDeltaBuilder(ctx: AppContext) {
       }
       keepFarm(farms, fresh, now);
       const tiles = farms.get(farmId)!.tiles;
-      const changedTiles = [...tiles.values()].filter((t) => before?.tiles.get(t.tile.tankId)?.shown !== t.shown).map((t) => t.tile);
+      const patches = fresh.tanks.flatMap((tile) => tilePatch(before?.tiles.get(tile.tankId), tile) ?? []);
       const removedTankIds = before ? [...before.tiles.keys()].filter((id) => !tiles.has(id)) : [];
-      const totalsMoved = !before || before.name !== fresh.name || JSON.stringify(before.totals) !== JSON.stringify(fresh.totals);
-      if (changedTiles.length || removedTankIds.length || totalsMoved) farmDeltas.set(farmId, { farmId, name: fresh.name, totals: fresh.totals, tanks: changedTiles, removedTankIds });
+      if (patches.length || removedTankIds.length || !before || before.name !== fresh.name) farmDeltas.set(farmId, { farmId, name: fresh.name, tanks: patches, removedTankIds });
     }
     if (n !== null) cluster.bus.publish(SENT_TOPIC, { organisationId, n, farms: [...farmDeltas.values()], removedFarmIds: [...removedFarms] } satisfies SentFarms);
 
     return numbered.map(({ set, seq }) => {
-      const shown = [...set.farmIds].flatMap((id) => {
-        const farm = farms.get(id);
-        return farm ? [farm] : [];
-      });
-      shown.sort((a, b) => a.name.localeCompare(b.name));
       const delta: BoardDelta = {
         version: BOARD_DELTA_VERSION,
         epoch,
         seq,
         generatedAt: board.generatedAt,
-        totals: totalsOf(shown.flatMap((f) => [...f.tiles.values()].map((t) => t.tile))),
         farms: [...set.farmIds].flatMap((id) => farmDeltas.get(id) ?? []),
         removedFarmIds: [...set.farmIds].filter((id) => removedFarms.has(id)),
       };

@@ -1,15 +1,16 @@
 // The live board's socket messages, as zod schemas: the server's socket.io `Server` and the client's
 // `Socket` take their event maps from here, and the client checks each board delta against its schema
-// before applying it. A delta carries only the tank tiles that changed and the totals they move
-// (each changed farm's and the whole farm set's), numbered per farm set.
+// before applying it. A delta carries, numbered per farm set, only what changed of each tank tile
+// (a tile new to the board whole); the totals, of a farm and across the set, are worked out from the
+// tiles by the receiver with the same shared function the server uses (shared/board).
 import { z } from 'zod';
 import type { ContentsTotal, TankTile } from './board';
 import { FLAG_KINDS, FLAG_STATUSES, type Flag } from './flags';
 import { IMPORT_STATUSES, type ImportProgress } from './imports';
 import { TANK_CONTENTS } from './tanks';
 
-/** The delta format's version: a client that meets another one fetches the board instead. */
-export const BOARD_DELTA_VERSION = 1;
+/** The delta format's version: a client that meets another one fetches the board instead (2: tiles as changed fields, no totals). */
+export const BOARD_DELTA_VERSION = 2;
 
 const isoInstant = z.string();
 
@@ -60,12 +61,19 @@ export const boardStreamSchema = z.object({
 /** A farm set's stream position: sent on each (re)connection and inside GET /api/board. */
 export type BoardStreamPosition = z.infer<typeof boardStreamSchema>;
 
-/** What changed on one farm: its tiles that changed, the tanks that left it, its new totals. */
+/**
+ * What changed of one tank's tile: its id and the fields whose value changed since the last delta
+ * (every field when the tile is new to the board).
+ */
+export const tankTilePatchSchema = tankTileSchema.partial().extend({ tankId: z.number().int() });
+/** One tile's change in a board delta. */
+export type TankTilePatch = z.infer<typeof tankTilePatchSchema>;
+
+/** What changed on one farm: its name, what changed of its tiles, the tanks that left it. */
 export const farmDeltaSchema = z.object({
   farmId: z.number().int(),
   name: z.string(),
-  totals: z.array(contentsTotalSchema),
-  tanks: z.array(tankTileSchema),
+  tanks: z.array(tankTilePatchSchema),
   removedTankIds: z.array(z.number().int()),
 });
 /** One farm's part of a board delta. */
@@ -74,8 +82,6 @@ export type FarmDelta = z.infer<typeof farmDeltaSchema>;
 /** Socket event `board:delta`: the next numbered change of a farm set's board. */
 export const boardDeltaSchema = boardStreamSchema.extend({
   generatedAt: isoInstant,
-  /** Totals across every farm of the set after this change. */
-  totals: z.array(contentsTotalSchema),
   farms: z.array(farmDeltaSchema),
   /** Farms that left the board (archived, or their last tank archived). */
   removedFarmIds: z.array(z.number().int()),

@@ -51,10 +51,14 @@ export const useBoardStore = defineStore('board', () => {
     error.value = null;
   }
 
-  function applyInOrder(delta: BoardDelta): void {
-    farms.value = foldDelta(farms.value, delta);
+  /** Applies the next delta of the stream; false when it does not fit the board shown (fetch again). */
+  function applyInOrder(delta: BoardDelta): boolean {
+    const folded = foldDelta(farms.value, delta);
+    if (!folded) return false;
+    farms.value = folded;
     stream.value = { version: delta.version, epoch: delta.epoch, seq: delta.seq };
     updatedAt.value = delta.generatedAt;
+    return true;
   }
 
   /**
@@ -77,7 +81,7 @@ export const useBoardStore = defineStore('board', () => {
       waiting.push(delta);
       return void refetch();
     }
-    applyInOrder(delta);
+    if (!applyInOrder(delta)) void refetch();
   }
 
   /** The stream position the socket was last told on connecting, and whether it has connected since the board was first fetched. */
@@ -117,9 +121,10 @@ export const useBoardStore = defineStore('board', () => {
         const board = answer.notModified && fetched ? fetched.board : (answer as { body: StockBoard }).body;
         if (!answer.notModified) fetched = answer.etag ? { board, etag: answer.etag } : null;
         applyBoard(board);
-        const { next, gap } = followingDeltas(waiting, board.stream.epoch, board.stream.seq);
+        const following = followingDeltas(waiting, board.stream.epoch, board.stream.seq);
         waiting = [];
-        for (const d of next) applyInOrder(d);
+        // A delta that does not fit the board (a tile it changes is not there) leaves a gap too.
+        const gap = following.gap || !following.next.every((d) => applyInOrder(d));
         fetching = null;
         // Something was lost in between (a delta missing, or the socket was told of a later one than the board and the deltas reach): fetch once more.
         const behind = told !== null && told.epoch === board.stream.epoch && told.seq > stream.value!.seq;

@@ -1,6 +1,6 @@
 import { beforeEach, describe, expect, it, vi } from 'vitest';
 import { createPinia, setActivePinia } from 'pinia';
-import { BOARD_DELTA_VERSION, type BoardDelta, type StockBoard, type TankTile } from '@shared/schemas';
+import { BOARD_DELTA_VERSION, type BoardDelta, type StockBoard, type TankTile, type TankTilePatch } from '@shared/schemas';
 import type { ConditionalAnswer } from '@/api/http';
 import * as boardApi from '@/api/board';
 import { useBoardStore } from '@/stores/board';
@@ -24,15 +24,14 @@ const ridge = () =>
 const ridgeTile = (grossL: number, usableL: number): TankTile =>
   makeTile({ tankId: 4, code: 'RB-W1', capacityL: 5_000, usableCapacityL: 4_500, grossL, usableL, percentOfUsableCapacity: (usableL / 4_500) * 100, takenAt: '2026-03-02T10:00:00.000Z' });
 
-/** A delta of the test stream; each farm with its own totals left empty (the store recomputes totals across farms). */
-function delta(seq: number, farms: { farmId: number; name: string; tanks: TankTile[]; removedTankIds?: number[] }[]): BoardDelta {
+/** A delta of the test stream: each farm with its tiles whole or as changed fields (the store works out every total). */
+function delta(seq: number, farms: { farmId: number; name: string; tanks: TankTilePatch[]; removedTankIds?: number[] }[]): BoardDelta {
   return {
     version: BOARD_DELTA_VERSION,
     epoch: 'test-epoch',
     seq,
     generatedAt: '2026-03-02T10:00:01.000Z',
-    totals: [],
-    farms: farms.map((f) => ({ totals: [], removedTankIds: [], ...f })),
+    farms: farms.map((f) => ({ removedTankIds: [], ...f })),
     removedFarmIds: [],
   };
 }
@@ -77,6 +76,33 @@ describe('useBoardStore', () => {
     expect(store.farms.find((f) => f.farmId === 12)!.tanks[0]!.usableL).toBe(3_900);
     expect(waterOf(store)).toMatchObject({ usableL: 5_500 + 900 + 3_900, grossL: 6_000 + 1_000 + 4_000, percentOfUsableCapacity: (10_300 / 18_000) * 100 });
     expect(store.farms.find((f) => f.farmId === 11)!.tanks.map((t) => t.code)).toEqual(['CS-W1', 'CS-W2', 'CS-F1']);
+  });
+
+  it('lays a tile\'s changed fields over it and works the farm\'s totals out again from its tiles', () => {
+    const store = useBoardStore();
+    store.applyBoard(makeBoard([creek(), ridge()], undefined, 4));
+
+    // Only the reading's fields of CS-W2 changed: name, code, capacities stay as the board had them.
+    store.applyDelta(delta(5, [{ farmId: 11, name: 'Creek site', tanks: [{ tankId: 2, grossL: 4_000, usableL: 3_800, percentOfUsableCapacity: (3_800 / 4_500) * 100, takenAt: '2026-03-02T10:00:00.000Z' }] }]));
+
+    const creekNow = store.farms.find((f) => f.farmId === 11)!;
+    expect(creekNow.tanks.find((t) => t.tankId === 2)).toMatchObject({ code: 'CS-W2', capacityL: 5_000, usableCapacityL: 4_500, grossL: 4_000, usableL: 3_800, takenAt: '2026-03-02T10:00:00.000Z' });
+    // The farm's own totals (shown on its row) follow its tiles, as the server works them out for GET /api/board.
+    expect(creekNow.totals.find((t) => t.contents === 'water')).toMatchObject({ usableL: 5_500 + 3_800, grossL: 6_000 + 4_000, tanks: 2, oldestReadingAt: '2026-03-02T08:00:00.000Z' });
+    expect(waterOf(store).usableL).toBe(5_500 + 3_800 + 2_400);
+    expect(api.fetchBoardIfChanged).not.toHaveBeenCalled();
+  });
+
+  it('fetches the board again when a delta changes a tile it does not have and does not carry it whole', async () => {
+    api.fetchBoardIfChanged.mockResolvedValue(answer(makeBoard([creek(), ridge()], undefined, 5), '"board-a"'));
+    const store = useBoardStore();
+    store.applyBoard(makeBoard([ridge()], undefined, 4));
+
+    store.applyDelta(delta(5, [{ farmId: 11, name: 'Creek site', tanks: [{ tankId: 2, usableL: 3_800 }] }]));
+
+    expect(api.fetchBoardIfChanged).toHaveBeenCalledTimes(1);
+    await vi.waitFor(() => expect(store.tiles.map((t) => t.tankId)).toEqual([1, 2, 3, 4]));
+    expect(store.tiles.find((t) => t.tankId === 2)!.usableL).toBe(900);
   });
 
   it('adds a farm it did not have, in name order, and drops tanks and farms that left', () => {

@@ -4,7 +4,7 @@
 // board on a phone.
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
-import type { BoardDelta } from '@shared/schemas';
+import type { BoardDelta, StockBoard } from '@shared/schemas';
 import { readScenario } from '../../server/services/demo';
 import { launch, pickOption, screenshot, signInAs, type Browser } from '../support/browser';
 
@@ -106,9 +106,14 @@ describe('round and live stock board', () => {
     expect(sockets).toHaveLength(1);
     // It came as a delta whose Hollin Ridge part carries only tiles of the round's four tanks (a background
     // job such as the frost forecast may change another farm in the same 100 ms window and share the delta).
-    const withRound = deltas.find((d) => d.farms.some((f) => f.tanks.some((t) => t.code === 'HR-W1')))!;
-    const hollin = withRound.farms.find((f) => f.tanks.some((t) => t.code === 'HR-W1'))!;
-    expect(hollin.tanks.map((t) => t.code).every((c) => ['HR-W1', 'HR-P1', 'HR-C1', 'HR-C2'].includes(c))).toBe(true);
+    // Tiles travel as their changed fields, so they are known by id (the board's own answer names them).
+    const shown = (await board.evaluate(() => fetch('/api/board').then((r) => r.json()))) as StockBoard;
+    const codeOf = new Map(shown.farms.flatMap((f) => f.tanks.map((t) => [t.tankId, t.code] as const)));
+    const withRound = deltas.find((d) => d.farms.some((f) => f.tanks.some((t) => codeOf.get(t.tankId) === 'HR-W1')))!;
+    const hollin = withRound.farms.find((f) => f.tanks.some((t) => codeOf.get(t.tankId) === 'HR-W1'))!;
+    expect(hollin.tanks.map((t) => codeOf.get(t.tankId)!).every((c) => ['HR-W1', 'HR-P1', 'HR-C1', 'HR-C2'].includes(c))).toBe(true);
+    // Of a tile the board already shows, a round changes the reading's figures, not its name or shape.
+    expect(hollin.tanks.every((t) => !('name' in t) && !('capacityL' in t))).toBe(true);
 
     for (const code of ['HR-C1', 'HR-C2', 'HR-P1']) expect(await phone.getByTestId(`round-result-${code}`).innerText()).toBe('Stored');
     expect(await phone.getByTestId('round-summary').innerText()).toContain('4 stored');

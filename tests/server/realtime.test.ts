@@ -2,6 +2,7 @@ import { randomUUID } from 'node:crypto';
 import { createServer, type Server } from 'node:http';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { io as connect, type Socket } from 'socket.io-client';
+import { totalsOf } from '@shared/board';
 import { boardDeltaSchema, type BoardDelta, type BoardStreamPosition, type StockBoard } from '@shared/schemas';
 import { attachRealtime, THROTTLE_MS } from '../../server/realtime';
 import { useTestApp } from '../support/db';
@@ -92,7 +93,7 @@ describe('realtime board', () => {
     await expect(open()).rejects.toThrow(/unauthenticated/);
   });
 
-  it('sends a numbered delta with only the changed tank, its farm\'s totals and the totals across the farm set', async () => {
+  it('sends a numbered delta with only the changed fields of the changed tank, from which the board\'s totals follow', async () => {
     const manager = await session(org.users.manager.email);
     await round(manager, org.farmIds[0], tankA2, 500);
     await new Promise((r) => setTimeout(r, 300));
@@ -111,12 +112,25 @@ describe('realtime board', () => {
     // Only tank A: its neighbour A2 on the same farm, read before, did not change.
     expect(farm.tanks.map((t) => t.tankId)).toEqual([tankA]);
     expect(farm.tanks[0].grossL).toBeCloseTo(600 * (Math.PI / 4), 6);
-    // The totals are those of a board read now, for the farm and for every farm the manager sees.
+    // Only what a reading changes: not the name, code, contents or shape the client has from the board.
+    for (const still of ['name', 'code', 'contents', 'capacityL', 'usableCapacityL', 'heightMm', 'outletHeightMm']) expect(farm.tanks[0]).not.toHaveProperty(still);
+    // Once the use rates worked out meanwhile have followed, every delta laid over the board read before
+    // gives the tiles of a board read now, and so do the totals worked out from them, for the farm and
+    // for every farm the manager sees.
+    await new Promise((r) => setTimeout(r, 500));
     const after = await board(manager);
-    expect(farm.totals).toEqual(after.farms.find((f) => f.farmId === org.farmIds[0])!.totals);
+    const folded = before.farms.map((f) => {
+      const tanks = f.tanks.map((t) => Object.assign({ ...t }, ...watch.deltas.flatMap((d) => d.farms.find((c) => c.farmId === f.farmId)?.tanks.filter((p) => p.tankId === t.tankId) ?? [])));
+      return { ...f, tanks, totals: totalsOf(tanks) };
+    });
+    const afterA = after.farms.find((f) => f.farmId === org.farmIds[0])!;
+    const foldedA = folded.find((f) => f.farmId === org.farmIds[0])!;
+    expect(foldedA.tanks.map((t) => ({ ...t, daysOfCover: null }))).toEqual(afterA.tanks.map((t) => ({ ...t, daysOfCover: null })));
+    expect(foldedA.totals).toEqual(afterA.totals);
     const water = (totals: StockBoard['totals']) => totals.find((t) => t.contents === 'water')!;
-    expect(water(delta.totals).grossL).toBeCloseTo(water(after.totals).grossL, 6);
-    expect(water(delta.totals).tanks).toBe(water(after.totals).tanks);
+    const acrossFarms = totalsOf(folded.flatMap((f) => f.tanks));
+    expect(water(acrossFarms).grossL).toBeCloseTo(water(after.totals).grossL, 6);
+    expect(water(acrossFarms).tanks).toBe(water(after.totals).tanks);
     expect(after.stream.seq).toBeGreaterThanOrEqual(delta.seq);
   });
 
@@ -171,8 +185,8 @@ describe('realtime board', () => {
     await round(manager, org.farmIds[0], tankC, 900);
     const tilesC = () => watch.deltas.flatMap((d) => d.farms.flatMap((f) => f.tanks)).filter((t) => t.tankId === tankC);
     await until(() => tilesC().some((t) => t.grossL != null));
-    // The first delta goes out at once, before the rate exists; the refreshed rate follows in a later one.
-    expect(tilesC().find((t) => t.grossL != null)!.useLPerDay).toBeNull();
+    // The first delta goes out at once, before the rate exists (none: null in a whole tile, or not sent as unchanged); the refreshed rate follows in a later one.
+    expect(tilesC().find((t) => t.grossL != null)!.useLPerDay ?? null).toBeNull();
     await until(() => tilesC().some((t) => t.useLPerDay != null));
   });
 });
