@@ -16,6 +16,7 @@ import type { Server as HttpServer } from 'node:http';
 import type { RequestHandler } from 'express';
 import { Server } from 'socket.io';
 import { clusterOf } from './cluster';
+import { redisLease } from './cluster/lease';
 import { WATCH_RENEW_MS } from './cluster/farm-sets';
 import type { ServerEventPayload, SessionUser } from '@shared/schemas';
 import type { AppContext } from './context';
@@ -27,6 +28,8 @@ import { keptSessionUser } from './services/signed-in-cache';
 import { answerTimingRequests, recordTiming } from './timings';
 
 export const THROTTLE_MS = 100;
+/** The bus topic on which each process tells the others (the delta builder among them) which farms changed. */
+const CHANGED_TOPIC = 'board-changed';
 /** How long after a push that failed it is tried again. */
 const RETRY_MS = 1_000;
 const farmRoom = (id: number) => `farm:${id}`;
@@ -142,6 +145,8 @@ export function attachRealtime(ctx: AppContext, http: HttpServer, sessionMiddlew
   // queue up behind each other and a slower earlier board never overtakes a later one.
   const flush = async () => {
     timer = null;
+    // The lease went to another process meanwhile: the changes wait here in case it comes back.
+    if (!building()) return;
     flushing = true;
     lastFlushAt = Date.now();
     const batch = [...dirty.entries()];
@@ -149,7 +154,7 @@ export function attachRealtime(ctx: AppContext, http: HttpServer, sessionMiddlew
     for (const [organisationId, { farms, since }] of batch) {
       await pushFarms(organisationId, farms, since).catch((err: unknown) => {
         pushFailed(err);
-        // Nothing of it went out (Redis away, the build's turn not had, the read failed): tried again a second
+        // Nothing of it went out (Redis away, the read failed): tried again a second
         // later with whatever changes meanwhile, so no change is left unsent without the clients seeing a gap.
         const pending = dirty.get(organisationId);
         if (pending) for (const id of farms) pending.farms.add(id);
@@ -162,15 +167,34 @@ export function attachRealtime(ctx: AppContext, http: HttpServer, sessionMiddlew
   };
   // Leading edge: a change after a quiet spell goes out at once; later ones within the window are gathered.
   const arm = () => {
-    if (timer || flushing) return;
+    if (timer || flushing || !building()) return;
     timer = setTimeout(() => void flush(), Math.max(0, lastFlushAt + THROTTLE_MS - Date.now()));
   };
-  const onBoardChange = ({ organisationId, farmIds }: BoardChange) => {
+  const noteChange = ({ organisationId, farmIds }: BoardChange) => {
     let pending = dirty.get(organisationId);
     if (!pending) dirty.set(organisationId, (pending = { farms: new Set(), since: Date.now() }));
     for (const id of farmIds) pending.farms.add(id);
     arm();
   };
+  const onBoardChange = (change: BoardChange) => {
+    if (builderLease) cluster.bus.publish(CHANGED_TOPIC, { organisationId: change.organisationId, farmIds: [...change.farmIds] } satisfies BoardChange);
+    noteChange(change);
+  };
+  // With several processes one builds every delta, the lease's holder; every process hears every
+  // change (its own, and the others' on the bus), so the next holder starts from what is pending.
+  const builderLease = cluster.redis
+    ? redisLease(cluster.redis, 'board-builder', ctx.logger, {
+        onGained: () => {
+          // What it kept from an earlier turn may be older than what another holder sent since.
+          deltas.forget();
+          const now = Date.now();
+          for (const pending of dirty.values()) pending.since = now;
+          arm();
+        },
+      })
+    : null;
+  const building = () => builderLease === null || builderLease.held();
+  const stopHearingChanges = builderLease ? cluster.bus.subscribe(CHANGED_TOPIC, (body) => noteChange(body as BoardChange)) : () => undefined;
   const onUserChanged = ({ userId }: { userId: number }) => {
     io.in(userRoom(userId)).disconnectSockets(true);
   };
@@ -257,7 +281,8 @@ export function attachRealtime(ctx: AppContext, http: HttpServer, sessionMiddlew
     clearInterval(sweeper);
     if (renewer) clearInterval(renewer);
     cluster.redis?.off('ready', renew);
-    deltas.close();
+    stopHearingChanges();
+    void builderLease?.close();
     if (timer) clearTimeout(timer);
   });
   return io;

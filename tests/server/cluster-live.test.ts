@@ -2,13 +2,15 @@
 // a reading posted through one reaches a socket on another and the board kept on the third; a signed-out
 // session's socket on another process is closed; Redis stopped for 10 s leaves the servers answering and
 // the boards resync after it returns; a process killed with SIGKILL while 20 workers post rounds loses no
-// acknowledged reading and its clients come back through the balancer to the board a fresh load shows.
+// acknowledged reading and its clients come back through the balancer to the board a fresh load shows;
+// and when the process that builds the deltas (the lease's holder) is killed, another takes over.
 // The boards are followed by the client's own board store (src/stores/board.ts) over real sockets.
 import { randomUUID } from 'node:crypto';
 import { mkdtempSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, inject, it, vi } from 'vitest';
+import pino from 'pino';
 import { createPinia, setActivePinia } from 'pinia';
 import { io as connect, type Socket } from 'socket.io-client';
 import type { BoardDelta, BoardStreamPosition, FarmBoard, RoundSubmitAnswer, StockBoard } from '@shared/schemas';
@@ -16,6 +18,7 @@ import { useBoardStore } from '@/stores/board';
 import { startHaproxy, type Haproxy } from '../../scripts/lib/haproxy';
 import { freePort } from '../../scripts/lib/ports';
 import { startRedis, type RedisServer } from '../../scripts/lib/redis';
+import { connectRedis } from '../../server/cluster/redis';
 import type { Database } from '../../server/db';
 import { clusterMember, type ClusterMember } from '../support/cluster-processes';
 import { makeOrganisation, type OrgFixture } from '../support/fixtures';
@@ -276,4 +279,46 @@ describe('three server processes on one Redis', () => {
     await boardsMatch(followers, manager, 15_000);
     members = members.filter((m) => m !== victim);
   }, 120_000);
+
+  it('goes on pushing through another process within 5 s when the process that builds the deltas is killed', async () => {
+    const { org, tanks } = await orgWithTanks(2);
+    const leases = await connectRedis(redis.url, pino({ level: 'silent' }), 'test');
+    try {
+      const holderPid = async () => Number(String(await leases.get('brimstock:lease:board-builder')).split(':')[0]);
+      // One of the running processes holds the lease (a holder killed before has had time to lapse).
+      const builder = await waitFor('the lease to name a running process', async () => {
+        const pid = await holderPid();
+        return members.find((m) => m.process.child.pid === pid);
+      }, 5_000, 100);
+      const survivor = members.find((m) => m !== builder)!;
+      const client = await Client.signIn(survivor.baseUrl, org.users.manager.email);
+      remote.base = survivor.baseUrl;
+      remote.cookie = client.cookie;
+      const board = await follower(survivor.baseUrl, client.cookie);
+
+      builder.process.child.kill('SIGKILL');
+      const killedAt = Date.now();
+      members = members.filter((m) => m !== builder);
+      // Readings keep coming; the survivor takes the lease once the dead holder's lapses, and pushes them.
+      let mm = 400;
+      const tank = tanks[0];
+      await waitFor(
+        'a push from the new builder',
+        async () => {
+          mm += 5;
+          await postRound(client, tank.farmId, tank.id, mm);
+          await new Promise((r) => setTimeout(r, 250));
+          return board.store.farms.flatMap((f) => f.tanks).some((t) => t.tankId === tank.id && t.levelMm === mm) ? true : undefined;
+        },
+        8_000,
+        0,
+      );
+      expect(Date.now() - killedAt).toBeLessThan(5_000);
+      expect(await holderPid()).toBe(survivor.process.child.pid);
+      await boardsMatch([board], client, 5_000);
+      board.socket.close();
+    } finally {
+      leases.destroy();
+    }
+  }, 60_000);
 });

@@ -1,5 +1,5 @@
-// The board streams' numbers in Redis (services/board-sequences.ts) and the turns of the delta builds
-// (cluster/turns.ts), each over two connections to a real redis-server as two server processes would
+// The board streams' numbers in Redis (services/board-sequences.ts) and the lease of the delta builder
+// (cluster/lease.ts), each over two connections to a real redis-server as two server processes would
 // hold them; and the sign-in limits' store that counts in memory while Redis cannot be reached.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import pino from 'pino';
@@ -7,7 +7,7 @@ import { MemoryStore, type Options } from 'express-rate-limit';
 import type { RedisServer } from '../../scripts/lib/redis';
 import { connectRedis, type RedisConnection } from '../../server/cluster/redis';
 import { fallbackStore } from '../../server/cluster/limit-store';
-import { redisTurns } from '../../server/cluster/turns';
+import { redisLease } from '../../server/cluster/lease';
 import { EPOCH_KEY, memorySequences, redisSequences } from '../../server/services/board-sequences';
 import { testRedis } from '../support/cluster-processes';
 
@@ -87,30 +87,50 @@ describe('board stream numbers in Redis', () => {
   });
 });
 
-describe('turns in Redis', () => {
-  it('runs the work of two processes for one key one after the other, and of two keys side by side', async () => {
-    const [one, two] = [redisTurns(await connection()), redisTurns(await connection())];
-    const log: string[] = [];
-    const work = (name: string) => async () => {
-      log.push(`${name} in`);
-      await new Promise((r) => setTimeout(r, 60));
-      log.push(`${name} out`);
-    };
-    const key = `k${Date.now()}`;
-    await Promise.all([one.take(key, work('a')), two.take(key, work('b'))]);
-    expect([log.slice(0, 2), log.slice(2)].map((pair) => pair[0].split(' ')[0] === pair[1].split(' ')[0])).toEqual([true, true]);
-    log.length = 0;
-    await Promise.all([one.take(`${key}-x`, work('c')), two.take(`${key}-y`, work('d'))]);
-    expect(log.slice(0, 2).sort()).toEqual(['c in', 'd in']);
+describe('the board builder lease in Redis', () => {
+  const until = async (what: string, check: () => boolean, ms: number) => {
+    const startedAt = Date.now();
+    while (!check()) {
+      if (Date.now() - startedAt > ms) throw new Error(`${what} not within ${ms} ms`);
+      await new Promise((r) => setTimeout(r, 10));
+    }
+    return Date.now() - startedAt;
+  };
+
+  it('is held by one of two processes at a time, and passes to the other once given back', async () => {
+    const name = `lease-${Date.now()}`;
+    const gained: string[] = [];
+    const one = redisLease(await connection(), name, logger, { holdMs: 600, tryMs: 100, onGained: () => gained.push('one') });
+    await until('a first holder', () => one.held(), 1_000);
+    const two = redisLease(await connection(), name, logger, { holdMs: 600, tryMs: 100, onGained: () => gained.push('two') });
+    // Renewed while it lives: the other never holds it meanwhile.
+    for (let i = 0; i < 10; i++) {
+      expect([one.held(), two.held()]).toEqual([true, false]);
+      await new Promise((r) => setTimeout(r, 100));
+    }
+    await one.close();
+    expect(one.held()).toBe(false);
+    // Given back: taken at the other's next try.
+    expect(await until('the second holder', () => two.held(), 1_000)).toBeLessThan(400);
+    expect(gained).toEqual(['one', 'two']);
+    await two.close();
   });
 
-  it('gives the turn back when the work fails', async () => {
-    const turns = redisTurns(await connection());
-    const key = `f${Date.now()}`;
-    await expect(turns.take(key, async () => Promise.reject(new Error('failed')))).rejects.toThrow('failed');
-    const startedAt = Date.now();
-    expect(await turns.take(key, async () => 'again')).toBe('again');
-    expect(Date.now() - startedAt).toBeLessThan(1_000);
+  it('passes to another process once its holder stops renewing (died or lost Redis), not before its hold lapses', async () => {
+    const name = `lapse-${Date.now()}`;
+    const dying = await connection();
+    const one = redisLease(dying, name, logger, { holdMs: 800, tryMs: 100 });
+    await until('a first holder', () => one.held(), 1_000);
+    const two = redisLease(await connection(), name, logger, { holdMs: 800, tryMs: 100 });
+    // The holder's connection goes, as when its process is killed.
+    dying.destroy();
+    const lostAt = Date.now();
+    // It stops counting itself the holder before the key can lapse for the other.
+    await until('the old holder to let go', () => !one.held(), 1_000);
+    const gainedAfter = await until('the second holder', () => two.held(), 2_000);
+    expect(Date.now() - lostAt).toBeGreaterThanOrEqual(600);
+    expect(gainedAfter).toBeLessThan(1_500);
+    await Promise.all([one.close(), two.close()]);
   });
 });
 
