@@ -8,11 +8,35 @@ const MS_PER_MINUTE = 60_000;
 const MS_PER_HOUR = 3_600_000;
 const MS_PER_DAY = 86_400_000;
 
-/** The UTC offset of `timeZone` at instant `at` (minutes, east positive); throws RangeError for an unknown zone. */
-export function utcOffsetMinutes(timeZone: string, at: number | Date): number {
+/** The offset straight from the zone database; throws RangeError for an unknown zone. */
+function offsetFromDatabase(timeZone: string, at: number): number {
   const minutes = tzOffset(timeZone, new Date(at));
   if (Number.isNaN(minutes)) throw new RangeError(`Unknown time zone "${timeZone}"`);
   return minutes;
+}
+
+/**
+ * Per zone, per UTC day (day number): the offset of the whole day when it is the same at the day's
+ * first and last millisecond, else null (a change that day: asked of the database each time). A zone
+ * changes its offset at most once in ~28 h, so equal ends mean no change in between. Reading a series
+ * asks for the offset of every reading: most of them are answered here.
+ */
+const dayOffsets = new Map<string, Map<number, number | null>>();
+const DAYS_KEPT_PER_ZONE = 20_000;
+
+/** The UTC offset of `timeZone` at instant `at` (minutes, east positive); throws RangeError for an unknown zone. */
+export function utcOffsetMinutes(timeZone: string, at: number | Date): number {
+  const ms = typeof at === 'number' ? at : at.getTime();
+  const day = Math.floor(ms / MS_PER_DAY);
+  let days = dayOffsets.get(timeZone);
+  const kept = days?.get(day);
+  if (kept !== undefined) return kept ?? offsetFromDatabase(timeZone, ms);
+  const first = offsetFromDatabase(timeZone, day * MS_PER_DAY);
+  const whole = first === offsetFromDatabase(timeZone, (day + 1) * MS_PER_DAY - 1) ? first : null;
+  if (!days) dayOffsets.set(timeZone, (days = new Map()));
+  if (days.size >= DAYS_KEPT_PER_ZONE) days.clear();
+  days.set(day, whole);
+  return whole ?? offsetFromDatabase(timeZone, ms);
 }
 
 const offsetMsAt = (timeZone: string, at: number) => Math.round(utcOffsetMinutes(timeZone, at) * MS_PER_MINUTE);
