@@ -3,12 +3,11 @@
 // order's drawer) at 1280 px; then in Spanish the same two screens on a 360 px phone, which must not
 // scroll sideways with the longer words. Neither shows an English word of the inputs and orders
 // messages; numbers carry the language's decimal comma. The buyer's language is set back afterwards.
-import { readFileSync } from 'node:fs';
-import { join } from 'node:path';
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { readScenario } from '../../server/services/demo';
 import { launch, screenshot, signInAs, type Browser } from '../support/browser';
+import { englishWordsIn, flatten, readArea, sessionLanguage, setLanguage, wordsOf } from '../support/page-language';
 
 const { baseUrl } = inject('app');
 const buyer = readScenario().people.find((p) => p.role === 'buyer')!;
@@ -19,34 +18,6 @@ const PHONE = { width: 360, height: 740 };
 const OWN_AREAS = ['inputs', 'orders'];
 /** Every area of the language, for the words it uses itself ("total", "stock", "notes" are French too). */
 const ALL_AREAS = ['app', 'common', 'words', 'errors', 'inputs', 'orders', 'suppliers', 'farms'];
-
-type Messages = { [key: string]: string | Messages };
-const messagesDir = join(process.cwd(), 'shared', 'i18n', 'messages');
-
-function readArea(language: string, area: string): Messages {
-  try {
-    return JSON.parse(readFileSync(join(messagesDir, language, `${area}.json`), 'utf8')) as Messages;
-  } catch {
-    return {};
-  }
-}
-
-function flatten(messages: Messages, prefix = ''): Map<string, string> {
-  const out = new Map<string, string>();
-  for (const [key, value] of Object.entries(messages)) {
-    if (typeof value === 'string') out.set(`${prefix}${key}`, value);
-    else for (const [k, v] of flatten(value, `${prefix}${key}.`)) out.set(k, v);
-  }
-  return out;
-}
-
-function wordsOf(text: string): string[] {
-  return text
-    .replace(/\{[^}]*\}/g, ' ')
-    .toLowerCase()
-    .split(/[^\p{L}]+/u)
-    .filter((w) => w.length > 1);
-}
 
 /** English words of the own areas' messages, less every word the language itself uses. */
 function englishOnlyWords(language: string): Set<string> {
@@ -84,26 +55,12 @@ async function dataTexts(page: Page): Promise<string[]> {
  * out: their words come from shared/cautions and are checked where they are translated.
  */
 async function englishIn(page: Page, selector: string, english: Set<string>, data: string[]): Promise<string[]> {
-  let text = await page.locator(selector).first().evaluate((root) => {
+  const text = await page.locator(selector).first().evaluate((root) => {
     const copy = root.cloneNode(true) as HTMLElement;
     copy.querySelectorAll('[data-testid$="caution"]').forEach((el) => el.remove());
     return copy.innerText ?? copy.textContent ?? '';
   });
-  for (const value of data) text = text.split(value).join(' ');
-  return [...new Set(wordsOf(text).filter((w) => english.has(w)))];
-}
-
-async function sessionLanguage(page: Page): Promise<string | null> {
-  return page.evaluate(async () => ((await (await fetch('/api/auth/session')).json()) as { user: { language: string | null } }).user.language);
-}
-
-async function setLanguage(page: Page, language: string): Promise<void> {
-  const status = await page.evaluate(async (lang) => {
-    const { csrfToken } = (await (await fetch('/api/auth/session')).json()) as { csrfToken: string };
-    const res = await fetch('/api/auth/me', { method: 'PATCH', headers: { 'Content-Type': 'application/json', 'X-CSRF-Token': csrfToken }, body: JSON.stringify({ language: lang }) });
-    return res.status;
-  }, language);
-  expect(status).toBe(200);
+  return englishWordsIn(text, english, data);
 }
 
 /** Drafts orders from the reorder list when the organisation has none yet, so the Orders screen has rows; returns their ids. */

@@ -11,6 +11,7 @@ import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { readScenario } from '../../server/services/demo';
 import { launch, pickOption, screenshot, signInAs, type Browser } from '../support/browser';
+import { englishWordsIn, flatten, messagesDir, readArea, sessionLanguage, setLanguage, wordsOf } from '../support/page-language';
 
 const { baseUrl } = inject('app');
 const manager = readScenario().people.find((p) => p.role === 'manager')!;
@@ -18,35 +19,6 @@ const root = join(import.meta.dirname, '../..');
 const SAMPLE = join(root, 'samples/loggers/mf-f1-date-time-2026-03-26.csv');
 const DESK = { width: 1280, height: 900 };
 const PHONE = { width: 360, height: 740 };
-
-type Messages = { [key: string]: string | Messages };
-const messagesDir = join(root, 'shared', 'i18n', 'messages');
-
-function readArea(language: string, area: string): Messages {
-  try {
-    return JSON.parse(readFileSync(join(messagesDir, language, `${area}.json`), 'utf8')) as Messages;
-  } catch {
-    return {};
-  }
-}
-
-function flatten(messages: Messages, prefix = ''): Map<string, string> {
-  const out = new Map<string, string>();
-  for (const [key, value] of Object.entries(messages)) {
-    if (typeof value === 'string') out.set(`${prefix}${key}`, value);
-    else for (const [k, v] of flatten(value, `${prefix}${key}.`)) out.set(k, v);
-  }
-  return out;
-}
-
-/** The lower-case words of a text: letters only, placeholders and literals such as {'%'} left out. */
-function wordsOf(text: string): string[] {
-  return text
-    .replace(/\{[^}]*\}/g, ' ')
-    .toLowerCase()
-    .split(/[^\p{L}]+/u)
-    .filter((w) => w.length > 1);
-}
 
 /** English words of the imports and brews messages whose Spanish differs, less every word any Spanish catalogue uses. */
 function englishOnlyWords(): Set<string> {
@@ -84,27 +56,14 @@ async function dataTexts(page: Page): Promise<string[]> {
 
 /** The English words the page shows now, without the organisation's data and the line words of the server and the row reader. */
 async function englishOnPage(page: Page, english: Set<string>, data: string[]): Promise<string[]> {
-  let text = await page.evaluate(() => {
+  const text = await page.evaluate(() => {
     const skip = document.querySelectorAll('.preview__verdict, .lines td:nth-child(4), [data-testid="imports-dry-run-message"], [data-testid="imports-result-error"], .p-toast');
     const hidden = [...skip].map((el) => (el as HTMLElement).innerText);
     let body = document.body.innerText;
     for (const piece of hidden) body = body.split(piece).join(' ');
     return body;
   });
-  for (const value of data) text = text.split(value).join(' ');
-  return [...new Set(wordsOf(text).filter((w) => english.has(w)))];
-}
-
-async function sessionLanguage(page: Page): Promise<string | null> {
-  return page.evaluate(async () => ((await (await fetch('/api/auth/session')).json()) as { user: { language: string | null } }).user.language);
-}
-async function setLanguage(page: Page, language: string): Promise<void> {
-  const status = await page.evaluate(async (lang) => {
-    const { csrfToken } = (await (await fetch('/api/auth/session')).json()) as { csrfToken: string };
-    const res = await fetch('/api/auth/me', { method: 'PATCH', headers: { 'Content-Type': 'application/json', 'X-CSRF-Token': csrfToken }, body: JSON.stringify({ language: lang }) });
-    return res.status;
-  }, language);
-  expect(status).toBe(200);
+  return englishWordsIn(text, english, data);
 }
 
 async function pick(page: Page, testId: string, option: string) {

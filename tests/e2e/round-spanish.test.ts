@@ -5,13 +5,12 @@
 // On Home, and on the round before and after sending (navigation included, at 1280 px and with the
 // phone's menu open at 360 px), the page holds no English word: none of the English messages of the
 // areas and cautions on the page that the Spanish ones do not also use, nor a short list of common ones.
-import { readFileSync } from 'node:fs';
-import { join } from 'node:path';
 import { afterEach, describe, expect, inject, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { CAUTION_TOPICS, CAUTION_WORD, cautionText, cautionTitle } from '@shared/cautions';
 import { readScenario } from '../../server/services/demo';
 import { launch, pickOption, screenshot, signInAs, type Browser } from '../support/browser';
+import { englishWordsIn, flatten, readArea, sessionLanguage, setLanguage, wordsOf } from '../support/page-language';
 
 const { baseUrl } = inject('app');
 const worker = readScenario().people.find((p) => p.role === 'worker')!;
@@ -22,36 +21,6 @@ const PHONE = { width: 360, height: 740 };
 const AREAS = ['app', 'round', 'home', 'common', 'words', 'tank', 'errors'];
 /** Common English words a screen in Spanish should never show (the brief's list, and the round's own nouns). */
 const COMMON_ENGLISH = ['the', 'and', 'of', 'tank', 'tanks', 'reading', 'readings', 'send', 'sent', 'litres', 'liters', 'ready', 'round', 'stored', 'usable', 'last', 'yet', 'waiting', 'water', 'culture', 'with', 'your', 'this', 'is', 'are', 'not', 'sign', 'out', 'home', 'farm', 'farms', 'flags', 'inputs', 'brews'];
-
-type Messages = { [key: string]: string | Messages };
-const messagesDir = join(process.cwd(), 'shared', 'i18n', 'messages');
-
-function readArea(language: string, area: string): Messages {
-  try {
-    return JSON.parse(readFileSync(join(messagesDir, language, `${area}.json`), 'utf8')) as Messages;
-  } catch {
-    return {};
-  }
-}
-
-/** Every message of an area, by its dotted key. */
-function flatten(messages: Messages, prefix = ''): Map<string, string> {
-  const out = new Map<string, string>();
-  for (const [key, value] of Object.entries(messages)) {
-    if (typeof value === 'string') out.set(`${prefix}${key}`, value);
-    else for (const [k, v] of flatten(value, `${prefix}${key}.`)) out.set(k, v);
-  }
-  return out;
-}
-
-/** The lower-case words of a text: letters only, placeholders and literals such as {'%'} left out. */
-function wordsOf(text: string): string[] {
-  return text
-    .replace(/\{[^}]*\}/g, ' ')
-    .toLowerCase()
-    .split(/[^\p{L}]+/u)
-    .filter((w) => w.length > 1);
-}
 
 /** The cautions as the page may show them (shared/cautions keeps their words), in `language`. */
 function cautionTexts(language: 'en' | 'es'): string[] {
@@ -93,22 +62,8 @@ async function dataTexts(page: Page): Promise<string[]> {
 
 /** The English words the page shows now, the organisation's own data taken out of its text first. */
 async function englishOnPage(page: Page, english: Set<string>, data: string[]): Promise<string[]> {
-  let text = await page.evaluate(() => document.body.innerText);
-  for (const value of data) text = text.split(value).join(' ');
-  return [...new Set(wordsOf(text).filter((w) => english.has(w)))];
-}
-
-/** The session as the server answers it, and a PATCH of the person's own profile (with the CSRF token). */
-async function sessionLanguage(page: Page): Promise<string | null> {
-  return page.evaluate(async () => ((await (await fetch('/api/auth/session')).json()) as { user: { language: string | null } }).user.language);
-}
-async function setLanguage(page: Page, language: string): Promise<void> {
-  const status = await page.evaluate(async (lang) => {
-    const { csrfToken } = (await (await fetch('/api/auth/session')).json()) as { csrfToken: string };
-    const res = await fetch('/api/auth/me', { method: 'PATCH', headers: { 'Content-Type': 'application/json', 'X-CSRF-Token': csrfToken }, body: JSON.stringify({ language: lang }) });
-    return res.status;
-  }, language);
-  expect(status).toBe(200);
+  const text = await page.evaluate(() => document.body.innerText);
+  return englishWordsIn(text, english, data);
 }
 
 const opened: Browser[] = [];
