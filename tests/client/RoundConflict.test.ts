@@ -2,9 +2,7 @@ import 'fake-indexeddb/auto';
 // A round entry the server could not store because another reading of the tank holds the same
 // moment: the round page names the tank, says what to do, and sends it again on the next press.
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
-import Dexie from 'dexie';
-import { closeDeviceDb } from '@/offline/db';
-import { settleDevice } from './support/device';
+import { freshDeviceDb, settleDevice } from './support/device';
 import { createPinia, setActivePinia, type Pinia } from 'pinia';
 import * as authApi from '@/api/auth';
 import * as boardApi from '@/api/board';
@@ -36,10 +34,7 @@ const culture = makeCultureTank();
 let pinia: Pinia;
 
 beforeEach(async () => {
-  // The last case's writes land first, so none reaches this case's fresh database.
-  await settleDevice();
-  closeDeviceDb();
-  await Dexie.delete('brimstock');
+  await freshDeviceDb();
   vi.clearAllMocks();
   localStorage.clear();
   document.body.innerHTML = '';

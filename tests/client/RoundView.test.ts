@@ -1,8 +1,6 @@
 import 'fake-indexeddb/auto';
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
-import Dexie from 'dexie';
-import { closeDeviceDb } from '@/offline/db';
-import { settleDevice } from './support/device';
+import { freshDeviceDb, settleDevice } from './support/device';
 import { createPinia, setActivePinia, type Pinia } from 'pinia';
 import * as authApi from '@/api/auth';
 import * as boardApi from '@/api/board';
@@ -44,10 +42,7 @@ async function mountAs(unitSystem: 'metric' | 'us' = 'metric') {
 }
 
 beforeEach(async () => {
-  // The last case's writes land first, so none reaches this case's fresh database.
-  await settleDevice();
-  closeDeviceDb();
-  await Dexie.delete('brimstock');
+  await freshDeviceDb();
   vi.clearAllMocks();
   localStorage.clear();
   document.body.innerHTML = '';

@@ -4,7 +4,6 @@
 // source; shared/readings/checks.ts).
 import 'fake-indexeddb/auto';
 import { beforeEach, describe, expect, it, vi } from 'vitest';
-import Dexie from 'dexie';
 import { createPinia, setActivePinia } from 'pinia';
 import type { RoundSubmitInput } from '@shared/schemas';
 import * as authApi from '@/api/auth';
@@ -12,10 +11,9 @@ import * as boardApi from '@/api/board';
 import * as farmsApi from '@/api/farms';
 import * as readingsApi from '@/api/readings';
 import * as tanksApi from '@/api/tanks';
-import { closeDeviceDb } from '@/offline/db';
 import { useRoundStore } from '@/stores/round';
 import { useSessionStore } from '@/stores/session';
-import { settleDevice } from './support/device';
+import { freshDeviceDb, settleDevice } from './support/device';
 import { makeFarm, makeUser, sessionOf } from './support/fixtures';
 import { makeBoard, makeCultureTank, makeFarmBoard, makeTile, makeWaterTank } from './support/tanks';
 
@@ -48,10 +46,7 @@ async function freshStore(unitSystem: 'metric' | 'us' = 'metric') {
 }
 
 beforeEach(async () => {
-  // The last case's writes land first, so none reaches this case's fresh database.
-  await settleDevice();
-  closeDeviceDb();
-  await Dexie.delete('brimstock');
+  await freshDeviceDb();
   vi.clearAllMocks();
   localStorage.clear();
   vi.mocked(farmsApi).fetchFarms.mockResolvedValue([makeFarm(11, 'Creek site')]);

@@ -3,7 +3,6 @@
 // with the same figures as the English ones. The water tank: 3.2 m across, 2.4 m tall, tube zero 60 mm up.
 import 'fake-indexeddb/auto';
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
-import Dexie from 'dexie';
 import { createPinia, setActivePinia } from 'pinia';
 import * as authApi from '@/api/auth';
 import * as boardApi from '@/api/board';
@@ -11,10 +10,9 @@ import * as farmsApi from '@/api/farms';
 import * as readingsApi from '@/api/readings';
 import * as tanksApi from '@/api/tanks';
 import { setLanguage } from '@/i18n';
-import { closeDeviceDb } from '@/offline/db';
 import { useRoundStore } from '@/stores/round';
 import { useSessionStore } from '@/stores/session';
-import { settleDevice } from './support/device';
+import { freshDeviceDb } from './support/device';
 import { makeFarm, makeUser, sessionOf } from './support/fixtures';
 import { makeBoard, makeCultureTank, makeFarmBoard, makeTile, makeWaterTank } from './support/tanks';
 
@@ -45,9 +43,7 @@ async function spanishRound() {
 }
 
 beforeEach(async () => {
-  await settleDevice();
-  closeDeviceDb();
-  await Dexie.delete('brimstock');
+  await freshDeviceDb();
   vi.clearAllMocks();
   localStorage.clear();
   vi.mocked(farmsApi).fetchFarms.mockResolvedValue([makeFarm(11, 'Creek site')]);

@@ -1,21 +1,20 @@
 import 'fake-indexeddb/auto';
 import { beforeEach, describe, expect, it, vi } from 'vitest';
-import Dexie from 'dexie';
 import { mount } from '@vue/test-utils';
 import PrimeVue from 'primevue/config';
 import { ApiError } from '@/api/http';
 import { offerUpdate, updateWaiting } from '@/offline/app-update';
-import { closeDeviceDb, type OutboxRound } from '@/offline/db';
+import type { OutboxRound } from '@/offline/db';
 import { enqueueRound, listOutbox, outboxWaitMs, sendOutbox } from '@/offline/outbox';
 import TheUpdatePrompt from '@/components/TheUpdatePrompt.vue';
+import { freshDeviceDb } from './support/device';
 
 const entry = (tankId: number, key: string) => ({ tankId, readingMm: 500, note: '', idempotencyKey: key.repeat(32) });
 const queue = (farmId: number, key: string) => enqueueRound({ userId: 3, farmId, farmName: `Farm ${farmId}`, takenAt: '2026-03-02T09:30:00.000Z', entries: [entry(farmId, key)] });
 const stored = (r: OutboxRound) => ({ results: r.entries.map((e) => ({ tankId: e.tankId, status: 'stored' as const })) });
 
 beforeEach(async () => {
-  closeDeviceDb();
-  await Dexie.delete('brimstock');
+  await freshDeviceDb();
 });
 
 describe('outboxWaitMs', () => {

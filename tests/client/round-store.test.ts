@@ -1,8 +1,7 @@
 import 'fake-indexeddb/auto';
 import { beforeEach, describe, expect, it, vi } from 'vitest';
-import { settleDevice } from './support/device';
+import { freshDeviceDb } from './support/device';
 import { createPinia, setActivePinia } from 'pinia';
-import Dexie from 'dexie';
 import { readingToVolumes } from '@shared/readings';
 import type { RoundEntryResult, RoundSubmitInput } from '@shared/schemas';
 import * as authApi from '@/api/auth';
@@ -11,7 +10,6 @@ import * as farmsApi from '@/api/farms';
 import { ApiError } from '@/api/http';
 import * as readingsApi from '@/api/readings';
 import * as tanksApi from '@/api/tanks';
-import { closeDeviceDb } from '@/offline/db';
 import { setupOf, useRoundStore } from '@/stores/round';
 import { LEGACY_STORAGE_PREFIX } from '@/stores/round-saved';
 import { useSessionStore } from '@/stores/session';
@@ -77,10 +75,7 @@ async function freshStore(unitSystem: 'metric' | 'us' = 'metric') {
 beforeEach(async () => {
   vi.clearAllMocks();
   localStorage.clear();
-  // The last case's writes land first, so none reaches this case's fresh database.
-  await settleDevice();
-  closeDeviceDb();
-  await Dexie.delete('brimstock');
+  await freshDeviceDb();
   farms.fetchFarms.mockResolvedValue([makeFarm(11, 'Creek site'), makeFarm(12, 'Ridge block')]);
   // Every farm's tanks come in one list (both fixtures are on farm 11).
   tanks.fetchTanks.mockImplementation(async ({ farmId } = {}) => [water, culture].filter((t) => farmId === undefined || t.farmId === farmId));

@@ -1,12 +1,10 @@
 import 'fake-indexeddb/auto';
 import { beforeEach, describe, expect, it, vi } from 'vitest';
 import { createPinia, setActivePinia } from 'pinia';
-import Dexie from 'dexie';
 import * as authApi from '@/api/auth';
 import { ApiError } from '@/api/http';
-import { closeDeviceDb } from '@/offline/db';
 import { useSessionStore } from '@/stores/session';
-import { settleDevice } from './support/device';
+import { freshDeviceDb, settleDevice } from './support/device';
 import { makeUser, sessionOf } from './support/fixtures';
 
 vi.mock('@/api/auth', () => ({ fetchSession: vi.fn(), signIn: vi.fn(), signOut: vi.fn(), updateProfile: vi.fn(), setPassword: vi.fn(), requestPasswordReset: vi.fn(), fetchTokenInfo: vi.fn() }));
@@ -26,9 +24,7 @@ async function startApp() {
 
 beforeEach(async () => {
   vi.clearAllMocks();
-  await settleDevice();
-  closeDeviceDb();
-  await Dexie.delete('brimstock');
+  await freshDeviceDb();
 });
 
 describe('useSessionStore without a way to the server', () => {
